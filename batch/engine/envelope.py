@@ -1,0 +1,192 @@
+"""Live-load envelopes of one member under a list of load cases.
+
+A *load case* is what the engine moves across the member: an axle train (with
+fixed or ranged spacings), an optional uniform lane load, a dynamic load
+allowance on the axles and a multiplier. A workbook vehicle is one load case; a
+library load model may expand to several (its parts), each with its own label.
+
+For every effect (moment and shear at every station, every reaction) the
+envelope keeps the largest and smallest value over all load cases, positions,
+directions and spacings, and which case, front-axle position and direction
+give it. Values are
+
+    factor * DF * ((1 + IM) * axle_effect + lane_load * adverse_area)
+
+with DF the member's moment distribution factor for moments and its shear
+factor for shears and reactions. Sign conventions are those of
+:mod:`batch.engine.influence`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from numpy.typing import NDArray
+
+from batch.engine.influence import InfluenceLines, influence_lines
+from batch.engine.moving import LEFT_TO_RIGHT, RIGHT_TO_LEFT, axle_extremes
+from batch.model import Member
+
+__all__ = ["Extremes", "LoadCase", "MemberEnvelope", "member_envelope", "member_influence"]
+
+#: An extreme smaller than this fraction of the case's natural size is round-off, not an effect.
+ZERO_TOL = 1e-10
+
+DIRECTION_CODES: dict[str, tuple[int, ...]] = {
+    "both": (LEFT_TO_RIGHT, RIGHT_TO_LEFT),
+    "left-to-right": (LEFT_TO_RIGHT,),
+    "right-to-left": (RIGHT_TO_LEFT,),
+}
+
+#: Where a load case applies. ``interior-hogging`` is the HL-93 rule for two trucks:
+#: hogging moment between points of contraflexure under uniform load, and interior reactions.
+SCOPES = ("all", "interior-hogging")
+
+
+@dataclass(frozen=True, kw_only=True)
+class LoadCase:
+    """One train of axles (and lane load) moved across the member.
+
+    ``axle_loads`` front axle first (force); ``spacing_low``/``spacing_high``
+    bound each gap (length); ``lane_load`` force per length; ``impact`` the
+    dynamic load allowance on axles (fraction); ``factor`` multiplies all.
+    """
+
+    label: str
+    axle_loads: tuple[float, ...]
+    spacing_low: tuple[float, ...] = ()
+    spacing_high: tuple[float, ...] = ()
+    lane_load: float = 0.0
+    impact: float = 0.0
+    factor: float = 1.0
+    scope: str = "all"
+    vehicle: int = 0  # index of the fleet vehicle this case belongs to
+
+
+@dataclass(frozen=True, kw_only=True)
+class Extremes:
+    """The governing value of one effect family and sense, row by row.
+
+    ``case`` indexes the load cases (-1 where no case gives a value of that
+    sign, in which case ``value`` is 0); ``position`` is the governing front
+    axle's x (NaN when only a lane load acts); ``direction`` is +1 left to
+    right, -1 right to left, 0 none.
+    """
+
+    value: NDArray[np.float64]
+    case: NDArray[np.int64]
+    position: NDArray[np.float64]
+    direction: NDArray[np.int8]
+
+
+@dataclass(frozen=True, kw_only=True)
+class MemberEnvelope:
+    """Envelopes of one member: station rows (M, V) and support rows (R)."""
+
+    member: str
+    labels: tuple[str, ...]
+    station_span: NDArray[np.int64]
+    station_fraction: NDArray[np.float64]
+    station_x: NDArray[np.float64]
+    support_x: NDArray[np.float64]
+    m_max: Extremes
+    m_min: Extremes
+    v_max: Extremes
+    v_min: Extremes
+    r_max: Extremes
+    r_min: Extremes
+
+
+def member_influence(member: Member, stations_per_span: int) -> InfluenceLines:
+    """Influence lines of a model member (see :func:`influence_lines`)."""
+    return influence_lines(member.spans, member.stiffness, member.hinges, stations_per_span)
+
+
+def _scoped(il: InfluenceLines, scope: str) -> NDArray[np.bool_]:
+    """Which effects (rows) a case of this scope may govern, as (n_effects, 2) for max/min."""
+    applies = np.ones((il.n_effects, 2), dtype=bool)
+    if scope == "all":
+        return applies
+    if scope != "interior-hogging":
+        raise ValueError(f"unknown load-case scope {scope!r}")
+    _, _, total = _uniform_effects(il)
+    hogging = total[il.moment_rows] < 0
+    applies[:] = False
+    applies[il.moment_rows, 1] = hogging
+    interior = np.arange(il.reaction_rows.start + 1, il.n_effects - 1)
+    applies[interior, :] = True
+    return applies
+
+
+def _uniform_effects(
+    il: InfluenceLines,
+) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
+    positive, negative = il.areas()
+    return positive, negative, positive + negative
+
+
+def member_envelope(
+    member: Member,
+    cases: list[LoadCase] | tuple[LoadCase, ...],
+    stations_per_span: int = 10,
+    directions: str = "both",
+    il: InfluenceLines | None = None,
+) -> MemberEnvelope:
+    """Envelope of every effect of ``member`` over all ``cases``.
+
+    Units follow the inputs (e.g. kip and ft give kip-ft moments and kip
+    shears). Raises ``ValueError`` for a malformed member or case and
+    :class:`batch.engine.influence.UnstableMemberError` for a mechanism.
+    """
+    il = il if il is not None else member_influence(member, stations_per_span)
+    positive, negative, _ = _uniform_effects(il)
+    n_eff = il.n_effects
+    df = np.full(n_eff, member.df_shear)
+    df[il.moment_rows] = member.df_moment
+    natural = il.effect_scale
+    dirs = DIRECTION_CODES[directions]
+    best = {
+        sense: (np.zeros(n_eff), np.full(n_eff, -1), np.full(n_eff, np.nan), np.zeros(n_eff, np.int8))
+        for sense in ("max", "min")
+    }
+    for index, case in enumerate(cases):
+        ax = axle_extremes(il, case.axle_loads, case.spacing_low, case.spacing_high or None, dirs)
+        scale = case.factor * df
+        applies = _scoped(il, case.scope)
+        size = natural * (sum(case.axle_loads) * (1 + case.impact) + case.lane_load * il.length)
+        for col, (sense, axle_v, axle_p, axle_d, lane) in enumerate(
+            (
+                ("max", ax.max_value, ax.max_position, ax.max_direction, positive),
+                ("min", ax.min_value, ax.min_position, ax.min_direction, negative),
+            )
+        ):
+            axle_part = np.where(np.abs(axle_v) > ZERO_TOL * size, axle_v, 0.0)
+            value = scale * ((1 + case.impact) * axle_part + case.lane_load * lane)
+            value = np.where(np.abs(value) > ZERO_TOL * size * scale, value, 0.0)
+            sign = 1.0 if sense == "max" else -1.0
+            cur_v, cur_c, cur_p, cur_d = best[sense]
+            better = applies[:, col] & (sign * value > sign * cur_v)
+            cur_v[better] = value[better]
+            cur_c[better] = index
+            cur_p[better] = np.where(axle_part != 0.0, axle_p, np.nan)[better]
+            cur_d[better] = np.where(axle_part != 0.0, axle_d, 0)[better]
+
+    def pick(sense: str, rows: slice) -> Extremes:
+        v, c, p, d = best[sense]
+        return Extremes(value=v[rows], case=c[rows], position=p[rows], direction=d[rows])
+
+    return MemberEnvelope(
+        member=member.id,
+        labels=tuple(c.label for c in cases),
+        station_span=il.station_span,
+        station_fraction=il.station_fraction,
+        station_x=il.station_x,
+        support_x=il.support_x,
+        m_max=pick("max", il.moment_rows),
+        m_min=pick("min", il.moment_rows),
+        v_max=pick("max", il.shear_rows),
+        v_min=pick("min", il.shear_rows),
+        r_max=pick("max", il.reaction_rows),
+        r_min=pick("min", il.reaction_rows),
+    )

@@ -1,0 +1,380 @@
+"""Exact influence lines of a continuous girder line with internal hinges.
+
+Method
+------
+The member is a line of Euler–Bernoulli beam elements between *nodes* (supports,
+hinges and the two ends), each span with its own constant EI. For a unit
+downward load at a point of an element, the consistent (Hermite) nodal load
+vector is the exact fixed-end action, so the direct stiffness method gives exact
+nodal displacements and exact support reactions. The reactions are therefore
+cubic polynomials of the load position within each element:
+
+    R_i(x) = -sum_l T[i, g_l] * s_l * N_l(xi),   xi = (x - a) / h
+
+with N_l the cubic Hermite shape functions, s = (1, h, 1, h) and T the matrix
+that maps nodal loads to support reactions (``K_rf K_ff^-1`` on free degrees of
+freedom, ``-I`` on restrained ones). Moment and shear influence lines at a
+station then follow from the statics of the part left of the section, so they
+are exact piecewise cubics too (piecewise linear where the member is
+statically determinate), with their kink or unit jump at the station.
+
+Sign conventions (those of the workbook contract)
+-------------------------------------------------
+* load: a unit force acting downward at position x (from the left end);
+* moment: sagging positive;
+* shear: V = sum of the upward forces on the part left of the section
+  (V = dM/dx); the section is just right of the station, except at station
+  fraction 1 of a span, where it is just left;
+* reactions: upward positive.
+
+All influence lines are stored on one common partition of [0, L] (nodes and
+stations), as power-basis cubic coefficients in the local coordinate
+t = x - breaks[j] of each piece.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from numpy.typing import NDArray
+
+__all__ = ["InfluenceLines", "UnstableMemberError", "influence_lines", "mechanism_parts"]
+
+#: Two positions closer than this fraction of the member length are the same point.
+POSITION_TOL = 1e-10
+
+# Cubic Hermite shape functions in power basis of xi (rows N1..N4, columns xi^0..xi^3).
+_HERMITE = np.array(
+    [
+        [1.0, 0.0, -3.0, 2.0],
+        [0.0, 1.0, -2.0, 1.0],
+        [0.0, 0.0, 3.0, -2.0],
+        [0.0, 0.0, -1.0, 1.0],
+    ]
+)
+
+
+class UnstableMemberError(ValueError):
+    """The supports and hinges of a member leave part of it free to move."""
+
+
+@dataclass(frozen=True, eq=False)
+class InfluenceLines:
+    """Influence lines of every effect of one member on a common partition.
+
+    Effects are laid out in rows: first the moment at each station, then the
+    shear at each station, then the reaction at each support (left to right).
+    ``coef[e, j, n]`` is the coefficient of t**n on piece j (t = x - breaks[j]).
+    Lengths in the member's length unit; moment ordinates in length units per
+    unit load, shear and reaction ordinates dimensionless.
+    """
+
+    length: float
+    breaks: NDArray[np.float64]
+    coef: NDArray[np.float64]
+    station_span: NDArray[np.int64]
+    station_fraction: NDArray[np.float64]
+    station_x: NDArray[np.float64]
+    support_x: NDArray[np.float64]
+
+    @property
+    def n_stations(self) -> int:
+        """Number of station rows (an interior support counts twice)."""
+        return int(self.station_x.size)
+
+    @property
+    def n_effects(self) -> int:
+        """Number of influence lines (moments, shears, reactions)."""
+        return int(self.coef.shape[0])
+
+    @property
+    def moment_rows(self) -> slice:
+        """Rows of the moment influence lines, one per station."""
+        return slice(0, self.n_stations)
+
+    @property
+    def shear_rows(self) -> slice:
+        """Rows of the shear influence lines, one per station."""
+        return slice(self.n_stations, 2 * self.n_stations)
+
+    @property
+    def reaction_rows(self) -> slice:
+        """Rows of the reaction influence lines, one per support."""
+        return slice(2 * self.n_stations, self.n_effects)
+
+    @property
+    def effect_scale(self) -> NDArray[np.float64]:
+        """Natural size of each effect's ordinates: L for moments, 1 otherwise."""
+        scale = np.ones(self.n_effects)
+        scale[self.moment_rows] = self.length
+        return scale
+
+    def evaluate(self, x: NDArray[np.float64] | float, side: str = "right") -> NDArray[np.float64]:
+        """Ordinates of every effect for a unit load at each position ``x``.
+
+        ``side`` picks the one-sided limit at a jump ("right": load just right of
+        x; "left": just left). A load on the member's end supports counts as on
+        the member; positions outside [0, L] give 0. Returns shape
+        (n_effects, len(x)).
+        """
+        xs = np.atleast_1d(np.asarray(x, dtype=float))
+        tol = POSITION_TOL * self.length
+        n_pieces = self.breaks.size - 1
+        if side == "right":
+            j = np.searchsorted(self.breaks, xs, side="right") - 1
+        elif side == "left":
+            j = np.searchsorted(self.breaks, xs, side="left") - 1
+        else:
+            raise ValueError("side must be 'right' or 'left'")
+        on = (xs >= -tol) & (xs <= self.length + tol)
+        j = np.clip(j, 0, n_pieces - 1)
+        t = xs - self.breaks[j]
+        c = self.coef[:, j, :]
+        out = ((c[..., 3] * t + c[..., 2]) * t + c[..., 1]) * t + c[..., 0]
+        return np.where(on, out, 0.0)
+
+    def areas(self) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+        """Exact integrals of the positive and the negative parts of each line.
+
+        Returns ``(positive, negative)``, each of shape (n_effects,), with
+        ``negative <= 0``. Multiplied by a uniform load per unit length they give
+        the effect of that load placed on the adverse parts only. Zero crossings
+        inside each cubic piece are found to machine precision.
+        """
+        from batch.engine.polynomials import cubic_roots_in
+
+        h = np.diff(self.breaks)
+        c = self.coef
+        roots = cubic_roots_in(c[..., 0], c[..., 1], c[..., 2], c[..., 3], h)  # (E, J, 3)
+        cuts = np.concatenate(
+            [np.zeros(c.shape[:2] + (1,)), roots, np.broadcast_to(h, c.shape[:2])[..., None]],
+            axis=-1,
+        )
+        cuts = np.sort(np.where(np.isnan(cuts), h[None, :, None], cuts), axis=-1)
+        lo, hi = cuts[..., :-1], cuts[..., 1:]
+
+        def antiderivative(t: NDArray[np.float64]) -> NDArray[np.float64]:
+            k = c[..., None, :]
+            return t * (k[..., 0] + t * (k[..., 1] / 2 + t * (k[..., 2] / 3 + t * k[..., 3] / 4)))
+
+        part = antiderivative(hi) - antiderivative(lo)
+        positive = np.where(part > 0, part, 0.0).sum(axis=(1, 2))
+        negative = np.where(part < 0, part, 0.0).sum(axis=(1, 2))
+        return positive, negative
+
+
+def mechanism_parts(
+    spans: tuple[float, ...] | list[float], hinges: tuple[float, ...] | list[float]
+) -> list[tuple[float, float]]:
+    """Parts of a member that can move as a rigid-body mechanism.
+
+    The member between consecutive hinges (and its ends) is a set of rigid
+    segments, each with a vertical translation and a rotation; every support
+    fixes the deflection at its point and every hinge joins the deflections of
+    its two segments. The member is stable when only the zero motion satisfies
+    these constraints. Returns the (start, end) of every segment that can move;
+    an empty list means the member is stable.
+    """
+    supports = np.concatenate([[0.0], np.cumsum(spans)])
+    length = float(supports[-1])
+    tol = POSITION_TOL * length
+    cuts = np.concatenate([[0.0], np.sort(np.asarray(hinges, dtype=float)), [length]])
+    n_seg = cuts.size - 1
+    rows = []
+    for xs in supports:
+        for s in range(n_seg):
+            if cuts[s] - tol <= xs <= cuts[s + 1] + tol:
+                row = np.zeros(2 * n_seg)
+                row[2 * s], row[2 * s + 1] = 1.0, (xs - cuts[s]) / length
+                rows.append(row)
+    for s in range(1, n_seg):
+        row = np.zeros(2 * n_seg)
+        row[2 * (s - 1)], row[2 * (s - 1) + 1] = 1.0, (cuts[s] - cuts[s - 1]) / length
+        row[2 * s] = -1.0
+        rows.append(row)
+    a = np.array(rows)
+    _, sv, vt = np.linalg.svd(a)
+    rank = int(np.sum(sv > 1e-9 * sv[0]))
+    free = vt[rank:]
+    if free.shape[0] == 0:
+        return []
+    motion = np.abs(free).max(axis=0).reshape(n_seg, 2).max(axis=1)
+    return [(float(cuts[s]), float(cuts[s + 1])) for s in range(n_seg) if motion[s] > 1e-9]
+
+
+def _station_positions(
+    supports: NDArray[np.float64], n_per_span: int
+) -> tuple[NDArray[np.int64], NDArray[np.float64], NDArray[np.float64]]:
+    n_spans = supports.size - 1
+    frac = np.arange(n_per_span + 1) / n_per_span
+    span = np.repeat(np.arange(1, n_spans + 1), n_per_span + 1)
+    fraction = np.tile(frac, n_spans)
+    start, end = supports[span - 1], supports[span]
+    x = start + fraction * (end - start)
+    x[fraction == 1.0] = end[fraction == 1.0]  # exact support positions
+    return span, fraction, x
+
+
+def _merge(points: NDArray[np.float64], tol: float) -> NDArray[np.float64]:
+    p = np.sort(points)
+    keep = np.concatenate([[True], np.diff(p) > tol])
+    return p[keep]
+
+
+def _reaction_cubics(
+    nodes: NDArray[np.float64],
+    supports: NDArray[np.float64],
+    hinges: NDArray[np.float64],
+    span_ei: NDArray[np.float64],
+    tol: float,
+) -> NDArray[np.float64]:
+    """Reaction influence cubics per element: shape (n_supports, n_elements, 4), basis (x - a)^n."""
+    n_nodes = nodes.size
+    is_hinge = np.array([np.any(np.abs(hinges - x) <= tol) for x in nodes])
+    # Degrees of freedom: v at every node; one rotation, or two at a hinge (left, right).
+    v_dof = np.arange(n_nodes)
+    rot_left = np.empty(n_nodes, dtype=int)
+    rot_right = np.empty(n_nodes, dtype=int)
+    nxt = n_nodes
+    for i in range(n_nodes):
+        rot_left[i] = nxt
+        nxt += 1
+        if is_hinge[i]:
+            rot_right[i] = nxt
+            nxt += 1
+        else:
+            rot_right[i] = rot_left[i]
+    n_dof = nxt
+    k = np.zeros((n_dof, n_dof))
+    elements = []
+    for e in range(n_nodes - 1):
+        a, b = nodes[e], nodes[e + 1]
+        h = b - a
+        span = min(int(np.searchsorted(supports, 0.5 * (a + b))) - 1, span_ei.size - 1)
+        ei = span_ei[span]
+        ke = (ei / h**3) * np.array(
+            [
+                [12, 6 * h, -12, 6 * h],
+                [6 * h, 4 * h * h, -6 * h, 2 * h * h],
+                [-12, -6 * h, 12, -6 * h],
+                [6 * h, 2 * h * h, -6 * h, 4 * h * h],
+            ]
+        )
+        g = np.array([v_dof[e], rot_right[e], v_dof[e + 1], rot_left[e + 1]])
+        k[np.ix_(g, g)] += ke
+        elements.append((a, h, g))
+    restrained = np.array(
+        [v_dof[int(np.argmin(np.abs(nodes - s)))] for s in supports], dtype=int
+    )
+    free = np.setdiff1d(np.arange(n_dof), restrained)
+    transfer = np.zeros((restrained.size, n_dof))
+    transfer[:, free] = np.linalg.solve(k[np.ix_(free, free)], k[np.ix_(free, restrained)]).T
+    transfer[np.arange(restrained.size), restrained] = -1.0
+    out = np.empty((restrained.size, n_nodes - 1, 4))
+    for e, (_, h, g) in enumerate(elements):
+        weights = -transfer[:, g] * np.array([1.0, h, 1.0, h])  # (n_sup, 4 shape functions)
+        xi_coef = weights @ _HERMITE  # coefficients of xi^n
+        out[:, e, :] = xi_coef / h ** np.arange(4)
+    return out
+
+
+def _shift(coef: NDArray[np.float64], d: NDArray[np.float64]) -> NDArray[np.float64]:
+    """Re-expand cubics sum c_n u^n about u = d: coefficients of (u - d)^m."""
+    c0, c1, c2, c3 = (coef[..., n] for n in range(4))
+    return np.stack(
+        [
+            c0 + d * (c1 + d * (c2 + d * c3)),
+            c1 + d * (2 * c2 + 3 * d * c3),
+            c2 + 3 * d * c3,
+            c3,
+        ],
+        axis=-1,
+    )
+
+
+def influence_lines(
+    spans: tuple[float, ...] | list[float],
+    span_ei: tuple[float, ...] | list[float] | None = None,
+    hinges: tuple[float, ...] | list[float] = (),
+    stations_per_span: int = 10,
+) -> InfluenceLines:
+    """Exact influence lines of moment and shear at every station and of every reaction.
+
+    ``spans`` are the span lengths left to right (any consistent length unit);
+    ``span_ei`` the relative EI of each span (default all 1); ``hinges`` the
+    internal moment releases, measured from the left end, strictly inside the
+    member. Stations are at fractions 0, 1/n, ..., 1 of every span. Raises
+    :class:`UnstableMemberError` when the layout is a mechanism and
+    ``ValueError`` for malformed geometry.
+    """
+    spans_a = np.asarray(spans, dtype=float)
+    if spans_a.ndim != 1 or spans_a.size == 0 or np.any(~np.isfinite(spans_a)) or np.any(
+        spans_a <= 0
+    ):
+        raise ValueError("span lengths must be one or more finite numbers greater than zero")
+    ei = np.ones(spans_a.size) if span_ei is None or len(span_ei) == 0 else np.asarray(
+        span_ei, dtype=float
+    )
+    if ei.shape != spans_a.shape or np.any(~np.isfinite(ei)) or np.any(ei <= 0):
+        raise ValueError("give one relative EI greater than zero for each span")
+    if stations_per_span < 1:
+        raise ValueError("stations per span must be a whole number of at least 1")
+    supports = np.concatenate([[0.0], np.cumsum(spans_a)])
+    length = float(supports[-1])
+    tol = POSITION_TOL * length
+    hinge_a = np.sort(np.asarray(hinges, dtype=float))
+    if np.any(hinge_a <= tol) or np.any(hinge_a >= length - tol):
+        raise ValueError("hinges must lie strictly inside the member")
+    moving = mechanism_parts(spans_a.tolist(), hinge_a.tolist())
+    if moving:
+        where = ", ".join(f"{a:g} to {b:g}" for a, b in moving)
+        raise UnstableMemberError(
+            f"the hinges make the member a mechanism: the part from {where} can move "
+            "without resistance; remove a hinge or move it so that every part between "
+            "hinges rests on at least two supports, or on one support and a neighbouring part"
+        )
+    nodes = _merge(np.concatenate([supports, hinge_a]), tol)
+    element_cubics = _reaction_cubics(nodes, supports, hinge_a, ei, tol)
+
+    span_no, fraction, sx = _station_positions(supports, stations_per_span)
+    breaks = _merge(np.concatenate([nodes, sx]), tol)
+    breaks[-1] = length
+    # Snap stations onto the merged partition so that jumps sit exactly on breaks.
+    sx = breaks[np.abs(breaks[None, :] - sx[:, None]).argmin(axis=1)]
+    elem = np.clip(np.searchsorted(nodes, breaks[:-1], side="right") - 1, 0, nodes.size - 2)
+    reactions = _shift(element_cubics[:, elem, :], breaks[:-1] - nodes[elem])  # (S, J, 4)
+
+    piece_start = breaks[:-1]
+    piece_end = breaks[1:]
+    just_left = fraction == 1.0
+    # Moment at station s: sum over supports left of s of R_i (s - x_i), minus (s - x) for x < s.
+    lever = np.clip(sx[:, None] - supports[None, :], 0.0, None)  # (N, S)
+    moment = np.einsum("ns,sjk->njk", lever, reactions)
+    left_of = piece_end[None, :] <= sx[:, None] + tol  # (N, J) piece lies left of the station
+    moment[..., 0] -= np.where(left_of, sx[:, None] - piece_start[None, :], 0.0)
+    moment[..., 1] += np.where(left_of, 1.0, 0.0)
+    # Shear: supports at the station belong to the left part when the section is just right.
+    inside = np.where(
+        just_left[:, None],
+        supports[None, :] < sx[:, None] - tol,
+        supports[None, :] <= sx[:, None] + tol,
+    ).astype(float)
+    shear = np.einsum("ns,sjk->njk", inside, reactions)
+    shear[..., 0] -= left_of
+    coef = np.concatenate([moment, shear, reactions], axis=0)
+    # Round-off below 1e-12 of an effect's natural size is noise (e.g. moment at a hinge).
+    scale = np.ones(coef.shape[0])
+    scale[: sx.size] = length
+    h = piece_end - piece_start
+    size = np.abs(coef) * (h[None, :, None] ** np.arange(4))
+    coef = np.where(size < 1e-12 * scale[:, None, None], 0.0, coef)
+    return InfluenceLines(
+        length=length,
+        breaks=breaks,
+        coef=coef,
+        station_span=span_no,
+        station_fraction=fraction,
+        station_x=sx,
+        support_x=supports,
+    )
