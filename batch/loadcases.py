@@ -14,7 +14,9 @@ def _vehicle_cases(vehicle: Vehicle, index: int, settings: Settings) -> list[Loa
         parts = library.model_cases(vehicle.library, settings.units, settings.impact)
         return [
             LoadCase(
-                label=part.label if part.label.startswith(vehicle.id) else f"{vehicle.id}: {part.label}",
+                label=part.label
+                if part.label.startswith(vehicle.id)
+                else f"{vehicle.id}: {part.label}",
                 axle_loads=part.axle_loads,
                 spacing_low=part.spacing_low,
                 spacing_high=part.spacing_high,

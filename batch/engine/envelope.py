@@ -147,7 +147,12 @@ def member_envelope(
     natural = il.effect_scale
     dirs = DIRECTION_CODES[directions]
     best = {
-        sense: (np.zeros(n_eff), np.full(n_eff, -1), np.full(n_eff, np.nan), np.zeros(n_eff, np.int8))
+        sense: (
+            np.zeros(n_eff),
+            np.full(n_eff, -1),
+            np.full(n_eff, np.nan),
+            np.zeros(n_eff, np.int8),
+        )
         for sense in ("max", "min")
     }
     for index, case in enumerate(cases):

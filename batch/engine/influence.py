@@ -148,7 +148,7 @@ class InfluenceLines:
         c = self.coef
         roots = cubic_roots_in(c[..., 0], c[..., 1], c[..., 2], c[..., 3], h)  # (E, J, 3)
         cuts = np.concatenate(
-            [np.zeros(c.shape[:2] + (1,)), roots, np.broadcast_to(h, c.shape[:2])[..., None]],
+            [np.zeros((*c.shape[:2], 1)), roots, np.broadcast_to(h, c.shape[:2])[..., None]],
             axis=-1,
         )
         cuts = np.sort(np.where(np.isnan(cuts), h[None, :, None], cuts), axis=-1)
@@ -264,9 +264,7 @@ def _reaction_cubics(
         g = np.array([v_dof[e], rot_right[e], v_dof[e + 1], rot_left[e + 1]])
         k[np.ix_(g, g)] += ke
         elements.append((a, h, g))
-    restrained = np.array(
-        [v_dof[int(np.argmin(np.abs(nodes - s)))] for s in supports], dtype=int
-    )
+    restrained = np.array([v_dof[int(np.argmin(np.abs(nodes - s)))] for s in supports], dtype=int)
     free = np.setdiff1d(np.arange(n_dof), restrained)
     transfer = np.zeros((restrained.size, n_dof))
     transfer[:, free] = np.linalg.solve(k[np.ix_(free, free)], k[np.ix_(free, restrained)]).T
@@ -309,12 +307,17 @@ def influence_lines(
     ``ValueError`` for malformed geometry.
     """
     spans_a = np.asarray(spans, dtype=float)
-    if spans_a.ndim != 1 or spans_a.size == 0 or np.any(~np.isfinite(spans_a)) or np.any(
-        spans_a <= 0
+    if (
+        spans_a.ndim != 1
+        or spans_a.size == 0
+        or np.any(~np.isfinite(spans_a))
+        or np.any(spans_a <= 0)
     ):
         raise ValueError("span lengths must be one or more finite numbers greater than zero")
-    ei = np.ones(spans_a.size) if span_ei is None or len(span_ei) == 0 else np.asarray(
-        span_ei, dtype=float
+    ei = (
+        np.ones(spans_a.size)
+        if span_ei is None or len(span_ei) == 0
+        else np.asarray(span_ei, dtype=float)
     )
     if ei.shape != spans_a.shape or np.any(~np.isfinite(ei)) or np.any(ei <= 0):
         raise ValueError("give one relative EI greater than zero for each span")

@@ -105,7 +105,12 @@ def _group_candidates(
         [(j_right, 0), (j_right, 1), (j_right, 2), (j_right, 3), (j_left, 0)]
     ):
         ok = (j >= 0) & (j < n_pieces)
-        jj, tt, rr, pp = j[ok], (x - breaks[np.clip(j, 0, n_pieces - 1)])[ok], row_index[ok], load[ok]
+        jj, tt, rr, pp = (
+            j[ok],
+            (x - breaks[np.clip(j, 0, n_pieces - 1)])[ok],
+            row_index[ok],
+            load[ok],
+        )
         for n in range(order, 4):
             rows.append(block * m + rr)
             cols.append(4 * jj + n)
@@ -120,9 +125,9 @@ def _group_candidates(
     dq = np.diff(q)
     roots = quadratic_roots_in(a1[:, :-1], 2.0 * a2[:, :-1], 3.0 * a3[:, :-1], dq[None, :])
     t = roots
-    interior = (
-        ((a3[:, :-1, None] * t + a2[:, :-1, None]) * t + a1[:, :-1, None]) * t + a0[:, :-1, None]
-    )
+    interior = ((a3[:, :-1, None] * t + a2[:, :-1, None]) * t + a1[:, :-1, None]) * t + a0[
+        :, :-1, None
+    ]
     n_eff = il.n_effects
     position = np.concatenate(
         [
@@ -200,6 +205,9 @@ def axle_extremes(
     hi = lo if spacing_high is None else np.asarray(spacing_high, dtype=float).reshape(-1)
     if lo.size != p.size - 1 or hi.size != lo.size:
         raise ValueError("give one spacing per gap between consecutive axles")
+    # Beyond one member length the groups can never both be on the member, so a
+    # longer spacing adds nothing that the member length does not already give.
+    hi = np.maximum(lo, np.minimum(hi, il.length))
     ranged = [g for g in range(lo.size) if hi[g] > lo[g]]
     if len(ranged) > MAX_RANGES:
         raise ValueError(f"at most {MAX_RANGES} spacings of one vehicle may be ranges")
@@ -214,7 +222,7 @@ def axle_extremes(
             for choice in itertools.product(("lo", "hi", "free"), repeat=len(ranged)):
                 fixed = lo.copy()
                 free = []
-                for g, c in zip(ranged, choice):
+                for g, c in zip(ranged, choice, strict=False):
                     if c == "hi":
                         fixed[g] = hi[g]
                     elif c == "free":
@@ -223,7 +231,7 @@ def axle_extremes(
                 ends = [*[g + 1 for g in free], p.size]
                 groups = []
                 gaps = []
-                for s, e in zip(starts, ends):
+                for s, e in zip(starts, ends, strict=False):
                     offs = np.concatenate([[0.0], np.cumsum(fixed[s : e - 1])])
                     groups.append(_group_candidates(il, p[s:e], sigma * offs))
                     if e < p.size:

@@ -16,7 +16,10 @@ _BISECTIONS = 64
 
 
 def quadratic_roots_in(
-    a0: NDArray[np.float64], a1: NDArray[np.float64], a2: NDArray[np.float64], h: NDArray[np.float64]
+    a0: NDArray[np.float64],
+    a1: NDArray[np.float64],
+    a2: NDArray[np.float64],
+    h: NDArray[np.float64],
 ) -> NDArray[np.float64]:
     """Real roots of ``a0 + a1 t + a2 t^2`` strictly inside ``(0, h)``.
 
@@ -61,7 +64,7 @@ def cubic_roots_in(
     coefs = c[:4]
     crit = quadratic_roots_in(coefs[1], 2.0 * coefs[2], 3.0 * coefs[3], hh)
     crit = np.sort(np.where(np.isnan(crit), hh[..., None], crit), axis=-1)
-    edges = np.concatenate([np.zeros(hh.shape + (1,)), crit, hh[..., None]], axis=-1)
+    edges = np.concatenate([np.zeros((*hh.shape, 1)), crit, hh[..., None]], axis=-1)
     lo, hi = edges[..., :-1], edges[..., 1:]
     cb = tuple(v[..., None] for v in coefs)
     flo, fhi = _cubic(cb, lo), _cubic(cb, hi)
