@@ -34,6 +34,7 @@ t = x - breaks[j] of each piece.
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 
 import numpy as np
@@ -77,6 +78,7 @@ class InfluenceLines:
     station_fraction: NDArray[np.float64]
     station_x: NDArray[np.float64]
     support_x: NDArray[np.float64]
+    nodes: NDArray[np.float64]
 
     @property
     def n_stations(self) -> int:
@@ -133,6 +135,33 @@ class InfluenceLines:
         c = self.coef[:, j, :]
         out = ((c[..., 3] * t + c[..., 2]) * t + c[..., 1]) * t + c[..., 0]
         return np.where(on, out, 0.0)
+
+    @functools.cached_property
+    def reduced(self) -> tuple[NDArray[np.float64], NDArray[np.int64], NDArray[np.float64]]:
+        """Each line on its own minimal partition: the nodes plus its own station.
+
+        Returns ``(breaks, count, coef)``: ``breaks[e, :count[e]]`` are effect
+        e's breaks (padded with the member length), ``coef[e, j]`` the cubic on
+        its piece j in ``t = x - breaks[e, j]``. The moving-load kernel sweeps
+        these, which have far fewer breaks than the common partition.
+        """
+        tol = POSITION_TOL * self.length
+        stations = np.concatenate([self.station_x, self.station_x])
+        n_eff = self.n_effects
+        width = self.nodes.size + 1
+        breaks = np.full((n_eff, width), self.length)
+        count = np.empty(n_eff, dtype=np.int64)
+        coef = np.zeros((n_eff, width - 1, 4))
+        for e in range(n_eff):
+            own = self.nodes
+            if e < stations.size:
+                own = _merge(np.concatenate([self.nodes, stations[e : e + 1]]), tol)
+                own[np.abs(own - stations[e]) <= tol] = stations[e]
+            first = np.searchsorted(self.breaks, own[:-1] + tol) - 1
+            count[e] = own.size
+            breaks[e, : own.size] = own
+            coef[e, : own.size - 1] = self.coef[e, first]
+        return breaks, count, coef
 
     def areas(self) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
         """Exact integrals of the positive and the negative parts of each line.
@@ -380,4 +409,5 @@ def influence_lines(
         station_fraction=fraction,
         station_x=sx,
         support_x=supports,
+        nodes=nodes,
     )

@@ -1,0 +1,233 @@
+"""Compiled inner loop of the moving-load sweep (numba).
+
+For each influence line (on its own minimal partition, see
+``InfluenceLines.reduced``) and each rigid group of axles, every candidate
+front-axle position is evaluated exactly: each position where some axle sits
+on a break (both one-sided limits), and each stationary point of the cubic
+between consecutive such positions. Groups separated by a free (ranged) gap are
+then joined by a dynamic programme over their candidates that keeps the gap
+within its range. See :mod:`batch.engine.moving` for why this is exact.
+
+Everything here is plain loops over small arrays; the caller passes signed
+offsets (``sigma * d_k``) so one code path serves both directions.
+"""
+
+from __future__ import annotations
+
+import numba as nb
+import numpy as np
+
+__all__ = ["chain_extremes"]
+
+
+@nb.njit(cache=True, inline="always")
+def _poly(c: np.ndarray, j: int, t: float) -> float:
+    return ((c[j, 3] * t + c[j, 2]) * t + c[j, 1]) * t + c[j, 0]
+
+
+@nb.njit(cache=True)
+def _locate(b: np.ndarray, n: int, x: float, tol: float, right: bool) -> tuple[int, float]:
+    """Piece holding x for a one-sided limit, and x snapped onto a break within tol.
+
+    Returns (-1, x) when x is off the member on that side.
+    """
+    lo, hi = 0, n - 1
+    while hi - lo > 1:  # binary search: b[lo] <= x < b[hi]
+        mid = (lo + hi) // 2
+        if b[mid] <= x:
+            lo = mid
+        else:
+            hi = mid
+    if abs(x - b[lo]) <= tol:
+        x = b[lo]
+    elif abs(x - b[hi]) <= tol:
+        x = b[hi]
+    if right:
+        if x < b[0] or x >= b[n - 1]:
+            return -1, x
+        j = lo
+        if x >= b[hi]:
+            j = hi
+        return j, x
+    if x <= b[0] or x > b[n - 1]:
+        return -1, x
+    j = lo
+    if x <= b[lo]:
+        j = lo - 1
+    elif x > b[hi]:
+        j = hi
+    return j, x
+
+
+@nb.njit(cache=True)
+def _quad_roots(a0: float, a1: float, a2: float, h: float, out: np.ndarray) -> int:
+    """Roots of a0 + a1 t + a2 t^2 strictly inside (0, h); returns how many were written."""
+    scale = abs(a0) + abs(a1) * h + abs(a2) * h * h
+    count = 0
+    if abs(a2) * h * h > 1e-14 * scale:
+        disc = a1 * a1 - 4.0 * a2 * a0
+        if disc < 0.0:
+            return 0
+        sq = np.sqrt(disc)
+        q = -0.5 * (a1 + sq) if a1 >= 0 else -0.5 * (a1 - sq)
+        if q != 0.0:
+            r = q / a2
+            if 0.0 < r < h:
+                out[count] = r
+                count += 1
+            r = a0 / q
+            if 0.0 < r < h:
+                out[count] = r
+                count += 1
+        return count
+    if a1 != 0.0:
+        r = -a0 / a1
+        if 0.0 < r < h:
+            out[0] = r
+            count = 1
+    return count
+
+
+@nb.njit(cache=True)
+def _group_candidates(
+    b: np.ndarray,
+    n: int,
+    c: np.ndarray,
+    loads: np.ndarray,
+    offs: np.ndarray,
+    tol: float,
+    pos: np.ndarray,
+    val: np.ndarray,
+) -> int:
+    """Fill pos/val with every candidate of one rigid group; returns the count."""
+    k_axles = loads.size
+    q = np.empty(n * k_axles)
+    for i in range(n):
+        for k in range(k_axles):
+            q[i * k_axles + k] = b[i] + offs[k]
+    q.sort()
+    m = 0
+    for i in range(q.size):  # merge positions closer than tol
+        if m == 0 or q[i] - q[m - 1] > tol:
+            q[m] = q[i]
+            m += 1
+    roots = np.empty(2)
+    count = 0
+    for i in range(m):
+        a0 = 0.0
+        a1 = 0.0
+        a2 = 0.0
+        a3 = 0.0
+        left = 0.0
+        for k in range(k_axles):
+            p = loads[k]
+            j, x = _locate(b, n, q[i] - offs[k], tol, True)
+            if j >= 0:
+                t = x - b[j]
+                c0, c1, c2, c3 = c[j, 0], c[j, 1], c[j, 2], c[j, 3]
+                a0 += p * (((c3 * t + c2) * t + c1) * t + c0)
+                a1 += p * ((3.0 * c3 * t + 2.0 * c2) * t + c1)
+                a2 += p * (3.0 * c3 * t + c2)
+                a3 += p * c3
+            j, x = _locate(b, n, q[i] - offs[k], tol, False)
+            if j >= 0:
+                left += p * _poly(c, j, x - b[j])
+        pos[count] = q[i]
+        val[count] = a0
+        pos[count + 1] = q[i]
+        val[count + 1] = left
+        count += 2
+        if i + 1 < m:
+            nr = _quad_roots(a1, 2.0 * a2, 3.0 * a3, q[i + 1] - q[i], roots)
+            for r in range(nr):
+                t = roots[r]
+                pos[count] = q[i] + t
+                val[count] = ((a3 * t + a2) * t + a1) * t + a0
+                count += 1
+    return count
+
+
+@nb.njit(cache=True)
+def chain_extremes(
+    breaks: np.ndarray,
+    counts: np.ndarray,
+    coef: np.ndarray,
+    loads: np.ndarray,
+    offsets: np.ndarray,
+    group_start: np.ndarray,
+    gap_lo: np.ndarray,
+    gap_hi: np.ndarray,
+    sigma: float,
+    tol: float,
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """Largest and smallest effect of a chain of rigid axle groups, per influence line.
+
+    ``offsets[k]`` is axle k's distance behind its group's front axle;
+    ``group_start`` (G+1) delimits the groups in the axle arrays; the front of
+    group g+1 is ``sigma * (gap_lo[g] .. gap_hi[g])`` behind the front of group g
+    (distances that include group g's own length). Returns, per effect, the
+    maximum value, the front axle position giving it and the front-to-front
+    distances (E, G-1), then the same three for the minimum.
+    """
+    n_eff = breaks.shape[0]
+    n_groups = group_start.size - 1
+    n_gaps = max(n_groups - 1, 0)
+    width = breaks.shape[1]
+    max_c = 0
+    for g in range(n_groups):
+        kg = group_start[g + 1] - group_start[g]
+        max_c = max(max_c, 4 * width * kg + 2)
+    pos = np.empty((n_groups, max_c))
+    val = np.empty((n_groups, max_c))
+    ncand = np.empty(n_groups, dtype=np.int64)
+    best = np.empty(max_c)
+    nxt = np.empty(max_c)
+    choice = np.zeros((max(n_gaps, 1), max_c), dtype=np.int64)
+    out_v = np.empty((2, n_eff))
+    out_p = np.empty((2, n_eff))
+    out_d = np.zeros((2, n_eff, n_gaps))
+    for e in range(n_eff):
+        n = counts[e]
+        b = breaks[e]
+        c = coef[e]
+        for g in range(n_groups):
+            s0, s1 = group_start[g], group_start[g + 1]
+            ncand[g] = _group_candidates(
+                b, n, c, loads[s0:s1], sigma * offsets[s0:s1], tol, pos[g], val[g]
+            )
+        for sense_i in range(2):
+            sense = 1.0 if sense_i == 0 else -1.0
+            last = n_groups - 1
+            for j in range(ncand[last]):
+                nxt[j] = sense * val[last, j]
+            for g in range(n_groups - 2, -1, -1):
+                lo = gap_lo[g] - tol
+                hi = gap_hi[g] + tol
+                for i in range(ncand[g]):
+                    top = -np.inf
+                    arg = -1
+                    for j in range(ncand[g + 1]):
+                        d = sigma * (pos[g, i] - pos[g + 1, j])
+                        if lo <= d <= hi and nxt[j] > top:
+                            top = nxt[j]
+                            arg = j
+                    best[i] = sense * val[g, i] + top
+                    choice[g, i] = arg
+                for i in range(ncand[g]):
+                    nxt[i] = best[i]
+            top = -np.inf
+            arg = 0
+            for i in range(ncand[0]):
+                if nxt[i] > top:
+                    top = nxt[i]
+                    arg = i
+            out_v[sense_i, e] = sense * top
+            out_p[sense_i, e] = pos[0, arg]
+            idx = arg
+            for g in range(n_gaps):
+                nidx = choice[g, idx]
+                if nidx < 0:
+                    break
+                out_d[sense_i, e, g] = sigma * (pos[g, idx] - pos[g + 1, nidx])
+                idx = nidx
+    return out_v[0], out_p[0], out_d[0], out_v[1], out_p[1], out_d[1]
