@@ -72,6 +72,9 @@ def header_key(text: object) -> str:
     return re.sub(r"\s+", " ", s).strip().lower()
 
 
+#: Member id used by the example rows of Members and Capacities (they must agree).
+_EXAMPLE_MEMBER = "KV-0412 G1"
+
 SETTING_ROWS: tuple[SettingRow, ...] = (
     SettingRow(
         name="Units",
@@ -131,7 +134,7 @@ MEMBERS = InputSheet(
             kind="text",
             required=True,
             meaning="Unique id of the girder line.",
-            example="BR-101 G2",
+            example=_EXAMPLE_MEMBER,
         ),
         InputColumn(
             header="Spans",
@@ -161,14 +164,14 @@ MEMBERS = InputSheet(
             key="df_moment",
             kind="number",
             meaning="Live-load distribution factor on moments (default 1).",
-            example=1,
+            example=0.62,
         ),
         InputColumn(
             header="DF shear",
             key="df_shear",
             kind="number",
             meaning="Live-load distribution factor on shears and reactions (default 1).",
-            example=1,
+            example=0.7,
         ),
         InputColumn(
             header="DC load",
@@ -176,6 +179,7 @@ MEMBERS = InputSheet(
             kind="number",
             quantity="line_load",
             meaning="Uniform dead load of components on the whole member, for rating.",
+            example=1.15,
         ),
         InputColumn(
             header="DW load",
@@ -183,20 +187,29 @@ MEMBERS = InputSheet(
             kind="number",
             quantity="line_load",
             meaning="Uniform dead load of the wearing surface on the whole member, for rating.",
+            example=0.18,
         ),
         InputColumn(
             header="Condition factor",
             key="condition_factor",
             kind="number",
             meaning="Rating condition factor (default 1).",
+            example=1,
         ),
         InputColumn(
             header="System factor",
             key="system_factor",
             kind="number",
             meaning="Rating system factor (default 1).",
+            example=1,
         ),
-        InputColumn(header="Description", key="description", kind="text", meaning="Free text."),
+        InputColumn(
+            header="Description",
+            key="description",
+            kind="text",
+            meaning="Free text.",
+            example="EXAMPLE, replace or delete: Harlow Creek overpass, girder 1 (KVHA)",
+        ),
     ),
 )
 
@@ -210,7 +223,7 @@ VEHICLES = InputSheet(
             kind="text",
             required=True,
             meaning="Unique id of the vehicle.",
-            example="Permit 3-axle",
+            example="KV-P3",
         ),
         InputColumn(
             header="Axle loads",
@@ -218,7 +231,7 @@ VEHICLES = InputSheet(
             kind="list",
             quantity="force",
             meaning="Axle loads, front axle first (required unless Library is given).",
-            example="8, 32, 32",
+            example="12, 34, 34",
         ),
         InputColumn(
             header="Axle spacings",
@@ -255,9 +268,15 @@ VEHICLES = InputSheet(
             kind="choice",
             choices=("design", "legal", "permit"),
             meaning="Which live-load factor rating uses (default design).",
-            example="design",
+            example="permit",
         ),
-        InputColumn(header="Description", key="description", kind="text", meaning="Free text."),
+        InputColumn(
+            header="Description",
+            key="description",
+            kind="text",
+            meaning="Free text.",
+            example="EXAMPLE, replace or delete: KVHA 3-axle permit truck",
+        ),
     ),
 )
 
@@ -265,20 +284,82 @@ CAPACITIES = InputSheet(
     name="Capacities",
     purpose="Optional: one row per member and station to be rated.",
     columns=(
-        InputColumn(header="Member", key="member", kind="text", required=True),
-        InputColumn(header="Span", key="span", kind="number", required=True),
-        InputColumn(header="Station", key="station", kind="number", required=True),
         InputColumn(
-            header="Resistance M+", key="resistance_m_pos", kind="number", quantity="moment"
+            header="Member",
+            key="member",
+            kind="text",
+            required=True,
+            meaning="Id of a member listed on the Members sheet.",
+            example=_EXAMPLE_MEMBER,
         ),
         InputColumn(
-            header="Resistance M-", key="resistance_m_neg", kind="number", quantity="moment"
+            header="Span",
+            key="span",
+            kind="number",
+            required=True,
+            meaning="Span number, counted from 1 at the member's left end.",
+            example=1,
         ),
-        InputColumn(header="Resistance V", key="resistance_v", kind="number", quantity="force"),
-        InputColumn(header="DC M", key="dc_m", kind="number", quantity="moment"),
-        InputColumn(header="DW M", key="dw_m", kind="number", quantity="moment"),
-        InputColumn(header="DC V", key="dc_v", kind="number", quantity="force"),
-        InputColumn(header="DW V", key="dw_v", kind="number", quantity="force"),
+        InputColumn(
+            header="Station",
+            key="station",
+            kind="number",
+            required=True,
+            meaning="Fraction of the span (0 to 1), one of the stations of the Envelopes sheet.",
+            example=0.4,
+        ),
+        InputColumn(
+            header="Resistance M+",
+            key="resistance_m_pos",
+            kind="number",
+            quantity="moment",
+            meaning="Factored resistance for sagging moment; blank: not rated.",
+            example=4100,
+        ),
+        InputColumn(
+            header="Resistance M-",
+            key="resistance_m_neg",
+            kind="number",
+            quantity="moment",
+            meaning="Factored resistance for hogging moment, as a positive magnitude; "
+            "blank: not rated.",
+        ),
+        InputColumn(
+            header="Resistance V",
+            key="resistance_v",
+            kind="number",
+            quantity="force",
+            meaning="Factored shear resistance; blank: not rated.",
+            example=380,
+        ),
+        InputColumn(
+            header="DC M",
+            key="dc_m",
+            kind="number",
+            quantity="moment",
+            meaning="Signed component dead-load moment here; blank: from the member's DC load.",
+        ),
+        InputColumn(
+            header="DW M",
+            key="dw_m",
+            kind="number",
+            quantity="moment",
+            meaning="Signed wearing-surface moment here; blank: from the member's DW load.",
+        ),
+        InputColumn(
+            header="DC V",
+            key="dc_v",
+            kind="number",
+            quantity="force",
+            meaning="Signed component dead-load shear here; blank: from the member's DC load.",
+        ),
+        InputColumn(
+            header="DW V",
+            key="dw_v",
+            kind="number",
+            quantity="force",
+            meaning="Signed wearing-surface shear here; blank: from the member's DW load.",
+        ),
     ),
 )
 
