@@ -121,6 +121,12 @@ SETTINGS = InputSheet(
     columns=(
         InputColumn(header="Setting", key="setting", kind="text", required=True),
         InputColumn(header="Value", key="value", kind="text", required=True),
+        InputColumn(
+            header="Meaning",
+            key="meaning",
+            kind="text",
+            meaning="What the setting does; for the reader only, never read by the program.",
+        ),
     ),
 )
 
