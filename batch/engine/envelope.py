@@ -51,6 +51,9 @@ class LoadCase:
     ``axle_loads`` front axle first (force); ``spacing_low``/``spacing_high``
     bound each gap (length); ``lane_load`` force per length; ``impact`` the
     dynamic load allowance on axles (fraction); ``factor`` multiplies all.
+    ``scope`` limits the effects the case may govern (see :data:`SCOPES`);
+    ``drop_adverse_axles`` leaves out axles that would lessen an effect
+    (AASHTO LRFD 3.6.1.3.1). ``vehicle`` indexes the fleet vehicle it belongs to.
     """
 
     label: str
@@ -61,6 +64,7 @@ class LoadCase:
     impact: float = 0.0
     factor: float = 1.0
     scope: str = "all"
+    drop_adverse_axles: bool = False
     vehicle: int = 0  # index of the fleet vehicle this case belongs to
 
 
@@ -156,7 +160,14 @@ def member_envelope(
         for sense in ("max", "min")
     }
     for index, case in enumerate(cases):
-        ax = axle_extremes(il, case.axle_loads, case.spacing_low, case.spacing_high or None, dirs)
+        ax = axle_extremes(
+            il,
+            case.axle_loads,
+            case.spacing_low,
+            case.spacing_high or None,
+            dirs,
+            case.drop_adverse_axles,
+        )
         scale = case.factor * df
         applies = _scoped(il, case.scope)
         size = natural * (sum(case.axle_loads) * (1 + case.impact) + case.lane_load * il.length)

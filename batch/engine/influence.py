@@ -163,6 +163,59 @@ class InfluenceLines:
             coef[e, : own.size - 1] = self.coef[e, first]
         return breaks, count, coef
 
+    @functools.cached_property
+    def clipped(
+        self,
+    ) -> tuple[
+        tuple[NDArray[np.float64], NDArray[np.int64], NDArray[np.float64]],
+        tuple[NDArray[np.float64], NDArray[np.int64], NDArray[np.float64]],
+    ]:
+        """The positive and the negative parts of each line, as :attr:`reduced` partitions.
+
+        ``max(IL, 0)`` and ``min(IL, 0)`` are piecewise cubics once the zero
+        crossings of every piece are added as breaks. Sweeping an axle train
+        over them gives its extremes when axles that would lessen the effect
+        are left out (AASHTO LRFD 3.6.1.3.1: axles that do not contribute to
+        the extreme force effect are neglected).
+        """
+        from batch.engine.polynomials import cubic_roots_in
+
+        breaks, count, coef = self.reduced
+        tol = POSITION_TOL * self.length
+        h = np.diff(breaks, axis=1)
+        roots = cubic_roots_in(coef[..., 0], coef[..., 1], coef[..., 2], coef[..., 3], h)
+        parts = []
+        for sign in (1.0, -1.0):
+            width = breaks.shape[1] + 3 * (breaks.shape[1] - 1)
+            out_b = np.full((self.n_effects, width), self.length)
+            out_c = np.zeros((self.n_effects, width - 1, 4))
+            out_n = np.empty(self.n_effects, dtype=np.int64)
+            for e in range(self.n_effects):
+                n = int(count[e])
+                starts = [breaks[e, 0]]
+                piece = []
+                for j in range(n - 1):
+                    r = roots[e, j]
+                    # A crossing within tol of a break is that break (the kernel needs
+                    # breaks further apart than tol).
+                    cuts = np.sort(r[(r > tol) & (r < h[e, j] - tol)])
+                    for t0, t1 in zip(
+                        np.concatenate([[0.0], cuts]),
+                        np.concatenate([cuts, [h[e, j]]]),
+                        strict=True,
+                    ):
+                        c = _shift(coef[e, j], np.float64(t0))
+                        mid = 0.5 * (t1 - t0)
+                        inside = ((c[3] * mid + c[2]) * mid + c[1]) * mid + c[0]
+                        piece.append(c if sign * inside > 0 else np.zeros(4))
+                        starts.append(breaks[e, j] + t1)
+                starts[-1] = breaks[e, n - 1]
+                out_n[e] = len(starts)
+                out_b[e, : len(starts)] = starts
+                out_c[e, : len(piece)] = piece
+            parts.append((out_b, out_n, out_c))
+        return parts[0], parts[1]
+
     def areas(self) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
         """Exact integrals of the positive and the negative parts of each line.
 

@@ -70,6 +70,7 @@ def axle_extremes(
     spacing_low: NDArray[np.float64] | list[float] | tuple[float, ...] = (),
     spacing_high: NDArray[np.float64] | list[float] | tuple[float, ...] | None = None,
     directions: tuple[int, ...] = (LEFT_TO_RIGHT, RIGHT_TO_LEFT),
+    drop_adverse_axles: bool = False,
 ) -> AxleExtremes:
     """Exact largest and smallest effects of an axle train on every influence line.
 
@@ -77,7 +78,10 @@ def axle_extremes(
     ``spacing_high`` the bounds of each gap between consecutive axles (equal for
     a fixed spacing; ``spacing_high`` defaults to ``spacing_low``). Axles off the
     member carry nothing. Effects are in the units of the influence lines times
-    the load unit (no dynamic allowance, lane load or factors here).
+    the load unit (no dynamic allowance, lane load or factors here). With
+    ``drop_adverse_axles`` an axle standing where it would lessen the effect is
+    left out (AASHTO LRFD 3.6.1.3.1), by sweeping the positive part of each line
+    for the maximum and its negative part for the minimum.
     """
     p = np.ascontiguousarray(loads, dtype=float)
     lo = np.asarray(spacing_low, dtype=float).reshape(-1)
@@ -90,7 +94,7 @@ def axle_extremes(
     ranged = [g for g in range(lo.size) if hi[g] > lo[g]]
     if len(ranged) > MAX_RANGES:
         raise ValueError(f"at most {MAX_RANGES} spacings of one vehicle may be ranges")
-    breaks, counts, coef = il.reduced
+    partitions = il.clipped if drop_adverse_axles else (il.reduced, il.reduced)
     tol = POSITION_TOL * il.length
     n_eff = il.n_effects
     best = {
@@ -118,19 +122,23 @@ def axle_extremes(
                 ]
             )
             own = np.array([offsets[z - 1] for z in ends[:-1]])
-            result = chain_extremes(
-                breaks,
-                counts,
-                coef,
-                p,
-                offsets,
-                np.array([*starts, p.size]),
-                own + lo[free],
-                own + hi[free],
-                float(sigma),
-                tol,
-            )
-            for sense, (total, pos, dist) in ((1.0, result[0:3]), (-1.0, result[3:6])):
+            results = [
+                chain_extremes(
+                    *partition,
+                    p,
+                    offsets,
+                    np.array([*starts, p.size]),
+                    own + lo[free],
+                    own + hi[free],
+                    float(sigma),
+                    tol,
+                )
+                for partition in (partitions if drop_adverse_axles else partitions[:1])
+            ]
+            for sense, (total, pos, dist) in (
+                (1.0, results[0][0:3]),
+                (-1.0, results[-1][3:6]),
+            ):
                 value, position, direction, spacing = best[sense]
                 better = sense * total > sense * value
                 if not np.any(better):
