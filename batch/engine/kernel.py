@@ -26,40 +26,6 @@ def _poly(c: np.ndarray, j: int, t: float) -> float:
 
 
 @nb.njit(cache=True)
-def _locate(b: np.ndarray, n: int, x: float, tol: float, right: bool) -> tuple[int, float]:
-    """Piece holding x for a one-sided limit, and x snapped onto a break within tol.
-
-    Returns (-1, x) when x is off the member on that side.
-    """
-    lo, hi = 0, n - 1
-    while hi - lo > 1:  # binary search: b[lo] <= x < b[hi]
-        mid = (lo + hi) // 2
-        if b[mid] <= x:
-            lo = mid
-        else:
-            hi = mid
-    if abs(x - b[lo]) <= tol:
-        x = b[lo]
-    elif abs(x - b[hi]) <= tol:
-        x = b[hi]
-    if right:
-        if x < b[0] or x >= b[n - 1]:
-            return -1, x
-        j = lo
-        if x >= b[hi]:
-            j = hi
-        return j, x
-    if x <= b[0] or x > b[n - 1]:
-        return -1, x
-    j = lo
-    if x <= b[lo]:
-        j = lo - 1
-    elif x > b[hi]:
-        j = hi
-    return j, x
-
-
-@nb.njit(cache=True)
 def _quad_roots(a0: float, a1: float, a2: float, h: float, out: np.ndarray) -> int:
     """Roots of a0 + a1 t + a2 t^2 strictly inside (0, h); returns how many were written."""
     scale = abs(a0) + abs(a1) * h + abs(a2) * h * h
@@ -98,20 +64,36 @@ def _group_candidates(
     tol: float,
     pos: np.ndarray,
     val: np.ndarray,
+    q: np.ndarray,
+    piece: np.ndarray,
+    roots: np.ndarray,
 ) -> int:
-    """Fill pos/val with every candidate of one rigid group; returns the count."""
+    """Fill pos/val with every candidate of one rigid group; returns the count.
+
+    ``q``, ``piece`` and ``roots`` are scratch arrays (n*K, K and 2 long). The front
+    positions are swept in increasing order, so each axle's piece index only
+    moves forward: no search is needed.
+    """
     k_axles = loads.size
-    q = np.empty(n * k_axles)
     for i in range(n):
         for k in range(k_axles):
             q[i * k_axles + k] = b[i] + offs[k]
-    q.sort()
+    total = n * k_axles
+    for i in range(1, total):  # insertion sort: short and nearly sorted
+        v = q[i]
+        h = i - 1
+        while h >= 0 and q[h] > v:
+            q[h + 1] = q[h]
+            h -= 1
+        q[h + 1] = v
+    qs = q
     m = 0
-    for i in range(q.size):  # merge positions closer than tol
-        if m == 0 or q[i] - q[m - 1] > tol:
-            q[m] = q[i]
+    for i in range(total):  # merge positions closer than tol
+        if m == 0 or qs[i] - qs[m - 1] > tol:
+            qs[m] = qs[i]
             m += 1
-    roots = np.empty(2)
+    for k in range(k_axles):
+        piece[k] = -1  # -1: left of the member; n - 1: right of it
     count = 0
     for i in range(m):
         a0 = 0.0
@@ -120,28 +102,37 @@ def _group_candidates(
         a3 = 0.0
         left = 0.0
         for k in range(k_axles):
+            x = qs[i] - offs[k]
+            j = piece[k]
+            while j < n - 1 and b[j + 1] <= x + tol:
+                j += 1
+            piece[k] = j
+            at_break = j >= 0 and abs(x - b[j]) <= tol
+            if at_break:
+                x = b[j]
             p = loads[k]
-            j, x = _locate(b, n, q[i] - offs[k], tol, True)
-            if j >= 0:
+            if 0 <= j < n - 1:
                 t = x - b[j]
                 c0, c1, c2, c3 = c[j, 0], c[j, 1], c[j, 2], c[j, 3]
-                a0 += p * (((c3 * t + c2) * t + c1) * t + c0)
+                right = p * (((c3 * t + c2) * t + c1) * t + c0)
+                a0 += right
                 a1 += p * ((3.0 * c3 * t + 2.0 * c2) * t + c1)
                 a2 += p * (3.0 * c3 * t + c2)
                 a3 += p * c3
-            j, x = _locate(b, n, q[i] - offs[k], tol, False)
-            if j >= 0:
-                left += p * _poly(c, j, x - b[j])
-        pos[count] = q[i]
+                if not at_break:
+                    left += right
+            if at_break and j >= 1:  # just left of a break: the previous piece's end
+                left += p * _poly(c, j - 1, x - b[j - 1])
+        pos[count] = qs[i]
         val[count] = a0
-        pos[count + 1] = q[i]
+        pos[count + 1] = qs[i]
         val[count + 1] = left
         count += 2
         if i + 1 < m:
-            nr = _quad_roots(a1, 2.0 * a2, 3.0 * a3, q[i + 1] - q[i], roots)
+            nr = _quad_roots(a1, 2.0 * a2, 3.0 * a3, qs[i + 1] - qs[i], roots)
             for r in range(nr):
                 t = roots[r]
-                pos[count] = q[i] + t
+                pos[count] = qs[i] + t
                 val[count] = ((a3 * t + a2) * t + a1) * t + a0
                 count += 1
     return count
@@ -183,6 +174,10 @@ def chain_extremes(
     best = np.empty(max_c)
     nxt = np.empty(max_c)
     choice = np.zeros((max(n_gaps, 1), max_c), dtype=np.int64)
+    q_scratch = np.empty(width * loads.size)
+    piece_scratch = np.empty(loads.size, dtype=np.int64)
+    root_scratch = np.empty(2)
+    signed = sigma * offsets
     out_v = np.empty((2, n_eff))
     out_p = np.empty((2, n_eff))
     out_d = np.zeros((2, n_eff, n_gaps))
@@ -193,7 +188,17 @@ def chain_extremes(
         for g in range(n_groups):
             s0, s1 = group_start[g], group_start[g + 1]
             ncand[g] = _group_candidates(
-                b, n, c, loads[s0:s1], sigma * offsets[s0:s1], tol, pos[g], val[g]
+                b,
+                n,
+                c,
+                loads[s0:s1],
+                signed[s0:s1],
+                tol,
+                pos[g],
+                val[g],
+                q_scratch,
+                piece_scratch,
+                root_scratch,
             )
         for sense_i in range(2):
             sense = 1.0 if sense_i == 0 else -1.0
