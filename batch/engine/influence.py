@@ -178,12 +178,12 @@ class InfluenceLines:
         are left out (AASHTO LRFD 3.6.1.3.1: axles that do not contribute to
         the extreme force effect are neglected).
         """
-        from batch.engine.polynomials import cubic_roots_in
+        from batch.engine.kernel import cubic_crossings
 
         breaks, count, coef = self.reduced
         tol = POSITION_TOL * self.length
         h = np.diff(breaks, axis=1)
-        roots = cubic_roots_in(coef[..., 0], coef[..., 1], coef[..., 2], coef[..., 3], h)
+        roots = cubic_crossings(coef, np.ascontiguousarray(h))
         parts = []
         for sign in (1.0, -1.0):
             width = breaks.shape[1] + 3 * (breaks.shape[1] - 1)
@@ -221,19 +221,21 @@ class InfluenceLines:
 
         Returns ``(positive, negative)``, each of shape (n_effects,), with
         ``negative <= 0``. Multiplied by a uniform load per unit length they give
-        the effect of that load placed on the adverse parts only. Zero crossings
-        inside each cubic piece are found to machine precision.
+        the effect of that load placed on the adverse parts only; their sum is
+        the effect of the load on the whole member. Zero crossings inside each
+        cubic piece are found to machine precision.
         """
-        from batch.engine.polynomials import cubic_roots_in
+        return self._areas
 
-        h = np.diff(self.breaks)
-        c = self.coef
-        roots = cubic_roots_in(c[..., 0], c[..., 1], c[..., 2], c[..., 3], h)  # (E, J, 3)
-        cuts = np.concatenate(
-            [np.zeros((*c.shape[:2], 1)), roots, np.broadcast_to(h, c.shape[:2])[..., None]],
-            axis=-1,
-        )
-        cuts = np.sort(np.where(np.isnan(cuts), h[None, :, None], cuts), axis=-1)
+    @functools.cached_property
+    def _areas(self) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+        from batch.engine.kernel import cubic_crossings
+
+        breaks, _, c = self.reduced
+        h = np.diff(breaks, axis=1)  # padded pieces have zero length and add nothing
+        roots = cubic_crossings(c, np.ascontiguousarray(h))  # (E, P, 3)
+        cuts = np.concatenate([np.zeros((*h.shape, 1)), roots, h[..., None]], axis=-1)
+        cuts = np.sort(np.where(np.isnan(cuts), h[..., None], cuts), axis=-1)
         lo, hi = cuts[..., :-1], cuts[..., 1:]
 
         def antiderivative(t: NDArray[np.float64]) -> NDArray[np.float64]:

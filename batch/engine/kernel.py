@@ -236,3 +236,56 @@ def chain_extremes(
                 out_d[sense_i, e, g] = sigma * (pos[g, idx] - pos[g + 1, nidx])
                 idx = nidx
     return out_v[0], out_p[0], out_d[0], out_v[1], out_p[1], out_d[1]
+
+
+@nb.njit(cache=True)
+def _cubic_at(c0: float, c1: float, c2: float, c3: float, t: float) -> float:
+    return ((c3 * t + c2) * t + c1) * t + c0
+
+
+@nb.njit(cache=True)
+def cubic_crossings(coef: np.ndarray, h: np.ndarray) -> np.ndarray:
+    """Sign-changing roots of every cubic piece inside its own interval.
+
+    ``coef`` has shape (..., 4) in the local coordinate t of a piece of length
+    ``h`` (broadcast over the leading axes). The stationary points split each
+    piece into at most three monotone parts; a root is bracketed in each part
+    whose ends differ in sign and bisected to machine precision. Returns the
+    roots with shape (..., 3), NaN-padded. Touching (double) roots do not change
+    sign and are not needed by the callers (areas of the positive and negative
+    parts, and the split of a line into them).
+    """
+    flat = coef.reshape(-1, 4)
+    hh = h.reshape(-1)
+    out = np.full((flat.shape[0], 3), np.nan)
+    crit = np.empty(2)
+    edges = np.empty(4)
+    for i in range(flat.shape[0]):
+        c0, c1, c2, c3 = flat[i, 0], flat[i, 1], flat[i, 2], flat[i, 3]
+        length = hh[i]
+        nc = _quad_roots(c1, 2.0 * c2, 3.0 * c3, length, crit)
+        if nc == 2 and crit[1] < crit[0]:
+            crit[0], crit[1] = crit[1], crit[0]
+        edges[0] = 0.0
+        for r in range(nc):
+            edges[r + 1] = crit[r]
+        edges[nc + 1] = length
+        found = 0
+        for part in range(nc + 1):
+            lo, hi = edges[part], edges[part + 1]
+            flo = _cubic_at(c0, c1, c2, c3, lo)
+            fhi = _cubic_at(c0, c1, c2, c3, hi)
+            if not (hi > lo and flo * fhi < 0.0):
+                continue
+            rising = fhi > flo
+            for _ in range(200):
+                mid = 0.5 * (lo + hi)
+                if mid <= lo or mid >= hi:
+                    break
+                if (_cubic_at(c0, c1, c2, c3, mid) > 0.0) == rising:
+                    hi = mid
+                else:
+                    lo = mid
+            out[i, found] = 0.5 * (lo + hi)
+            found += 1
+    return out.reshape((*coef.shape[:-1], 3))
