@@ -1,0 +1,200 @@
+"""Demo data: the Kestrel Valley Highway Authority (KVHA), an invented road owner.
+
+Every bridge, member id, vehicle and number here is invented for demonstration
+and testing; none describes a real structure or a real legal or permit load.
+Two cases, both as :class:`batch.model.Case`:
+
+* :data:`KVHA_INVENTORY`, US units (kip, ft): 23 girder lines (simple spans,
+  two- to four-span continuous members with unequal spans and stiffnesses,
+  and hinged cantilever-and-suspended-span layouts) and 12 vehicles of 2 to
+  9 axles, some with ranged spacings or lane loads.
+* :data:`KVHA_SI_DEMO`, SI units (kN, m): a few members and vehicles to show
+  the metric path end to end.
+
+:data:`SAMPLE_WORKBOOKS` names the workbook file of each case (written by
+``scripts/make_workbooks.py`` into ``sample_workbooks/``).
+"""
+
+from __future__ import annotations
+
+from batch.model import Case, Category, Member, Settings, Spacing, Vehicle
+
+__all__ = ["KVHA_INVENTORY", "KVHA_SI_DEMO", "SAMPLE_WORKBOOKS"]
+
+SpacingEntry = float | tuple[float, float]
+
+
+def _member(
+    id: str,
+    spans: tuple[float, ...],
+    description: str,
+    *,
+    df: tuple[float, float],
+    dead: tuple[float, float],
+    span_ei: tuple[float, ...] = (),
+    hinges: tuple[float, ...] = (),
+    factors: tuple[float, float] = (1.0, 1.0),
+) -> Member:
+    """A member; ``df`` is (moment, shear), ``dead`` (DC, DW), ``factors`` (condition, system)."""
+    return Member(
+        id=id,
+        spans=spans,
+        hinges=hinges,
+        span_ei=span_ei,
+        df_moment=df[0],
+        df_shear=df[1],
+        dc_load=dead[0],
+        dw_load=dead[1],
+        condition_factor=factors[0],
+        system_factor=factors[1],
+        description=description,
+    )
+
+
+def _vehicle(
+    id: str,
+    axles: tuple[float, ...],
+    spacings: tuple[SpacingEntry, ...],
+    category: Category,
+    description: str,
+    *,
+    lane: float = 0.0,
+    factor: float = 1.0,
+) -> Vehicle:
+    """A vehicle; a spacing given as (low, high) is a range."""
+    gaps = tuple(
+        Spacing(low=s[0], high=s[1]) if isinstance(s, tuple) else Spacing(low=s, high=s)
+        for s in spacings
+    )
+    return Vehicle(
+        id=id,
+        axle_loads=axles,
+        spacings=gaps,
+        lane_load=lane,
+        factor=factor,
+        category=category,
+        description=description,
+    )
+
+
+_US_MEMBERS = (
+    # Simple spans, short to long.
+    _member("KV-0101 S1", (24.0,), "Tansy Brook slab bridge, 1 ft design strip",
+            df=(0.52, 0.56), dead=(0.45, 0.06)),
+    _member("KV-0102 G2", (36.0,), "Mill Race bridge, girder 2",
+            df=(0.58, 0.66), dead=(0.82, 0.14)),
+    _member("KV-0215 G1", (48.0,), "Harlow Creek overpass, girder 1 (exterior)",
+            df=(0.71, 0.64), dead=(1.02, 0.16), factors=(0.95, 1.0)),
+    _member("KV-0215 G2", (48.0,), "Harlow Creek overpass, girder 2",
+            df=(0.64, 0.74), dead=(0.96, 0.18)),
+    _member("KV-0330 G3", (65.0,), "Alder Lane underpass, girder 3",
+            df=(0.61, 0.72), dead=(1.08, 0.19)),
+    _member("KV-0341 G2", (82.5,), "Fenwick Road overpass, girder 2",
+            df=(0.63, 0.75), dead=(1.21, 0.2)),
+    _member("KV-0412 G1", (100.0,), "Osprey Flats causeway, span 4, girder 1",
+            df=(0.68, 0.62), dead=(1.3, 0.21), factors=(0.85, 1.0)),
+    _member("KV-0418 G4", (124.0,), "Quarry Spur bridge, girder 4",
+            df=(0.6, 0.7), dead=(1.42, 0.22)),
+    _member("KV-0522 G2", (150.0,), "Coldwater Draw bridge, plate girder 2",
+            df=(0.57, 0.69), dead=(1.55, 0.24)),
+    _member("KV-0610 G1", (175.0,), "Kestrel River east approach, two-girder span, girder 1",
+            df=(0.79, 0.8), dead=(1.86, 0.26), factors=(1.0, 0.85)),
+    # Two-span continuous.
+    _member("KV-0705 G2", (70.0, 70.0), "Lark Hill ramp B, girder 2 (equal spans)",
+            df=(0.62, 0.7), dead=(1.12, 0.18)),
+    _member("KV-0706 G3", (55.0, 72.0), "Pike Hollow bridge, girder 3",
+            df=(0.6, 0.71), dead=(1.05, 0.17)),
+    _member("KV-0711 G1", (90.0, 110.0), "Sedge Marsh bridge, girder 1, deeper over the pier",
+            df=(0.69, 0.63), dead=(1.38, 0.22), span_ei=(1.0, 1.25)),
+    # Three-span continuous.
+    _member("KV-0803 G2", (40.0, 52.0, 40.0), "Orchard Road overpass, girder 2",
+            df=(0.55, 0.65), dead=(0.9, 0.15)),
+    _member("KV-0812 G1", (60.0, 80.0, 60.0), "Harlow Creek viaduct, haunched girder 1",
+            df=(0.66, 0.61), dead=(1.15, 0.18), span_ei=(1.0, 1.5, 1.0)),
+    _member("KV-0815 G3", (85.0, 120.0, 95.0), "Kestrel River bridge, girder 3",
+            df=(0.58, 0.68), dead=(1.48, 0.23), span_ei=(1.0, 1.8, 1.1)),
+    # Four-span continuous.
+    _member("KV-0902 G2", (45.0, 60.0, 60.0, 45.0), "Brackenfield interchange, girder 2",
+            df=(0.6, 0.7), dead=(1.0, 0.17)),
+    _member("KV-0907 G1", (70.0, 95.0, 95.0, 70.0), "Heron Bay bridge, girder 1",
+            df=(0.72, 0.66), dead=(1.33, 0.21), span_ei=(1.0, 1.4, 1.4, 1.0)),
+    _member("KV-0913 G4", (52.0, 68.0, 74.0, 58.0), "Thistle Gap viaduct, girder 4",
+            df=(0.59, 0.7), dead=(1.1, 0.19), factors=(0.95, 1.0)),
+    # Hinged layouts: cantilever arms carrying suspended pieces.
+    _member("KV-1001 G2", (50.0, 120.0, 50.0),
+            "Wren Ferry bridge, girder 2: 60 ft suspended span on 30 ft cantilever arms",
+            df=(0.63, 0.72), dead=(1.25, 0.2), span_ei=(1.0, 1.3, 1.0), hinges=(80.0, 140.0)),
+    _member("KV-1002 G1", (60.0, 150.0, 60.0),
+            "Stonechat Gorge bridge, girder 1: 70 ft suspended span",
+            df=(0.7, 0.65), dead=(1.45, 0.22), hinges=(100.0, 170.0)),
+    _member("KV-1005 G3", (40.0, 90.0, 40.0),
+            "Millbrook flyover, girder 3: one hinge in the main span",
+            df=(0.61, 0.7), dead=(1.08, 0.18), hinges=(110.0,)),
+    _member("KV-1010 G2", (40.0, 100.0, 100.0, 40.0),
+            "Kestrel Valley viaduct, girder 2: hinges either side of the centre pier",
+            df=(0.6, 0.69), dead=(1.3, 0.2), hinges=(120.0, 160.0)),
+)  # fmt: skip
+
+_US_VEHICLES = (
+    _vehicle("KVHA-D1", (8.0, 32.0, 32.0), (14.0, (14.0, 30.0)), "design",
+             "KVHA design truck with the KVHA design lane", lane=0.64),
+    _vehicle("KVHA-D2", (25.0, 25.0), (4.0,), "design",
+             "KVHA design lane: tandem with a 0.64 kip/ft lane", lane=0.64),
+    _vehicle("KV-L2", (10.0, 20.0), (12.0,), "legal", "KVHA legal 2-axle delivery truck"),
+    _vehicle("KV-L3", (14.0, 18.0, 18.0), (15.0, 4.5), "legal", "KVHA legal 3-axle dump truck"),
+    _vehicle("KV-L4", (12.0, 10.0, 18.0, 18.0), (11.0, 4.0, 4.5), "legal",
+             "KVHA legal 4-axle concrete mixer"),
+    _vehicle("KV-L5S", (11.0, 16.0, 16.0, 16.0, 16.0), (12.0, 4.25, (14.0, 32.0), 4.25), "legal",
+             "KVHA legal 5-axle semitrailer, kingpin setting varies"),
+    _vehicle("KV-L6D", (10.0, 13.0, 13.0, 15.0, 14.5, 14.5), (13.0, 4.0, 15.0, 14.0, 4.0),
+             "legal", "KVHA legal 6-axle double"),
+    _vehicle("KV-L5T", (10.0, 12.0, 12.0, 12.0, 12.0), (12.0, 4.0, 20.0, 4.0), "legal",
+             "KVHA legal twin-trailer train with a 0.2 kip/ft lane", lane=0.2),
+    _vehicle("KV-P4", (14.0, 22.0, 22.0, 22.0), (13.0, (4.0, 6.0), 4.0), "permit",
+             "KVHA permit 4-axle crane carrier, 10 % overload allowance", factor=1.1),
+    _vehicle("KV-P7", (20.0, 20.0, 24.0, 24.0, 24.0, 24.0, 24.0), (5.0, 13.0, 5.0, 5.0, 5.0, 5.0),
+             "permit", "KVHA permit 7-axle mobile crane"),
+    _vehicle("KV-P8", (12.0, 18.0, 18.0, 20.0, 20.0, 20.0, 20.0, 20.0),
+             (14.0, 4.5, (12.0, 30.0), 4.5, 4.5, 4.5, 4.5), "permit",
+             "KVHA permit 8-axle lowboy, booster spacing varies"),
+    _vehicle("KV-P9", (14.0, 24.0, 24.0, 27.0, 27.0, 27.0, 27.0, 24.0, 24.0),
+             (12.0, 4.5, (18.0, 28.0), 5.0, 5.0, 5.0, 16.0, 4.5), "permit",
+             "KVHA permit 9-axle transformer haul"),
+)  # fmt: skip
+
+#: The main demo inventory, US units.
+KVHA_INVENTORY = Case(
+    settings=Settings(units="US", directions="both", stations_per_span=10, impact=0.33),
+    members=_US_MEMBERS,
+    vehicles=_US_VEHICLES,
+)
+
+#: A small metric demo, SI units (kN, m, kN/m).
+KVHA_SI_DEMO = Case(
+    settings=Settings(units="SI", directions="both", stations_per_span=10, impact=0.33),
+    members=(
+        _member("KV-M01 G1", (18.0,), "Larchmere Lane bridge, girder 1",
+                df=(0.6, 0.68), dead=(14.5, 2.4)),
+        _member("KV-M02 G2", (24.0, 30.0), "Redshank Lane bridge, girder 2",
+                df=(0.62, 0.7), dead=(17.0, 2.8)),
+        _member("KV-M03 G1", (20.0, 28.0, 20.0), "Kestrel River south approach, girder 1",
+                df=(0.66, 0.63), dead=(16.2, 2.6), span_ei=(1.0, 1.4, 1.0)),
+        _member("KV-M04 G3", (15.0, 36.0, 15.0),
+                "Wren Ferry north arm, girder 3: 18 m suspended span",
+                df=(0.6, 0.7), dead=(18.5, 3.0), hinges=(24.0, 42.0)),
+    ),
+    vehicles=(
+        _vehicle("KVHA-SI-D1", (35.0, 145.0, 145.0), (4.3, (4.3, 9.0)), "design",
+                 "KVHA metric design truck with a 9.3 kN/m lane", lane=9.3),
+        _vehicle("KV-SI-L3", (70.0, 75.0, 75.0), (4.5, 1.3), "legal",
+                 "KVHA metric legal 3-axle truck"),
+        _vehicle("KV-SI-P5", (50.0, 120.0, 120.0, 110.0, 110.0), (3.6, 1.3, (6.0, 9.0), 1.3),
+                 "permit", "KVHA metric permit 5-axle low loader"),
+    ),
+)  # fmt: skip
+
+#: Sample workbook file name (in sample_workbooks/) of each demo case.
+SAMPLE_WORKBOOKS: dict[str, Case] = {
+    "kvha-inventory.xlsx": KVHA_INVENTORY,
+    "kvha-si-demo.xlsx": KVHA_SI_DEMO,
+}
