@@ -339,12 +339,14 @@ def save_workbook(wb: Workbook, path: Path, *, overwrite: bool = False) -> None:
 
     The document properties set on ``wb`` are kept as they are (openpyxl's own
     save would stamp the current time). Raises ``FileExistsError`` when
-    ``path`` exists and ``overwrite`` is false, ``ValueError`` when the name
-    does not end in ``.xlsx``.
+    ``path`` exists and ``overwrite`` is false, ``FileNotFoundError`` when its
+    folder does not exist, ``ValueError`` when the name does not end in ``.xlsx``.
     """
     path = Path(path)
     if path.suffix.lower() != ".xlsx":
         raise ValueError(f"{path}: give a file name ending in .xlsx")
+    if not path.parent.is_dir():
+        raise FileNotFoundError(f"{path.parent}: no such folder; create it or choose another")
     if path.exists() and not overwrite:
         raise FileExistsError(
             f"{path} already exists; give a new file name (an existing workbook is never "
@@ -354,7 +356,7 @@ def save_workbook(wb: Workbook, path: Path, *, overwrite: bool = False) -> None:
     with zipfile.ZipFile(buffer, "w", zipfile.ZIP_DEFLATED) as archive:
         ExcelWriter(wb, archive).write_data()
     data = _fixed_zip(buffer.getvalue())
-    fd, tmp = tempfile.mkstemp(dir=path.parent or ".", prefix=f".{path.stem}-", suffix=".tmp")
+    fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.stem}-", suffix=".tmp")
     try:
         with os.fdopen(fd, "wb") as handle:
             handle.write(data)

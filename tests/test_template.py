@@ -193,6 +193,11 @@ def test_a_name_that_is_not_xlsx_is_refused(tmp_path: Path) -> None:
     assert list(tmp_path.iterdir()) == []
 
 
+def test_a_missing_folder_is_named(tmp_path: Path) -> None:
+    with pytest.raises(FileNotFoundError, match="no such folder"):
+        write_template(tmp_path / "absent" / "blank.xlsx")
+
+
 def test_a_failed_save_leaves_the_old_file_and_no_debris(
     tmp_path: Path, monkeypatch: pytest.MonkeyPatch
 ) -> None:
