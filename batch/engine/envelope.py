@@ -25,7 +25,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from batch.engine.influence import InfluenceLines, influence_lines
-from batch.engine.moving import LEFT_TO_RIGHT, RIGHT_TO_LEFT, axle_extremes
+from batch.engine.moving import LEFT_TO_RIGHT, RIGHT_TO_LEFT, Train, fleet_extremes_of
 from batch.model import Member
 
 __all__ = ["Extremes", "LoadCase", "MemberEnvelope", "member_envelope", "member_influence"]
@@ -148,45 +148,53 @@ def member_envelope(
     n_eff = il.n_effects
     df = np.full(n_eff, member.df_shear)
     df[il.moment_rows] = member.df_moment
-    natural = il.effect_scale
-    dirs = DIRECTION_CODES[directions]
-    best = {
-        sense: (
-            np.zeros(n_eff),
-            np.full(n_eff, -1),
-            np.full(n_eff, np.nan),
-            np.zeros(n_eff, np.int8),
-        )
-        for sense in ("max", "min")
-    }
-    for index, case in enumerate(cases):
-        ax = axle_extremes(
-            il,
-            case.axle_loads,
-            case.spacing_low,
-            case.spacing_high or None,
-            dirs,
-            case.drop_adverse_axles,
-        )
-        scale = case.factor * df
-        applies = _scoped(il, case.scope)
-        size = natural * (sum(case.axle_loads) * (1 + case.impact) + case.lane_load * il.length)
-        for col, (sense, axle_v, axle_p, axle_d, lane) in enumerate(
-            (
-                ("max", ax.max_value, ax.max_position, ax.max_direction, positive),
-                ("min", ax.min_value, ax.min_position, ax.min_direction, negative),
+    fleet = fleet_extremes_of(
+        il,
+        [
+            Train(
+                loads=c.axle_loads,
+                spacing_low=c.spacing_low,
+                spacing_high=c.spacing_high or c.spacing_low,
+                drop_adverse_axles=c.drop_adverse_axles,
             )
-        ):
-            axle_part = np.where(np.abs(axle_v) > ZERO_TOL * size, axle_v, 0.0)
-            value = scale * ((1 + case.impact) * axle_part + case.lane_load * lane)
-            value = np.where(np.abs(value) > ZERO_TOL * size * scale, value, 0.0)
-            sign = 1.0 if sense == "max" else -1.0
-            cur_v, cur_c, cur_p, cur_d = best[sense]
-            better = applies[:, col] & (sign * value > sign * cur_v)
-            cur_v[better] = value[better]
-            cur_c[better] = index
-            cur_p[better] = np.where(axle_part != 0.0, axle_p, np.nan)[better]
-            cur_d[better] = np.where(axle_part != 0.0, axle_d, 0)[better]
+            for c in cases
+        ],
+        DIRECTION_CODES[directions],
+    )
+    impact = np.array([c.impact for c in cases])[:, None]
+    lane = np.array([c.lane_load for c in cases])[:, None]
+    scale = np.array([c.factor for c in cases])[:, None] * df[None, :]
+    total = np.array([sum(c.axle_loads) for c in cases])[:, None]
+    size = il.effect_scale[None, :] * (total * (1 + impact) + lane * il.length)
+    scopes = {scope: _scoped(il, scope) for scope in {c.scope for c in cases}}
+    applies = np.array([scopes[c.scope] for c in cases], dtype=bool).reshape(-1, n_eff, 2)
+    best = {}
+    for col, (sense, axle_v, axle_p, axle_d, area) in enumerate(
+        (
+            ("max", fleet.max_value, fleet.max_position, fleet.max_direction, positive),
+            ("min", fleet.min_value, fleet.min_position, fleet.min_direction, negative),
+        )
+    ):
+        # Below ZERO_TOL of the case's natural size an extreme is round-off, not an effect.
+        axle_part = np.where(np.abs(axle_v) > ZERO_TOL * size, axle_v, 0.0)
+        value = scale * ((1 + impact) * axle_part + lane * area[None, :])
+        value = np.where(np.abs(value) > ZERO_TOL * size * scale, value, 0.0)
+        sign = 1.0 if sense == "max" else -1.0
+        # Row 0 stands for "no case": value 0, no position. First case wins ties.
+        pad = np.zeros((1, n_eff))
+        value = np.concatenate([pad, np.where(applies[:, :, col], value, 0.0)])
+        axle_part = np.concatenate([pad, axle_part])
+        axle_p = np.concatenate([pad + np.nan, axle_p])
+        axle_d = np.concatenate([pad.astype(np.int8), axle_d])
+        row = (sign * value).argmax(axis=0)
+        cols = np.arange(n_eff)
+        moving = axle_part[row, cols] != 0.0
+        best[sense] = (
+            value[row, cols],
+            row - 1,
+            np.where(moving, axle_p[row, cols], np.nan),
+            np.where(moving, axle_d[row, cols], 0).astype(np.int8),
+        )
 
     def pick(sense: str, rows: slice) -> Extremes:
         v, c, p, d = best[sense]

@@ -17,12 +17,22 @@ from __future__ import annotations
 import numba as nb
 import numpy as np
 
-__all__ = ["chain_extremes"]
+__all__ = ["chain_extremes", "cubic_crossings", "fleet_extremes"]
 
 
-@nb.njit(cache=True, inline="always")
-def _poly(c: np.ndarray, j: int, t: float) -> float:
-    return ((c[j, 3] * t + c[j, 2]) * t + c[j, 1]) * t + c[j, 0]
+@nb.njit(cache=True)
+def _piece_ends(breaks: np.ndarray, counts: np.ndarray, coef: np.ndarray) -> np.ndarray:
+    """Taylor coefficients of every piece about its right end (value, slope, ...)."""
+    ends = np.zeros(coef.shape)
+    for e in range(coef.shape[0]):
+        for j in range(counts[e] - 1):
+            h = breaks[e, j + 1] - breaks[e, j]
+            c0, c1, c2, c3 = coef[e, j, 0], coef[e, j, 1], coef[e, j, 2], coef[e, j, 3]
+            ends[e, j, 0] = ((c3 * h + c2) * h + c1) * h + c0
+            ends[e, j, 1] = (3.0 * c3 * h + 2.0 * c2) * h + c1
+            ends[e, j, 2] = 3.0 * c3 * h + c2
+            ends[e, j, 3] = c3
+    return ends
 
 
 @nb.njit(cache=True)
@@ -59,82 +69,84 @@ def _group_candidates(
     b: np.ndarray,
     n: int,
     c: np.ndarray,
+    ends: np.ndarray,
     loads: np.ndarray,
     offs: np.ndarray,
     tol: float,
     pos: np.ndarray,
     val: np.ndarray,
-    q: np.ndarray,
-    piece: np.ndarray,
+    event_q: np.ndarray,
+    event_id: np.ndarray,
     roots: np.ndarray,
 ) -> int:
     """Fill pos/val with every candidate of one rigid group; returns the count.
 
-    ``q``, ``piece`` and ``roots`` are scratch arrays (n*K, K and 2 long). The front
-    positions are swept in increasing order, so each axle's piece index only
-    moves forward: no search is needed.
+    An *event* is axle k reaching break i, at front position q = b[i] + offs[k].
+    Before the first event every axle is off the member (E = 0). Sweeping the
+    events in order, the cubic E(q) of the current interval is carried along by
+    an exact Taylor shift, and at each event only the crossing axle's piece
+    changes: its old piece's expansion about its right end is removed and its
+    new piece's expansion about its left end is added. The shifted cubic's
+    value at an event is the limit from the left; after the crossings, the
+    limit from the right. ``event_q``, ``event_id`` (n*K) and ``roots`` (2)
+    are scratch.
     """
     k_axles = loads.size
+    total = n * k_axles
     for i in range(n):
         for k in range(k_axles):
-            q[i * k_axles + k] = b[i] + offs[k]
-    total = n * k_axles
-    for i in range(1, total):  # insertion sort: short and nearly sorted
-        v = q[i]
+            event_q[i * k_axles + k] = b[i] + offs[k]
+            event_id[i * k_axles + k] = i * k_axles + k
+    for i in range(1, total):  # insertion sort by position: the lists are short
+        vq = event_q[i]
+        vid = event_id[i]
         h = i - 1
-        while h >= 0 and q[h] > v:
-            q[h + 1] = q[h]
+        while h >= 0 and event_q[h] > vq:
+            event_q[h + 1] = event_q[h]
+            event_id[h + 1] = event_id[h]
             h -= 1
-        q[h + 1] = v
-    qs = q
-    m = 0
-    for i in range(total):  # merge positions closer than tol
-        if m == 0 or qs[i] - qs[m - 1] > tol:
-            qs[m] = qs[i]
-            m += 1
-    for k in range(k_axles):
-        piece[k] = -1  # -1: left of the member; n - 1: right of it
+        event_q[h + 1] = vq
+        event_id[h + 1] = vid
+    a0 = 0.0
+    a1 = 0.0
+    a2 = 0.0
+    a3 = 0.0
     count = 0
-    for i in range(m):
-        a0 = 0.0
-        a1 = 0.0
-        a2 = 0.0
-        a3 = 0.0
-        left = 0.0
-        for k in range(k_axles):
-            x = qs[i] - offs[k]
-            j = piece[k]
-            while j < n - 1 and b[j + 1] <= x + tol:
-                j += 1
-            piece[k] = j
-            at_break = j >= 0 and abs(x - b[j]) <= tol
-            if at_break:
-                x = b[j]
-            p = loads[k]
-            if 0 <= j < n - 1:
-                t = x - b[j]
-                c0, c1, c2, c3 = c[j, 0], c[j, 1], c[j, 2], c[j, 3]
-                right = p * (((c3 * t + c2) * t + c1) * t + c0)
-                a0 += right
-                a1 += p * ((3.0 * c3 * t + 2.0 * c2) * t + c1)
-                a2 += p * (3.0 * c3 * t + c2)
-                a3 += p * c3
-                if not at_break:
-                    left += right
-            if at_break and j >= 1:  # just left of a break: the previous piece's end
-                left += p * _poly(c, j - 1, x - b[j - 1])
-        pos[count] = qs[i]
-        val[count] = a0
-        pos[count + 1] = qs[i]
-        val[count + 1] = left
+    idx = 0
+    q_prev = event_q[0]
+    while idx < total:
+        qg = event_q[idx]
+        d = qg - q_prev
+        a0 += d * (a1 + d * (a2 + d * a3))
+        a1 += d * (2.0 * a2 + 3.0 * d * a3)
+        a2 += 3.0 * d * a3
+        pos[count] = qg
+        val[count] = a0  # limit from the left
+        while idx < total and event_q[idx] - qg <= tol:
+            brk = event_id[idx] // k_axles
+            p = loads[event_id[idx] % k_axles]
+            if brk >= 1:  # the axle leaves piece brk - 1 at its right end
+                a0 -= p * ends[brk - 1, 0]
+                a1 -= p * ends[brk - 1, 1]
+                a2 -= p * ends[brk - 1, 2]
+                a3 -= p * ends[brk - 1, 3]
+            if brk <= n - 2:  # and enters piece brk at its left end
+                a0 += p * c[brk, 0]
+                a1 += p * c[brk, 1]
+                a2 += p * c[brk, 2]
+                a3 += p * c[brk, 3]
+            idx += 1
+        pos[count + 1] = qg
+        val[count + 1] = a0  # limit from the right
         count += 2
-        if i + 1 < m:
-            nr = _quad_roots(a1, 2.0 * a2, 3.0 * a3, qs[i + 1] - qs[i], roots)
+        if idx < total:
+            nr = _quad_roots(a1, 2.0 * a2, 3.0 * a3, event_q[idx] - qg, roots)
             for r in range(nr):
                 t = roots[r]
-                pos[count] = qs[i] + t
+                pos[count] = qg + t
                 val[count] = ((a3 * t + a2) * t + a1) * t + a0
                 count += 1
+        q_prev = qg
     return count
 
 
@@ -174,30 +186,29 @@ def chain_extremes(
     best = np.empty(max_c)
     nxt = np.empty(max_c)
     choice = np.zeros((max(n_gaps, 1), max_c), dtype=np.int64)
-    q_scratch = np.empty(width * loads.size)
-    piece_scratch = np.empty(loads.size, dtype=np.int64)
+    event_q = np.empty(width * loads.size)
+    event_id = np.empty(width * loads.size, dtype=np.int64)
     root_scratch = np.empty(2)
     signed = sigma * offsets
+    ends = _piece_ends(breaks, counts, coef)
     out_v = np.empty((2, n_eff))
     out_p = np.empty((2, n_eff))
     out_d = np.zeros((2, n_eff, n_gaps))
     for e in range(n_eff):
-        n = counts[e]
-        b = breaks[e]
-        c = coef[e]
         for g in range(n_groups):
             s0, s1 = group_start[g], group_start[g + 1]
             ncand[g] = _group_candidates(
-                b,
-                n,
-                c,
+                breaks[e],
+                counts[e],
+                coef[e],
+                ends[e],
                 loads[s0:s1],
                 signed[s0:s1],
                 tol,
                 pos[g],
                 val[g],
-                q_scratch,
-                piece_scratch,
+                event_q,
+                event_id,
                 root_scratch,
             )
         for sense_i in range(2):
@@ -239,6 +250,76 @@ def chain_extremes(
 
 
 @nb.njit(cache=True)
+def fleet_extremes(
+    breaks: np.ndarray,
+    counts: np.ndarray,
+    coef: np.ndarray,
+    loads: np.ndarray,
+    offsets: np.ndarray,
+    case_start: np.ndarray,
+    sigmas: np.ndarray,
+    tol: float,
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """Extremes of many rigid axle trains (fixed spacings) in one call.
+
+    Train i has axles ``case_start[i]:case_start[i + 1]`` of ``loads`` with
+    ``offsets`` behind its front axle; every train is swept in each direction
+    of ``sigmas``. Returns, with shape (n_cases, n_effects): the maximum, its
+    front-axle position and direction, then the same for the minimum. The
+    maximum starts from 0 with position NaN and direction 0 (the train off the
+    member), and likewise the minimum.
+    """
+    n_eff = breaks.shape[0]
+    n_cases = case_start.size - 1
+    width = breaks.shape[1]
+    k_max = 1
+    for i in range(n_cases):
+        k_max = max(k_max, case_start[i + 1] - case_start[i])
+    pos = np.empty(4 * width * k_max + 2)
+    val = np.empty(4 * width * k_max + 2)
+    event_q = np.empty(width * k_max)
+    event_id = np.empty(width * k_max, dtype=np.int64)
+    root_scratch = np.empty(2)
+    ends = _piece_ends(breaks, counts, coef)
+    max_v = np.zeros((n_cases, n_eff))
+    max_p = np.full((n_cases, n_eff), np.nan)
+    max_d = np.zeros((n_cases, n_eff), dtype=np.int8)
+    min_v = np.zeros((n_cases, n_eff))
+    min_p = np.full((n_cases, n_eff), np.nan)
+    min_d = np.zeros((n_cases, n_eff), dtype=np.int8)
+    for i in range(n_cases):
+        s0, s1 = case_start[i], case_start[i + 1]
+        for sigma in sigmas:
+            signed = sigma * offsets[s0:s1]
+            for e in range(n_eff):
+                count = _group_candidates(
+                    breaks[e],
+                    counts[e],
+                    coef[e],
+                    ends[e],
+                    loads[s0:s1],
+                    signed,
+                    tol,
+                    pos,
+                    val,
+                    event_q,
+                    event_id,
+                    root_scratch,
+                )
+                for c in range(count):
+                    v = val[c]
+                    if v > max_v[i, e]:
+                        max_v[i, e] = v
+                        max_p[i, e] = pos[c]
+                        max_d[i, e] = np.int8(sigma)
+                    if v < min_v[i, e]:
+                        min_v[i, e] = v
+                        min_p[i, e] = pos[c]
+                        min_d[i, e] = np.int8(sigma)
+    return max_v, max_p, max_d, min_v, min_p, min_d
+
+
+@nb.njit(cache=True)
 def _cubic_at(c0: float, c1: float, c2: float, c3: float, t: float) -> float:
     return ((c3 * t + c2) * t + c1) * t + c0
 
@@ -248,12 +329,12 @@ def cubic_crossings(coef: np.ndarray, h: np.ndarray) -> np.ndarray:
     """Sign-changing roots of every cubic piece inside its own interval.
 
     ``coef`` has shape (..., 4) in the local coordinate t of a piece of length
-    ``h`` (broadcast over the leading axes). The stationary points split each
-    piece into at most three monotone parts; a root is bracketed in each part
-    whose ends differ in sign and bisected to machine precision. Returns the
-    roots with shape (..., 3), NaN-padded. Touching (double) roots do not change
-    sign and are not needed by the callers (areas of the positive and negative
-    parts, and the split of a line into them).
+    ``h`` (same leading shape). The stationary points split each piece into at
+    most three monotone parts; a root is bracketed in each part whose ends
+    differ in sign and bisected to machine precision. Returns the roots with
+    shape (..., 3), NaN-padded. Touching (double) roots do not change sign and
+    are not needed by the callers (areas of the positive and negative parts,
+    and the split of a line into them).
     """
     flat = coef.reshape(-1, 4)
     hh = h.reshape(-1)

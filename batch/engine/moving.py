@@ -30,9 +30,17 @@ import numpy as np
 from numpy.typing import NDArray
 
 from batch.engine.influence import POSITION_TOL, InfluenceLines
-from batch.engine.kernel import chain_extremes
+from batch.engine.kernel import chain_extremes, fleet_extremes
 
-__all__ = ["LEFT_TO_RIGHT", "RIGHT_TO_LEFT", "AxleExtremes", "axle_extremes"]
+__all__ = [
+    "LEFT_TO_RIGHT",
+    "RIGHT_TO_LEFT",
+    "AxleExtremes",
+    "FleetExtremes",
+    "Train",
+    "axle_extremes",
+    "fleet_extremes_of",
+]
 
 LEFT_TO_RIGHT = 1
 RIGHT_TO_LEFT = -1
@@ -159,3 +167,85 @@ def axle_extremes(
         min_direction=best[-1.0][2],
         min_spacing=best[-1.0][3],
     )
+
+
+@dataclass(frozen=True, kw_only=True)
+class Train:
+    """An axle train as the sweep needs it (see :func:`axle_extremes` for units)."""
+
+    loads: tuple[float, ...]
+    spacing_low: tuple[float, ...] = ()
+    spacing_high: tuple[float, ...] = ()
+    drop_adverse_axles: bool = False
+
+    @property
+    def is_rigid(self) -> bool:
+        """True when no spacing is a range."""
+        return not any(h > lo for lo, h in zip(self.spacing_low, self.spacing_high, strict=False))
+
+
+@dataclass(frozen=True, kw_only=True)
+class FleetExtremes:
+    """Extremes of many trains, as in :class:`AxleExtremes`, shape (n_trains, n_effects)."""
+
+    max_value: NDArray[np.float64]
+    max_position: NDArray[np.float64]
+    max_direction: NDArray[np.int8]
+    min_value: NDArray[np.float64]
+    min_position: NDArray[np.float64]
+    min_direction: NDArray[np.int8]
+
+
+def fleet_extremes_of(
+    il: InfluenceLines,
+    trains: list[Train] | tuple[Train, ...],
+    directions: tuple[int, ...] = (LEFT_TO_RIGHT, RIGHT_TO_LEFT),
+) -> FleetExtremes:
+    """Exact extremes of every train on every influence line of one member.
+
+    Rigid trains are swept together in one compiled call per partition;
+    trains with ranged spacings go through :func:`axle_extremes` one by one.
+    """
+    n_eff = il.n_effects
+    shape = (len(trains), n_eff)
+    out = FleetExtremes(
+        max_value=np.zeros(shape),
+        max_position=np.full(shape, np.nan),
+        max_direction=np.zeros(shape, np.int8),
+        min_value=np.zeros(shape),
+        min_position=np.full(shape, np.nan),
+        min_direction=np.zeros(shape, np.int8),
+    )
+    sigmas = np.array(directions, dtype=float)
+    tol = POSITION_TOL * il.length
+    for drop in (False, True):
+        rows = [i for i, t in enumerate(trains) if t.is_rigid and t.drop_adverse_axles == drop]
+        if not rows:
+            continue
+        loads = np.concatenate([np.asarray(trains[i].loads, dtype=float) for i in rows])
+        offsets = np.concatenate(
+            [np.concatenate([[0.0], np.cumsum(trains[i].spacing_low)]) for i in rows]
+        )
+        start = np.concatenate([[0], np.cumsum([len(trains[i].loads) for i in rows])])
+        positive, negative = il.clipped if drop else (il.reduced, il.reduced)
+        high = fleet_extremes(*positive, loads, offsets, start, sigmas, tol)
+        low = high if not drop else fleet_extremes(*negative, loads, offsets, start, sigmas, tol)
+        out.max_value[rows], out.max_position[rows], out.max_direction[rows] = high[0:3]
+        out.min_value[rows], out.min_position[rows], out.min_direction[rows] = low[3:6]
+    for i, t in enumerate(trains):
+        if t.is_rigid:
+            continue
+        one = axle_extremes(
+            il, t.loads, t.spacing_low, t.spacing_high, directions, t.drop_adverse_axles
+        )
+        out.max_value[i], out.max_position[i], out.max_direction[i] = (
+            one.max_value,
+            one.max_position,
+            one.max_direction,
+        )
+        out.min_value[i], out.min_position[i], out.min_direction[i] = (
+            one.min_value,
+            one.min_position,
+            one.min_direction,
+        )
+    return out
