@@ -1,0 +1,171 @@
+"""The Run Log sheet: what was run, on what, how, and how to read and use the results.
+
+Two columns, Item and Value, in sections: the run (program version, UTC time,
+run time), the input (file name, SHA-256 digest), the settings used, counts, the
+load cases, the result sheets written, every warning, a short legend (sign
+conventions and what the highlight means) and the cautions that come with any
+line-girder live-load analysis (the texts of :mod:`batch.cautions`, shared with the
+template).
+"""
+
+from __future__ import annotations
+
+import platform
+from collections.abc import Iterator, Sequence
+from dataclasses import dataclass
+
+import numpy as np
+import openpyxl
+from openpyxl.styles import Alignment, Font
+from openpyxl.workbook.workbook import Workbook
+
+import batch
+from batch.cautions import CAUTIONS, SIGN_CONVENTIONS
+from batch.inputs import SETTING_ROWS
+from batch.results import RUN_LOG_SHEET
+from batch.run import RunResult
+from batch.writers.sheets import (
+    HEADER_FILL,
+    HIGHLIGHT_FILL,
+    new_result_sheet,
+    write_header_cells,
+    write_value,
+)
+
+__all__ = ["InputInfo", "write_run_log"]
+
+
+@dataclass(frozen=True, kw_only=True)
+class InputInfo:
+    """Where the run's input came from and where the results went.
+
+    ``digest`` is the SHA-256 (hex) of the input file's bytes; ``warnings`` the
+    input warnings, rendered (``Sheet!Cell: message``).
+    """
+
+    name: str
+    digest: str
+    source: str
+    output: str
+    warnings: tuple[str, ...] = ()
+
+
+#: How to read the result sheets, beyond the sign conventions.
+_LEGEND: tuple[tuple[str, str], ...] = (
+    (
+        "Stations",
+        "Fractions 0 to 1 of each span; x is measured from the member's left end, so an "
+        "interior support appears twice (end of one span, start of the next).",
+    ),
+    ("Supports", "Support 1 is the member's left end; R min below 0 is uplift."),
+    (
+        "Values",
+        "Include the distribution factor, the vehicle row's Factor and the dynamic load "
+        "allowance on axle loads (never on lane loads).",
+    ),
+    (
+        "vehicle / at / direction",
+        "The load case that governs, the position of its front axle (x from the member's left "
+        "end) and its direction of travel. An empty vehicle cell: no vehicle gives a value of "
+        "that sign there, and the value is 0. A vehicle with an empty 'at': its lane load "
+        "alone governs.",
+    ),
+)
+
+
+_SECTION = "section"
+_PLAIN = "plain"
+_MARKED = "marked"
+
+_HIGHLIGHT_TEXT = (
+    "A cell like this one (amber fill, bold) holds the member's governing (extreme) value of "
+    "that effect in Envelopes (M max, M min, V max, V min) or Reactions (R max, R min); its "
+    "vehicle, at and direction cells are marked too. The same values are listed in Governing. "
+    "Where equal extremes occur, the leftmost is marked."
+)
+
+
+def _rows(
+    result: RunResult, info: InputInfo, sheets: Sequence[str], notes: Sequence[str]
+) -> Iterator[tuple[str, object, str]]:
+    """The Run Log's rows as (item, value, style)."""
+    settings = result.case.settings
+    yield "Run", None, _SECTION
+    yield "Program", f"spanfleet {batch.__version__}", _PLAIN
+    yield "Started (UTC)", result.started.isoformat(timespec="seconds"), _PLAIN
+    yield "Run time (s)", round(result.seconds, 3), _PLAIN
+    versions = (
+        f"Python {platform.python_version()}, numpy {np.__version__}, "
+        f"openpyxl {openpyxl.__version__}"
+    )
+    yield "Environment", versions, _PLAIN
+    yield "Input", None, _SECTION
+    yield "Input file", info.name, _PLAIN
+    yield "Input type", info.source, _PLAIN
+    yield "Input SHA-256", info.digest, _PLAIN
+    yield "Results written to", info.output, _PLAIN
+    yield "Settings used", None, _SECTION
+    for row in SETTING_ROWS:
+        yield row.name, getattr(settings, row.key), _PLAIN
+    units = ", ".join(f"{q}: {u}" for q, u in settings.unit_labels.items())
+    yield "Units of results", units, _PLAIN
+    yield "Counts", None, _SECTION
+    yield "Members", result.n_members, _PLAIN
+    yield "Vehicles", result.n_vehicles, _PLAIN
+    yield "Load cases", result.n_load_cases, _PLAIN
+    yield "Stations (Envelopes rows)", result.n_stations, _PLAIN
+    yield "Supports (Reactions rows)", result.n_supports, _PLAIN
+    yield "Load cases run", None, _SECTION
+    for lc in result.load_cases:
+        vehicle = result.case.vehicles[lc.vehicle].id
+        axles = ", ".join(f"{p:g}" for p in lc.axle_loads)
+        text = (
+            f"vehicle row {vehicle}; axles {axles}; lane load {lc.lane_load:g}; "
+            f"dynamic allowance {lc.impact:g}; factor {lc.factor:g}"
+        )
+        yield lc.label, text + ("" if lc.scope == "all" else f"; scope {lc.scope}"), _PLAIN
+    yield "Result sheets", None, _SECTION
+    yield "Written", ", ".join(sheets), _PLAIN
+    for note in notes:
+        yield "Note", note, _PLAIN
+    warnings = (*info.warnings, *result.warnings)
+    yield f"Warnings ({len(warnings)})", None, _SECTION
+    for text in warnings:
+        yield "warning", text, _PLAIN
+    if not warnings:
+        yield "", "none", _PLAIN
+    yield "How to read", None, _SECTION
+    for text in SIGN_CONVENTIONS:
+        yield "Signs", text, _PLAIN
+    for item, text in _LEGEND:
+        yield item, text, _PLAIN
+    yield "Highlight", _HIGHLIGHT_TEXT, _MARKED
+    yield "Cautions", None, _SECTION
+    for k, text in enumerate(CAUTIONS, start=1):
+        yield str(k), text, _PLAIN
+
+
+def write_run_log(
+    wb: Workbook,
+    result: RunResult,
+    info: InputInfo,
+    sheets: Sequence[str],
+    notes: Sequence[str] = (),
+) -> None:
+    """Add the Run Log sheet; ``sheets`` are the result sheets written, ``notes`` about them."""
+    ws = new_result_sheet(wb, RUN_LOG_SHEET)
+    write_header_cells(ws, ("Item", "Value"), (30, 100))
+    wrap = Alignment(wrap_text=True, vertical="top")
+    bold = Font(bold=True)
+    for r, (item, value, style) in enumerate(_rows(result, info, sheets, notes), start=2):
+        key = write_value(ws, r, 1, item)
+        key.alignment = wrap
+        cell = write_value(ws, r, 2, value)
+        cell.alignment = wrap
+        if style == _SECTION:
+            for c in (key, cell):
+                c.font = bold
+                c.fill = HEADER_FILL
+        elif style == _MARKED:
+            cell.font = bold
+            cell.fill = HIGHLIGHT_FILL
