@@ -24,6 +24,7 @@ def _vehicle_cases(vehicle: Vehicle, index: int, settings: Settings) -> list[Loa
                 impact=part.impact,
                 factor=part.factor * vehicle.factor,
                 scope=part.scope,
+                drop_adverse_axles=part.drop_adverse_axles,
                 vehicle=index,
             )
             for part in parts
