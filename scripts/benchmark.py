@@ -1,0 +1,216 @@
+"""Benchmark: a seeded synthetic inventory against a seeded fleet, end to end.
+
+    python scripts/benchmark.py                    # 1,000 members x 300 vehicles
+    python scripts/benchmark.py --members 200 --vehicles 50   # a quick look
+
+It writes an input workbook, runs ``spanfleet run`` on it as a user would
+(a separate process, timed from start to finish), and prints the time per
+member-vehicle pair, effects per second and the run's peak memory. In the same
+run it times a naive baseline on a sample of the same pairs — the front axle
+stepped every 0.5 ft in both directions with numpy, ranged spacings stepped every
+1 ft — and prints the speed ratio, because shared computers are noisy and only a
+ratio measured side by side means anything. It also times the compiled kernel
+alone on the three-span members, and reports how far below the exact extremes the
+baseline's stepping falls (its unsafe-side error).
+
+Nothing here is a test: it prints figures and asserts nothing.
+"""
+
+from __future__ import annotations
+
+import argparse
+import resource
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+import numpy as np
+
+from batch.engine.envelope import member_influence
+from batch.engine.influence import InfluenceLines, mechanism_parts
+from batch.engine.moving import Train, fleet_extremes_of
+from batch.loadcases import fleet_cases
+from batch.model import Case, Member, Settings, Spacing, Vehicle
+from batch.template import write_case_workbook
+
+STEP = 0.5  # ft, the baseline's front-axle step
+RANGE_STEP = 1.0  # ft, the baseline's step through a ranged spacing
+
+
+def synthetic_case(n_members: int, n_vehicles: int, seed: int) -> Case:
+    """A seeded inventory of 1-4 span members (unequal spans and EI, some hinges) and fleet."""
+    rng = np.random.default_rng(seed)
+    members = []
+    while len(members) < n_members:
+        n_spans = int(rng.integers(1, 5))
+        spans = tuple(float(round(v, 1)) for v in rng.uniform(20.0, 160.0, n_spans))
+        ei = tuple(float(round(v, 2)) for v in rng.uniform(0.6, 1.8, n_spans))
+        hinges: tuple[float, ...] = ()
+        if n_spans == 3 and rng.random() < 0.2:  # cantilever-and-suspended main span
+            start = spans[0]
+            hinges = (round(start + 0.22 * spans[1], 2), round(start + 0.78 * spans[1], 2))
+        elif n_spans == 2 and rng.random() < 0.15:
+            hinges = (round(spans[0] + 0.2 * spans[1], 2),)
+        if hinges and mechanism_parts(spans, hinges):
+            continue
+        members.append(
+            Member(
+                id=f"SYN-{len(members) + 1:05d}",
+                spans=spans,
+                hinges=hinges,
+                span_ei=ei,
+                df_moment=float(round(rng.uniform(0.5, 0.8), 3)),
+                df_shear=float(round(rng.uniform(0.6, 0.9), 3)),
+            )
+        )
+    vehicles = []
+    for v in range(n_vehicles):
+        n_axles = int(rng.integers(2, 14))
+        loads = tuple(float(round(x, 1)) for x in rng.uniform(4.0, 40.0, n_axles))
+        gaps = [float(round(x, 1)) for x in rng.uniform(4.0, 30.0, n_axles - 1)]
+        spacings = [Spacing(low=g, high=g) for g in gaps]
+        if rng.random() < 0.2:
+            g = int(rng.integers(0, n_axles - 1))
+            spacings[g] = Spacing(low=gaps[g], high=round(gaps[g] + 12.0, 1))
+        lane = float(round(rng.uniform(0.2, 0.64), 2)) if rng.random() < 0.25 else 0.0
+        vehicles.append(
+            Vehicle(
+                id=f"TRK-{v + 1:04d}",
+                axle_loads=loads,
+                spacings=tuple(spacings),
+                lane_load=lane,
+                category="permit",
+            )
+        )
+    return Case(settings=Settings(), members=tuple(members), vehicles=tuple(vehicles))
+
+
+def baseline_extremes(il: InfluenceLines, vehicle: Vehicle) -> tuple[np.ndarray, np.ndarray]:
+    """Naive stepping: front axle every STEP in both directions, ranges every RANGE_STEP."""
+    lows = np.array([s.low for s in vehicle.spacings])
+    highs = np.array([s.high for s in vehicle.spacings])
+    choices = [
+        np.arange(lo, hi + 1e-9, RANGE_STEP) if hi > lo else [lo]
+        for lo, hi in zip(lows, highs, strict=True)
+    ]
+    grids = np.meshgrid(*choices, indexing="ij") if choices else []
+    best = np.zeros(il.n_effects)
+    worst = np.zeros(il.n_effects)
+    for combo in zip(*(g.ravel() for g in grids), strict=True) if choices else [()]:
+        offsets = np.concatenate([[0.0], np.cumsum(combo)])
+        front = np.arange(-offsets[-1], il.length + offsets[-1] + STEP, STEP)
+        for sigma in (1.0, -1.0):
+            total = np.zeros((il.n_effects, front.size))
+            for p, d in zip(vehicle.axle_loads, offsets, strict=True):
+                total += p * il.evaluate(front - sigma * d)
+            best = np.maximum(best, total.max(axis=1))
+            worst = np.minimum(worst, total.min(axis=1))
+    return best, worst
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--members", type=int, default=1000)
+    parser.add_argument("--vehicles", type=int, default=300)
+    parser.add_argument("--seed", type=int, default=2026)
+    parser.add_argument("--sample", type=int, default=40, help="pairs timed for the baseline")
+    parser.add_argument("--jobs", type=int, default=None, help="passed to spanfleet run")
+    args = parser.parse_args(argv)
+
+    case = synthetic_case(args.members, args.vehicles, args.seed)
+    pairs = len(case.members) * len(case.vehicles)
+    settings = case.settings
+    with tempfile.TemporaryDirectory() as tmp:
+        book = Path(tmp) / "synthetic-inventory.xlsx"
+        write_case_workbook(case, book)
+        command = [
+            sys.executable,
+            "-m",
+            "batch",
+            "run",
+            str(book),
+            "--out",
+            str(Path(tmp) / "out.xlsx"),
+        ]
+        if args.jobs is not None:
+            command += ["--jobs", str(args.jobs)]
+        start = time.perf_counter()
+        done = subprocess.run(command, capture_output=True, text=True, check=False)
+        elapsed = time.perf_counter() - start
+        peak_mb = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss / 1024
+        if done.returncode != 0:
+            print(done.stdout, done.stderr, sep="\n")
+            return 1
+
+    # Kernel alone, three-span members, every vehicle (fixed and ranged), both directions.
+    cases = fleet_cases(case.vehicles, settings)
+    trains = [
+        Train(loads=c.axle_loads, spacing_low=c.spacing_low, spacing_high=c.spacing_high)
+        for c in cases
+    ]
+    three = [m for m in case.members if len(m.spans) == 3][:20]
+    ils = [member_influence(m, settings.stations_per_span) for m in three]
+    fleet_extremes_of(ils[0], trains[:2])  # compile outside the timing
+    start = time.perf_counter()
+    for il in ils:
+        fleet_extremes_of(il, trains)
+    kernel_us = (time.perf_counter() - start) / (len(ils) * len(trains)) * 1e6
+    effects_3 = ils[0].n_effects
+
+    # Baseline on a sample of pairs, with the exact extremes of the same pairs.
+    rng = np.random.default_rng(args.seed + 1)
+    sample = [
+        (
+            case.members[int(rng.integers(len(case.members)))],
+            case.vehicles[int(rng.integers(len(case.vehicles)))],
+        )
+        for _ in range(args.sample)
+    ]
+    shortfall = 0.0
+    base_time = 0.0
+    for member, vehicle in sample:
+        il = member_influence(member, settings.stations_per_span)
+        start = time.perf_counter()
+        best, worst = baseline_extremes(il, vehicle)
+        base_time += time.perf_counter() - start
+        exact = fleet_extremes_of(
+            il,
+            [
+                Train(
+                    loads=vehicle.axle_loads,
+                    spacing_low=tuple(s.low for s in vehicle.spacings),
+                    spacing_high=tuple(s.high for s in vehicle.spacings),
+                )
+            ],
+        )
+        scale = np.maximum(np.abs(exact.max_value[0]), np.abs(exact.min_value[0])).max()
+        low = np.concatenate([exact.max_value[0] - best, worst - exact.min_value[0]])
+        shortfall = max(shortfall, float(low.max() / scale))
+    base_per_pair = base_time / len(sample)
+    per_pair = elapsed / pairs
+    effects = sum(
+        2 * member_influence(m, settings.stations_per_span).n_effects for m in case.members
+    ) * len(case.vehicles)
+
+    print(
+        f"inventory            {len(case.members)} members, "
+        f"{len(case.vehicles)} vehicles, {pairs} pairs"
+    )
+    print(f"end to end           {elapsed:.1f} s  ({per_pair * 1e6:.0f} us per pair)")
+    print(f"effects per second   {effects / elapsed:,.0f}  (max and min of every line)")
+    print(f"peak memory          {peak_mb:.0f} MB (the spanfleet process)")
+    print(f"kernel, three spans  {kernel_us:.0f} us per pair ({effects_3} lines, both directions)")
+    print(
+        f"baseline (0.5 ft)    {base_per_pair * 1e3:.1f} ms per pair on {len(sample)} sampled pairs"
+    )
+    print(f"speed ratio          {base_per_pair / per_pair:.0f} x the baseline's speed, end to end")
+    print(f"baseline shortfall   up to {shortfall:.2%} of the effect below the exact extreme")
+    estimate = per_pair * 10_000 * 500 / 60
+    print(f"10,000 x 500 at this rate: about {estimate:.0f} min")
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
