@@ -16,6 +16,7 @@ import pytest
 
 from batch import library
 from batch.engine import member_envelope
+from batch.library.models import part
 from batch.library.units import KN_PER_KIP, M_PER_FT, conversion
 from batch.loadcases import fleet_cases
 from batch.model import Member, Settings, Vehicle
@@ -349,3 +350,22 @@ def test_nrl_and_su7_absolute_maximum_moment_at_40_ft(name, x, moment):
     )
     assert abs(env.m_max.value[where.numerator] - moment) <= 0.05  # printed to one decimal
     assert env.m_max.value.max() <= env.m_max.value[where.numerator] * (1 + REL_TOL_ENGINE)
+
+
+@pytest.mark.parametrize(
+    ("loads", "spacings", "scope"),
+    [
+        ((), (), "all"),  # no axles
+        ((8, 32), (), "all"),  # a gap without a spacing
+        ((8, 32), ((30, 14),), "all"),  # range upside down
+        ((8, 32), (14,), "sagging"),  # a scope the engine does not know
+    ],
+)
+def test_malformed_parts_are_refused_when_the_library_is_built(loads, spacings, scope):
+    with pytest.raises(ValueError, match="part 'KV test'"):
+        part("KV test", loads, spacings, scope=scope)
+
+
+def test_unknown_unit_system_is_refused():
+    with pytest.raises(ValueError, match="unknown unit system"):
+        conversion("US", "CGS")  # type: ignore[arg-type]
