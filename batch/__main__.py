@@ -1,0 +1,5 @@
+"""``python -m batch``: the ``spanfleet`` command."""
+
+from batch.cli import main
+
+raise SystemExit(main())

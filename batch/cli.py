@@ -1,0 +1,384 @@
+"""The ``spanfleet`` command (also ``python -m batch``).
+
+Commands::
+
+    spanfleet run BOOK.xlsx                  results written back into BOOK.xlsx
+    spanfleet run BOOK.xlsx --out OUT.xlsx   BOOK.xlsx untouched; input sheets + results to OUT
+    spanfleet run case.json --out OUT.xlsx   JSON input (--out required)
+    spanfleet check BOOK.xlsx [--json]       validate only; every problem printed
+    spanfleet template NEW.xlsx              a blank, documented input workbook
+    spanfleet library [--units SI]           the built-in load models
+
+Exit status: 0 success; 1 the input has problems, or the results could not be
+saved (each problem printed as ``Sheet!Cell: message``); 2 usage error; 3 an
+internal error (please report it); 130 interrupted. A run that fails never
+changes the input workbook. Set ``SPANFLEET_DEBUG=1`` to see the traceback of an
+internal error.
+"""
+
+from __future__ import annotations
+
+import argparse
+import hashlib
+import json
+import os
+import sys
+import traceback
+from collections.abc import Sequence
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+import batch
+
+if TYPE_CHECKING:
+    from batch.run import ProgressFn
+    from batch.validation.problems import InputReport
+    from batch.writers.preserve import OpenedBook
+
+__all__ = ["EXIT_INTERNAL", "EXIT_OK", "EXIT_PROBLEMS", "EXIT_USAGE", "main"]
+
+EXIT_OK = 0
+EXIT_PROBLEMS = 1
+EXIT_USAGE = 2
+EXIT_INTERNAL = 3
+EXIT_INTERRUPTED = 130
+
+WORKBOOK_SUFFIXES = (".xlsx", ".xlsm")
+
+
+class Refused(Exception):
+    """The command cannot go on; the message says what is wrong and what to do (exit 1)."""
+
+
+class Usage(Exception):
+    """The command line asks for something impossible (exit 2)."""
+
+
+def _say(text: str) -> None:
+    print(text, file=sys.stderr)
+
+
+def _warn(text: str) -> None:
+    _say(f"warning: {text}")
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser of the ``spanfleet`` command."""
+    parser = argparse.ArgumentParser(
+        prog="spanfleet",
+        description="Live-load envelopes of a vehicle fleet over an inventory of girder lines.",
+        epilog="Exit status: 0 success, 1 input problems, 2 usage error, 3 internal error.",
+    )
+    parser.add_argument("--version", action="version", version=f"spanfleet {batch.__version__}")
+    sub = parser.add_subparsers(dest="command", required=True, metavar="COMMAND")
+
+    run = sub.add_parser("run", help="compute the envelopes and write the result sheets")
+    run.add_argument("book", type=Path, help="input workbook (.xlsx, .xlsm) or JSON document")
+    run.add_argument(
+        "--out",
+        type=Path,
+        help="write the input sheets and the results to this workbook instead "
+        "(the input is left untouched); required for JSON input",
+    )
+    run.add_argument("-q", "--quiet", action="store_true", help="print problems and warnings only")
+
+    check = sub.add_parser("check", help="validate the input only; print every problem")
+    check.add_argument("book", type=Path, help="input workbook or JSON document")
+    check.add_argument("--json", action="store_true", help="print the report as JSON")
+
+    template = sub.add_parser("template", help="write a blank, documented input workbook")
+    template.add_argument("new", type=Path, help="name of the new workbook (.xlsx)")
+
+    library = sub.add_parser("library", help="list the built-in load models")
+    library.add_argument("--units", choices=("US", "SI"), default="US", help="weights in kip or kN")
+    return parser
+
+
+# ---------------------------------------------------------------- reading
+
+
+def _require_file(path: Path) -> None:
+    if not path.exists():
+        raise Refused(f"{path}: no such file; check the name and the folder")
+    if path.is_dir():
+        raise Refused(f"{path}: is a folder; give the input workbook or JSON file")
+
+
+def _read(path: Path) -> InputReport:
+    from batch.readers import read_input
+
+    return read_input(path)
+
+
+def _report_problems(report: InputReport, name: str) -> int:
+    for w in report.warnings:
+        _warn(w.render())
+    if report.ok:
+        return EXIT_OK
+    for p in report.problems:
+        _say(p.render())
+    count = len(report.problems)
+    _say(f"{name}: {count} problem{'s' if count != 1 else ''} found; fix them and run again.")
+    return EXIT_PROBLEMS
+
+
+# ---------------------------------------------------------------- run
+
+
+def _target(src: Path, out: Path | None) -> tuple[Path, bool]:
+    """Where results go, and whether that is the input itself (an in-place run)."""
+    if out is None:
+        return src.resolve(), True
+    if out.is_dir():
+        raise Refused(f"{out}: is a folder; give --out a workbook file name ending in .xlsx")
+    same = out.exists() and os.path.samefile(src, out)
+    return (src.resolve() if same else out.absolute()), same
+
+
+def _check_names(src: Path, target: Path, is_json: bool, has_out: bool) -> None:
+    if is_json and not has_out:
+        raise Usage("a JSON input needs --out RESULTS.xlsx for the results")
+    suffix = target.suffix.lower()
+    if suffix not in WORKBOOK_SUFFIXES:
+        raise Usage(f"{target.name}: results go to a workbook; give a name ending in .xlsx")
+    if suffix == ".xlsm" and src.suffix.lower() != ".xlsm":
+        raise Usage(f"{target.name}: .xlsm is for workbooks with macros; use .xlsx")
+
+
+def _open_input(src: Path, report: InputReport, keep_vba: bool) -> OpenedBook:
+    from batch.writers.preserve import BookProblem, open_book
+
+    data = src.read_bytes()
+    if hashlib.sha256(data).hexdigest() != report.digest:
+        raise Refused(
+            f"{src.name}: the file changed while spanfleet was reading it; "
+            "save it in your spreadsheet program, close it and run again"
+        )
+    try:
+        return open_book(data, src.name, keep_vba)
+    except BookProblem as exc:
+        raise Refused(str(exc)) from exc
+
+
+def _json_book(report: InputReport) -> OpenedBook:
+    """A new workbook for JSON input: the case as input sheets, ready for results."""
+    from batch.inputs import SETTING_ROWS
+    from batch.template import case_rows, input_workbook
+    from batch.writers.preserve import OpenedBook
+
+    case = report.case
+    assert case is not None
+    settings = {row.key: getattr(case.settings, row.key) for row in SETTING_ROWS}
+    wb = input_workbook(units=case.settings.units, settings=settings, rows=case_rows(case))
+    return OpenedBook(workbook=wb, cannot_keep=(), replaced=(), active=None)
+
+
+def _guard_in_place(opened: OpenedBook, target: Path) -> None:
+    from batch.writers.save import open_elsewhere
+
+    if opened.cannot_keep:
+        lost = "; ".join(opened.cannot_keep)
+        raise Refused(
+            f"{target.name}: holds content that spanfleet cannot write back ({lost}). "
+            f"{target.name} was not changed. Run again with --out RESULTS.xlsx to write the "
+            "input sheets and the results to a new workbook (it will lack that content)."
+        )
+    lock = open_elsewhere(target)
+    if lock is not None:
+        raise Refused(
+            f"{target.name}: seems to be open in a spreadsheet program (lock file {lock.name}); "
+            f"close it and run again (delete the lock file if no program has it open), or use "
+            f"--out. {target.name} was not changed."
+        )
+
+
+def _progress(quiet: bool) -> ProgressFn | None:
+    """A one-line progress display on a terminal; nothing when quiet or redirected."""
+    if quiet or not sys.stderr.isatty():
+        return None
+
+    def show(done: int, total: int, member: str) -> None:
+        end = "\n" if done == total else ""
+        print(f"\r  member {done}/{total}: {member[:40]:<40}", end=end, file=sys.stderr)
+
+    return show
+
+
+def _cmd_run(args: argparse.Namespace) -> int:
+    from batch.results import GOVERNING
+    from batch.run import RunError, run_case
+    from batch.writers import InputInfo, select_sheet, write_results
+    from batch.writers.save import SaveError, atomic_save
+
+    src: Path = args.book
+    _require_file(src)
+    is_json = src.suffix.lower() == ".json"
+    target, in_place = _target(src, args.out)
+    _check_names(src, target, is_json, args.out is not None)
+    report = _read(src)
+    if (status := _report_problems(report, src.name)) != EXIT_OK:
+        _say(f"{src.name} was not changed.")
+        return status
+    assert report.case is not None
+    if is_json:
+        opened = _json_book(report)
+    else:
+        keep_vba = src.suffix.lower() == ".xlsm" and target.suffix.lower() == ".xlsm"
+        opened = _open_input(src, report, keep_vba)
+        if in_place:
+            _guard_in_place(opened, target)
+        for what in opened.cannot_keep:
+            _warn(f"{target.name} will lack {what} (spanfleet cannot copy it)")
+    try:
+        result = run_case(report.case, _progress(args.quiet))
+    except RunError as exc:
+        raise Refused(f"{exc}. {src.name} was not changed.") from exc
+    info = InputInfo(
+        name=src.name,
+        digest=report.digest,
+        source=report.source,
+        output=target.name,
+        warnings=tuple(w.render() for w in report.warnings),
+    )
+    notes = ()
+    if opened.replaced:
+        notes = (f"Replaced the result sheets of an earlier run: {', '.join(opened.replaced)}.",)
+    wb = opened.workbook
+    sheets = write_results(wb, result, info, notes)
+    select_sheet(wb, opened.active or GOVERNING.sheet)
+    try:
+        atomic_save(wb, target, expect_sha256=report.digest if in_place else None)
+    except SaveError as exc:
+        raise Refused(str(exc)) from exc
+    for text in result.warnings:
+        _warn(text)
+    if not args.quiet:
+        print(
+            f"{target.name}: wrote {', '.join(sheets)} ({result.n_members} members, "
+            f"{result.n_vehicles} vehicles, {result.n_load_cases} load cases, "
+            f"{result.seconds:.1f} s)"
+        )
+    return EXIT_OK
+
+
+# ---------------------------------------------------------------- other commands
+
+
+def _cmd_check(args: argparse.Namespace) -> int:
+    src: Path = args.book
+    _require_file(src)
+    report = _read(src)
+    status = EXIT_OK if report.ok else EXIT_PROBLEMS
+    if args.json:
+        print(json.dumps({"file": str(src), **report.to_dict()}, indent=2))
+        return status
+    for p in report.problems:
+        print(p.render())
+    for w in report.warnings:
+        print(f"warning: {w.render()}")
+    if report.ok and report.case is not None:
+        case = report.case
+        if src.suffix.lower() in WORKBOOK_SUFFIXES:
+            _check_writeback(src, report)
+        print(
+            f"{src.name}: no problems found ({len(case.members)} members, "
+            f"{len(case.vehicles)} vehicles)."
+        )
+    else:
+        print(f"{src.name}: {len(report.problems)} problem(s) found.")
+    return status
+
+
+def _check_writeback(src: Path, report: InputReport) -> None:
+    """Say in advance when an in-place run would refuse to write into this workbook."""
+    try:
+        opened = _open_input(src, report, keep_vba=src.suffix.lower() == ".xlsm")
+    except Refused as exc:
+        print(f"warning: {exc}")
+        return
+    for what in opened.cannot_keep:
+        print(
+            f"warning: {src.name} holds {what}, which spanfleet cannot write back; "
+            "use run --out for the results"
+        )
+
+
+def _cmd_template(args: argparse.Namespace) -> int:
+    from batch.template import write_template
+
+    path: Path = args.new
+    try:
+        write_template(path)
+    except FileExistsError:
+        raise Refused(
+            f"{path}: already exists; give a new file name (spanfleet never replaces an "
+            "existing workbook with a blank template)"
+        ) from None
+    except ValueError as exc:
+        raise Usage(str(exc)) from exc
+    except OSError as exc:
+        raise Refused(f"{path}: could not write the template: {exc.strerror or exc}") from exc
+    print(f"{path.name}: blank input workbook written; fill it in, then: spanfleet run {path}")
+    return EXIT_OK
+
+
+def _cmd_library(args: argparse.Namespace) -> int:
+    from batch import library
+
+    describe = getattr(library, "describe", None)
+    rows = list(describe(args.units)) if describe is not None else []
+    if not rows:
+        print("No built-in load models in this version; give every vehicle's axles.")
+        return EXIT_OK
+    unit = "kip" if args.units == "US" else "kN"
+    header = ("Library name", "Axles", f"Weight ({unit})", "Source")
+    table = [header, *((str(r[0]), str(r[1]), f"{float(r[2]):.1f}", str(r[3])) for r in rows)]
+    widths = [max(len(row[k]) for row in table) for k in range(3)]
+    for name, axles, weight, source in table:
+        print(f"{name:<{widths[0]}}  {axles:>{widths[1]}}  {weight:>{widths[2]}}  {source}")
+    return EXIT_OK
+
+
+_COMMANDS = {
+    "run": _cmd_run,
+    "check": _cmd_check,
+    "template": _cmd_template,
+    "library": _cmd_library,
+}
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the command line ``argv`` (default ``sys.argv[1:]``); returns the exit status."""
+    parser = build_parser()
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as exc:  # argparse: --help, --version or a usage error
+        return int(exc.code) if isinstance(exc.code, int) else EXIT_USAGE
+    command = _COMMANDS[args.command]
+    try:
+        return command(args)
+    except Usage as exc:
+        parser.print_usage(sys.stderr)
+        _say(f"spanfleet {args.command}: error: {exc}")
+        return EXIT_USAGE
+    except Refused as exc:
+        _say(str(exc))
+        return EXIT_PROBLEMS
+    except KeyboardInterrupt:
+        _say(f"spanfleet: interrupted; {_unchanged(args)}")
+        return EXIT_INTERRUPTED
+    except Exception as exc:
+        if os.environ.get("SPANFLEET_DEBUG") == "1":
+            traceback.print_exc()
+        _say(
+            f"spanfleet: internal error ({type(exc).__name__}: {exc}). {_unchanged(args)} "
+            "Please report this, with the input file if you can; set SPANFLEET_DEBUG=1 to see "
+            "the details."
+        )
+        return EXIT_INTERNAL
+
+
+def _unchanged(args: argparse.Namespace) -> str:
+    """Every save is atomic, so an aborted command never leaves a workbook half written."""
+    book = getattr(args, "book", None)
+    return f"{book.name} was not changed." if book is not None else "No workbook was changed."
