@@ -1,0 +1,274 @@
+"""The ``spanfleet`` command: exit statuses, messages, and the input workbook never harmed.
+
+Exit statuses and commands are those of the workbook contract
+(/work/shared/contract/workbook.md): 0 success, 1 input problems, 2 usage error;
+3 (internal error) and 130 (interrupted, the shell convention 128 + SIGINT) are
+spanfleet's own extensions. Every call goes through ``main([...])`` in-process.
+"""
+
+from __future__ import annotations
+
+import io
+import json
+import os
+from pathlib import Path
+
+import pytest
+from openpyxl import load_workbook as _load_path
+from openpyxl.chart import BarChart, Reference
+
+import batch
+import batch.run
+from batch.cli import EXIT_INTERNAL, EXIT_OK, EXIT_PROBLEMS, EXIT_USAGE, main
+from batch.readers import read_input
+
+RESULT_SHEETS = {"Envelopes", "Reactions", "Governing", "Moment Charts", "Run Log"}
+
+
+def load_workbook(path: Path, **kwargs):
+    """Load from bytes, so no file handle is left open."""
+    return _load_path(io.BytesIO(Path(path).read_bytes()), **kwargs)
+
+
+@pytest.fixture
+def book(tmp_path: Path, make_workbook) -> Path:
+    return make_workbook(
+        tmp_path,
+        settings={"Stations per span": 4},
+        members=[
+            {"Member": "KV-0101 G1", "Spans (ft)": "60"},
+            {"Member": "KV-0207 G2", "Spans (ft)": "45, 55"},
+        ],
+        extra={"Inspection notes": [["Inspector", "Date"], ["R. Okafor", "2024-05-02"]]},
+    )
+
+
+def test_version(capsys) -> None:
+    assert main(["--version"]) == EXIT_OK
+    assert capsys.readouterr().out.strip() == f"spanfleet {batch.__version__}"
+
+
+@pytest.mark.parametrize(
+    "argv",
+    [
+        [],
+        ["frobnicate"],
+        ["run"],
+        ["check"],
+        ["run", "a.xlsx", "--bogus"],
+    ],
+)
+def test_usage_errors_exit_2(argv: list[str], capsys) -> None:
+    assert main(argv) == EXIT_USAGE
+    assert "usage:" in capsys.readouterr().err
+
+
+def test_json_input_needs_out(tmp_path: Path, capsys) -> None:
+    doc = tmp_path / "case.json"
+    doc.write_text("{}")
+    assert main(["run", str(doc)]) == EXIT_USAGE
+    assert "needs --out" in capsys.readouterr().err
+
+
+def test_results_must_go_to_a_workbook(book: Path, capsys) -> None:
+    assert main(["run", str(book), "--out", str(book.with_suffix(".csv"))]) == EXIT_USAGE
+    assert "ending in .xlsx" in capsys.readouterr().err
+
+
+def test_check_clean_workbook(book: Path, capsys) -> None:
+    before = book.read_bytes()
+    assert main(["check", str(book)]) == EXIT_OK
+    assert "no problems found (2 members, 1 vehicles)" in capsys.readouterr().out
+    assert book.read_bytes() == before
+
+
+def _bad_book(tmp_path: Path, make_workbook) -> Path:
+    return make_workbook(
+        tmp_path,
+        members=[{"Member": "KV-0101 G1", "Spans (ft)": "sixty"}],
+        name="bad.xlsx",
+    )
+
+
+def test_check_prints_every_problem_by_cell(tmp_path: Path, make_workbook, capsys) -> None:
+    bad = _bad_book(tmp_path, make_workbook)
+    assert main(["check", str(bad)]) == EXIT_PROBLEMS
+    out = capsys.readouterr().out
+    assert out.startswith("Members!B2: ")
+    assert "Traceback" not in out
+
+
+def test_check_json_report(tmp_path: Path, make_workbook, capsys) -> None:
+    bad = _bad_book(tmp_path, make_workbook)
+    assert main(["check", str(bad), "--json"]) == EXIT_PROBLEMS
+    report = json.loads(capsys.readouterr().out)
+    assert report["ok"] is False
+    assert [(p["sheet"], p["cell"]) for p in report["problems"]] == [("Members", "B2")]
+
+
+def test_run_with_problems_changes_nothing(tmp_path: Path, make_workbook, capsys) -> None:
+    bad = _bad_book(tmp_path, make_workbook)
+    before = bad.read_bytes()
+    assert main(["run", str(bad)]) == EXIT_PROBLEMS
+    err = capsys.readouterr().err
+    assert "Members!B2: " in err and "bad.xlsx was not changed" in err
+    assert bad.read_bytes() == before
+
+
+def test_missing_input_is_a_clear_problem(tmp_path: Path, capsys) -> None:
+    assert main(["run", str(tmp_path / "nowhere.xlsx")]) == EXIT_PROBLEMS
+    assert "no such file" in capsys.readouterr().err
+
+
+def test_run_in_place_adds_results_and_keeps_every_other_sheet(book: Path, capsys) -> None:
+    before = load_workbook(book)
+    assert main(["run", str(book)]) == EXIT_OK
+    assert "wrote Envelopes, Reactions, Governing" in capsys.readouterr().out
+    after = load_workbook(book)
+    kept = [n for n in after.sheetnames if n not in RESULT_SHEETS]
+    assert kept == before.sheetnames
+    for name in kept:
+        assert [[c.value for c in r] for r in after[name].iter_rows()] == [
+            [c.value for c in r] for r in before[name].iter_rows()
+        ]
+    assert after.active.title == before.active.title
+
+
+def test_second_run_replaces_results(book: Path, capsys) -> None:
+    assert main(["run", str(book)]) == EXIT_OK
+    first = load_workbook(book).sheetnames
+    assert main(["run", str(book)]) == EXIT_OK
+    after = load_workbook(book)
+    assert after.sheetnames == first
+    log = [c.value for c in after["Run Log"]["B"]]
+    assert any(isinstance(v, str) and v.startswith("Replaced the result sheets") for v in log)
+
+
+def test_out_leaves_the_input_bytes_unchanged(book: Path, tmp_path: Path) -> None:
+    before = book.read_bytes()
+    out = tmp_path / "results.xlsx"
+    assert main(["run", str(book), "--out", str(out), "-q"]) == EXIT_OK
+    assert book.read_bytes() == before
+    sheets = load_workbook(out).sheetnames
+    assert set(sheets) >= RESULT_SHEETS | {"Settings", "Members", "Vehicles", "Inspection notes"}
+
+
+def test_json_input_gives_input_sheets_and_results(book: Path, tmp_path: Path) -> None:
+    doc = tmp_path / "case.json"
+    doc.write_text(json.dumps(read_input(book).document))
+    out = tmp_path / "from-json.xlsx"
+    assert main(["run", str(doc), "--out", str(out)]) == EXIT_OK
+    wb = load_workbook(out)
+    assert set(wb.sheetnames) >= RESULT_SHEETS | {"Settings", "Members", "Vehicles"}
+    # The copy is itself a valid input that gives the same case.
+    assert read_input(out).case == read_input(book).case
+
+
+def _add_user_chart(path: Path) -> None:
+    wb = load_workbook(path)
+    ws = wb["Inspection notes"]
+    chart = BarChart()
+    chart.add_data(Reference(ws, min_col=1, min_row=1, max_row=2))
+    ws.add_chart(chart, "D2")
+    wb.save(path)
+
+
+def test_in_place_refuses_what_it_cannot_keep_but_out_warns(book: Path, tmp_path, capsys) -> None:
+    _add_user_chart(book)
+    before = book.read_bytes()
+    assert main(["run", str(book)]) == EXIT_PROBLEMS
+    err = capsys.readouterr().err
+    assert "charts on sheet 'Inspection notes'" in err and "--out" in err
+    assert book.read_bytes() == before
+    assert main(["run", str(book), "--out", str(tmp_path / "copy.xlsx")]) == EXIT_OK
+    assert "warning: copy.xlsx will lack charts on sheet 'Inspection notes'" in (
+        capsys.readouterr().err
+    )
+    assert main(["check", str(book)]) == EXIT_OK
+    assert "cannot write back" in capsys.readouterr().out
+
+
+def test_an_open_workbook_is_not_replaced(book: Path, capsys) -> None:
+    (book.parent / f".~lock.{book.name}#").write_text("someone,somewhere")
+    before = book.read_bytes()
+    assert main(["run", str(book)]) == EXIT_PROBLEMS
+    assert "seems to be open in a spreadsheet program" in capsys.readouterr().err
+    assert book.read_bytes() == before
+
+
+def test_a_foreign_result_named_sheet_stops_the_run(tmp_path: Path, make_workbook, capsys) -> None:
+    path = make_workbook(tmp_path, extra={"Run Log": [["my own diary"]]})
+    before = path.read_bytes()
+    assert main(["run", str(path)]) == EXIT_PROBLEMS
+    assert "Run Log: this sheet has the name of a spanfleet result sheet" in (
+        capsys.readouterr().err
+    )
+    assert path.read_bytes() == before
+
+
+def test_save_failure_is_reported_and_changes_nothing(book: Path, monkeypatch, capsys) -> None:
+    before = book.read_bytes()
+
+    def locked(*_args, **_kw):
+        raise PermissionError(13, "Permission denied")
+
+    monkeypatch.setattr(os, "replace", locked)
+    assert main(["run", str(book)]) == EXIT_PROBLEMS
+    assert "permission denied" in capsys.readouterr().err
+    assert book.read_bytes() == before
+
+
+def test_internal_error_exit_3_without_traceback(book: Path, monkeypatch, capsys) -> None:
+    before = book.read_bytes()
+
+    def broken(*_args, **_kw):
+        raise RuntimeError("unexpected state")
+
+    monkeypatch.setattr(batch.run, "run_case", broken)
+    monkeypatch.delenv("SPANFLEET_DEBUG", raising=False)
+    assert main(["run", str(book)]) == EXIT_INTERNAL
+    err = capsys.readouterr().err
+    assert "internal error" in err and "Please report this" in err and "not changed" in err
+    assert "Traceback" not in err
+    assert book.read_bytes() == before
+    monkeypatch.setenv("SPANFLEET_DEBUG", "1")
+    assert main(["run", str(book)]) == EXIT_INTERNAL
+    assert "Traceback" in capsys.readouterr().err
+
+
+def test_interrupt_changes_nothing(book: Path, monkeypatch, capsys) -> None:
+    before = book.read_bytes()
+
+    def interrupted(*_args, **_kw):
+        raise KeyboardInterrupt
+
+    monkeypatch.setattr(batch.run, "run_case", interrupted)
+    assert main(["run", str(book)]) == 130
+    assert "interrupted" in capsys.readouterr().err
+    assert book.read_bytes() == before
+
+
+def test_warnings_are_printed_and_do_not_change_the_exit(
+    tmp_path: Path, make_workbook, capsys
+) -> None:
+    path = make_workbook(tmp_path, settings={"Colour scheme": "teal"})
+    assert main(["run", str(path)]) == EXIT_OK
+    err = capsys.readouterr().err
+    assert "warning: Settings!A2: " in err
+
+
+def test_template_writes_once_and_never_overwrites(tmp_path: Path, capsys) -> None:
+    new = tmp_path / "blank.xlsx"
+    assert main(["template", str(new)]) == EXIT_OK
+    assert new.exists()
+    before = new.read_bytes()
+    assert main(["template", str(new)]) == EXIT_PROBLEMS
+    assert "already exists" in capsys.readouterr().err
+    assert new.read_bytes() == before
+
+
+def test_library_lists_models(capsys) -> None:
+    assert main(["library"]) == EXIT_OK
+    out = capsys.readouterr().out
+    assert out.startswith("Library name") or out.startswith("No built-in load models")
+    assert main(["library", "--units", "SI"]) == EXIT_OK
