@@ -137,10 +137,14 @@ def _number(value: object) -> CellValue:
         return int(s) if s.lstrip("+-").isdigit() else number
     if _DECIMAL_COMMA.fullmatch(s):
         whole, frac = s.split(",")
+        if len(frac) == 3 and whole.lstrip("+-") not in ("", "0"):
+            meant = f"the decimal {whole}.{frac} or the number {whole}{frac}"
+        else:
+            meant = f"the decimal {whole}.{frac} typed with a decimal comma"
         return Note(
             "ambiguous-decimal-comma",
-            f"'{s}' is ambiguous: it may be the decimal {whole}.{frac} or the number "
-            f"{whole}{frac}; type it with a decimal point and no thousands separator",
+            f"'{s}' is not read, as it may be {meant}; type it with a decimal point "
+            "and no thousands separator",
         )
     if s.endswith("%"):
         return Note(

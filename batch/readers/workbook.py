@@ -184,7 +184,7 @@ class _Builder:
                 "missing-sheet",
                 spec.name,
                 "",
-                f"the workbook has no sheet named {spec.name}; add it with the headers "
+                f"the workbook has no sheet named {spec.name}; add a sheet {spec.name} with "
                 f"{names} in row 1 (`spanfleet template NEW.xlsx` writes a blank workbook "
                 "to copy from)",
             )

@@ -112,13 +112,13 @@ class _Context:
         refuse, warn = self.bound(limit.refuse), self.bound(limit.warn)
         unit = self.unit(limit)
         what = f"{limit.what} " if limit.what else ""
+        fix = "check the value and the Units setting" if limit.quantity else "check the value"
         if refuse is not None and value > refuse:
             yield (
                 path,
                 "limit-exceeded",
                 f"{label(path)}: {what}{shown(value)}{unit} is more than "
-                f"{shown(refuse)}{unit}, which spanfleet refuses as surely a mistake; "
-                "check the value and the Units setting",
+                f"{shown(refuse)}{unit}, the most spanfleet accepts; {fix}",
                 "error",
             )
         elif warn is not None and value > warn:
@@ -126,7 +126,7 @@ class _Context:
                 path,
                 "implausible-value",
                 f"{label(path)}: {what}{shown(value)}{unit} is more than "
-                f"{shown(warn)}{unit}; check the value and the Units setting",
+                f"{shown(warn)}{unit}; {fix}",
                 "warning",
             )
 
@@ -169,7 +169,8 @@ def _member(m: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[_Found]:
         yield (
             (*at, "span_ei"),
             "count-mismatch",
-            f"Span EI has {len(ei)} values but the member has {len(spans)} spans; give one "
+            f"Span EI has {len(ei)} value{'s' if len(ei) != 1 else ''} but the member has "
+            f"{len(spans)} span{'s' if len(spans) != 1 else ''}; give one "
             "relative EI per span, or leave it empty for all 1",
             "error",
         )
@@ -208,13 +209,13 @@ def _hinges(spans: list[float], hinges: list[float], at: DocPath, cx: _Context) 
         return
     moving = mechanism_parts(spans, hinges)
     if moving:
-        where = ", ".join(f"{shown(a)} to {shown(b)} {unit}" for a, b in moving)
+        where = " and ".join(f"the part from {shown(a)} to {shown(b)} {unit}" for a, b in moving)
         yield (
             at,
             "mechanism",
-            f"the hinges make the member a mechanism: the part from {where} can move without "
-            "resistance; remove a hinge or move it so that every part between hinges rests on "
-            "two supports, or on one support and a neighbouring part",
+            f"the hinges make the member a mechanism: {where} can move without resistance; "
+            "remove a hinge or move it so that every part between hinges rests on two "
+            "supports, or on one support and a neighbouring part",
             "error",
         )
 

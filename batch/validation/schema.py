@@ -72,7 +72,8 @@ def _worded(error: ValidationError) -> list[tuple[DocPath, str, str]]:
         if best is not error:
             return _worded(best)
         types = sorted({_TYPE_WORDS.get(str(c.validator_value), "") for c in error.context or ()})
-        return [(path, "wrong-type", f"{what}: {shown(value)} is not {' or '.join(types)}")]
+        words = " or ".join(types)
+        return [(path, "wrong-type", f"{what}: {shown(value)} is not {words}; give {words}")]
     if kind == "required":
         out = []
         for name in rule:
@@ -82,9 +83,9 @@ def _worded(error: ValidationError) -> list[tuple[DocPath, str, str]]:
             if declaration(field) is not None and len(field) <= 3:
                 message = f"{label(field)} is required; fill it in{_example(field)}"
             else:
-                message = f"{what} needs {name!r}"
+                message = f"{what} needs {name!r}; add it"
                 if {"low", "high"} & set(rule):
-                    message += '; write a range as {"low": 14, "high": 30}'
+                    message += ', writing a range as {"low": 14, "high": 30}'
             out.append((field, "missing-value", message))
         return out
     if kind == "type":

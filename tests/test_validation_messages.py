@@ -1,0 +1,595 @@
+"""Every problem an engineer can meet in an input, as a table of (sheet, cell, code).
+
+Sources, by rule:
+* sheets, headers, list syntax, settings and their choices: the workbook
+  contract (/work/shared/contract/workbook.md);
+* hinge stability: statics of a line of rigid parts joined by hinges: each part
+  has two freedoms (deflection and rotation), each support and each hinge takes
+  one, so a member with n spans is a mechanism with more than n - 1 hinges, and
+  a hinge at an end releases nothing (common practice);
+* dynamic load allowance above 75 %: AASHTO LRFD Table 3.6.2.1-1, whose largest
+  value is 75 % for deck joints (published-facts.md, [F S3]);
+* condition × system factor of at least 0.85: MBE 6A.4.2.1 (from memory);
+* JSON: RFC 8259 (no NaN or Infinity; object names should be unique) and RFC
+  6901 (JSON pointers).
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+import json
+from pathlib import Path
+
+import openpyxl
+import pytest
+
+from batch.readers import read_input
+from batch.validation.problems import JSON_SHEET, Problem
+
+M = {"Member": "KV-0101 G1", "Spans": 60}
+V = {"Vehicle": "KV-T3", "Axle loads": "10, 30, 30", "Axle spacings": "14, 16"}
+E, W = "error", "warning"
+
+
+def _found(report) -> list[tuple[str, str, str, str]]:
+    return sorted((p.sheet, p.cell, p.code, p.severity) for p in report.problems + report.warnings)
+
+
+def _sheet(*rows: list) -> list[list]:
+    return [list(r) for r in rows]
+
+
+# (test id, make_workbook arguments, expected problems)
+WORKBOOK_CASES = [
+    # sheets and headers
+    ("no-vehicles-sheet", {"omit": ("Vehicles",)}, [("Vehicles", "", "missing-sheet", E)]),
+    ("no-settings-sheet", {"omit": ("Settings",)}, [("Settings", "", "missing-sheet", E)]),
+    (
+        "no-spans-header",
+        {"members": [{"Member": "M1", "Span": 60}]},
+        [("Members", "", "missing-header", E), ("Members", "B1", "unknown-column", W)],
+    ),
+    (
+        "no-value-header",
+        {"omit": ("Settings",), "extra": {"Settings": _sheet(["Setting", "Val"], ["Units", "US"])}},
+        [("Settings", "", "missing-header", E), ("Settings", "B1", "unknown-column", W)],
+    ),
+    (
+        "header-twice",
+        {"extra": {"Members": _sheet(["Member", "Spans", "spans (ft)"], ["M1", 60, 70])}},
+        [("Members", "C1", "duplicate-header", E)],
+    ),
+    (
+        "metres-header-in-us",
+        {"members": [{"Member": "M1", "Spans (m)": 18}]},
+        [("Members", "B1", "header-unit-mismatch", E)],
+    ),
+    (
+        "inches-header",
+        {"members": [{"Member": "M1", "Spans (in)": 720}]},
+        [("Members", "B1", "header-unit-mismatch", E)],
+    ),
+    (
+        "kip-header-in-si",
+        {
+            "settings": {"Units": "SI"},
+            "members": [{"Member": "M1", "Spans (m)": 18}],
+            "vehicles": [{"Vehicle": "V1", "Axle loads (kip)": "10, 10", "Axle spacings": 1.2}],
+        },
+        [("Vehicles", "B1", "header-unit-mismatch", E)],
+    ),
+    (
+        "unknown-column",
+        {"vehicles": [V | {"Remarks": "x"}]},
+        [("Vehicles", "D1", "unknown-column", W)],
+    ),
+    (
+        "capacities-present",
+        {"extra": {"Capacities": _sheet(["Member", "Span", "Station"])}},
+        [("Capacities", "", "rating-not-available", W)],
+    ),
+    # settings
+    (
+        "unknown-setting",
+        {"settings": {"Colour": "red"}},
+        [("Settings", "A2", "unknown-setting", W)],
+    ),
+    (
+        "setting-twice",
+        {"settings": {"Units": "US", "units ": "SI"}},
+        [("Settings", "A3", "duplicate-setting", E)],
+    ),
+    (
+        "value-without-setting",
+        {"omit": ("Settings",), "extra": {"Settings": _sheet(["Setting", "Value"], [None, 5])}},
+        [("Settings", "B2", "setting-without-name", W)],
+    ),
+    ("units-metric", {"settings": {"Units": "metric"}}, [("Settings", "B2", "not-a-choice", E)]),
+    (
+        "directions-bad",
+        {"settings": {"Directions": "north"}},
+        [("Settings", "B2", "not-a-choice", E)],
+    ),
+    (
+        "stations-fraction",
+        {"settings": {"Stations per span": 2.5}},
+        [("Settings", "B2", "not-a-whole-number", E)],
+    ),
+    ("stations-zero", {"settings": {"Stations per span": 0}}, [("Settings", "B2", "too-small", E)]),
+    (
+        "stations-500",
+        {"settings": {"Stations per span": 500}},
+        [("Settings", "B2", "too-large", E)],
+    ),
+    (
+        "impact-percent",
+        {"settings": {"Dynamic load allowance": 33}},
+        [("Settings", "B2", "too-large", E)],
+    ),
+    (
+        "impact-negative",
+        {"settings": {"Dynamic load allowance": -0.1}},
+        [("Settings", "B2", "too-small", E)],
+    ),
+    (
+        "impact-above-lrfd-largest",
+        {"settings": {"Dynamic load allowance": 0.8}},
+        [("Settings", "B2", "implausible-value", W)],
+    ),
+    (
+        "chart-members-negative",
+        {"settings": {"Chart members": -1}},
+        [("Settings", "B2", "too-small", E)],
+    ),
+    # cells
+    (
+        "formula-not-calculated",
+        {"members": [M | {"DF moment": "=0.5+0.1"}]},
+        [("Members", "C2", "formula-not-calculated", E)],
+    ),
+    (
+        "boolean-span",
+        {"members": [{"Member": "M1", "Spans": True}]},
+        [("Members", "B2", "boolean-in-number-cell", E)],
+    ),
+    (
+        "date-span",
+        {"members": [{"Member": "M1", "Spans": dt.datetime(2024, 6, 1)}]},
+        [("Members", "B2", "date-in-number-cell", E)],
+    ),
+    (
+        "unit-in-cell",
+        {"members": [{"Member": "M1", "Spans": "60 ft"}]},
+        [("Members", "B2", "not-a-number", E)],
+    ),
+    (
+        "decimal-comma",
+        {"members": [M | {"DF moment": "0,62"}]},
+        [("Members", "C2", "ambiguous-decimal-comma", E)],
+    ),
+    ("overflow", {"members": [M | {"DF shear": "1e999"}]}, [("Members", "C2", "not-finite", E)]),
+    (
+        "error-value",
+        {"members": [M | {"DF shear": "#DIV/0!"}]},
+        [("Members", "C2", "formula-error", E)],
+    ),
+    (
+        "range-backwards",
+        {"vehicles": [V | {"Axle spacings": "14, 30-14"}]},
+        [("Vehicles", "C2", "inverted-range", E)],
+    ),
+    (
+        "range-of-three",
+        {"vehicles": [V | {"Axle spacings": "14, 14-30-40"}]},
+        [("Vehicles", "C2", "bad-range", E)],
+    ),
+    # required values and rows
+    ("no-members", {"members": []}, [("Members", "", "no-rows", E)]),
+    ("no-vehicles", {"vehicles": []}, [("Vehicles", "", "no-rows", E)]),
+    (
+        "member-without-id",
+        {"members": [{"Member": None, "Spans": 60}]},
+        [("Members", "A2", "missing-value", E)],
+    ),
+    (
+        "member-without-spans",
+        {"members": [{"Member": "M1", "Spans": None, "Hinges": 10}]},
+        [("Members", "B2", "missing-value", E)],
+    ),
+    # values out of range
+    (
+        "span-zero",
+        {"members": [{"Member": "M1", "Spans": "60, 0"}]},
+        [("Members", "B2", "too-small", E)],
+    ),
+    (
+        "span-negative",
+        {"members": [{"Member": "M1", "Spans": -60}]},
+        [("Members", "B2", "too-small", E)],
+    ),
+    ("df-zero", {"members": [M | {"DF moment": 0}]}, [("Members", "C2", "too-small", E)]),
+    ("dead-load-negative", {"members": [M | {"DC load": -1}]}, [("Members", "C2", "too-small", E)]),
+    (
+        "condition-factor-above-1",
+        {"members": [M | {"Condition factor": 1.2}]},
+        [("Members", "C2", "too-large", E)],
+    ),
+    (
+        "category-unknown",
+        {"vehicles": [V | {"Category": "rental"}]},
+        [("Vehicles", "D2", "not-a-choice", E)],
+    ),
+    (
+        "axle-zero",
+        {"vehicles": [V | {"Axle loads": "10, 0, 30"}]},
+        [("Vehicles", "B2", "too-small", E)],
+    ),
+    (
+        "lane-negative",
+        {"vehicles": [V | {"Lane load": -0.64}]},
+        [("Vehicles", "D2", "too-small", E)],
+    ),
+    (
+        "capacity-factors-below-mbe-floor",
+        {"members": [M | {"Condition factor": 0.85, "System factor": 0.9}]},
+        [("Members", "C2", "low-capacity-factors", W)],
+    ),
+    # cross-field checks: members
+    (
+        "same-member-twice",
+        {"members": [M, M | {"Member": "  kv-0101 g1 "}]},
+        [("Members", "A3", "duplicate-id", E)],
+    ),
+    (
+        "span-ei-count",
+        {"members": [M | {"Span EI": "1, 2"}]},
+        [("Members", "C2", "count-mismatch", E)],
+    ),
+    (
+        "hinge-at-end",
+        {"members": [M | {"Hinges": 60}]},
+        [("Members", "C2", "hinge-outside-member", E)],
+    ),
+    (
+        "hinge-beyond-end",
+        {"members": [M | {"Hinges": 75}]},
+        [("Members", "C2", "hinge-outside-member", E)],
+    ),
+    ("hinge-zero", {"members": [M | {"Hinges": 0}]}, [("Members", "C2", "too-small", E)]),
+    (
+        "hinge-twice",
+        {"members": [{"Member": "M1", "Spans": "60, 60", "Hinges": "70, 70"}]},
+        [("Members", "C2", "duplicate-hinge", E)],
+    ),
+    # one span, one hinge: two parts on one support each (n - 1 = 0 hinges allowed)
+    (
+        "simple-span-with-hinge",
+        {"members": [M | {"Hinges": 30}]},
+        [("Members", "C2", "mechanism", E)],
+    ),
+    # two spans, a hinge in each: 2 > n - 1 = 1
+    (
+        "two-hinges-two-spans",
+        {"members": [{"Member": "M1", "Spans": "60, 60", "Hinges": "30, 90"}]},
+        [("Members", "C2", "mechanism", E)],
+    ),
+    (
+        "31-spans",
+        {"members": [{"Member": "M1", "Spans": ", ".join(["40"] * 31)}]},
+        [("Members", "B2", "limit-exceeded", E)],
+    ),
+    (
+        "span-20000-ft",
+        {"members": [{"Member": "M1", "Spans": 20000}]},
+        [("Members", "B2", "limit-exceeded", E)],
+    ),
+    (
+        "span-1200-ft",
+        {"members": [{"Member": "M1", "Spans": 1200}]},
+        [("Members", "B2", "implausible-value", W)],
+    ),
+    ("df-2.5", {"members": [M | {"DF shear": 2.5}]}, [("Members", "C2", "implausible-value", W)]),
+    (
+        "dead-load-40",
+        {"members": [M | {"DW load": 40}]},
+        [("Members", "C2", "implausible-value", W)],
+    ),
+    # cross-field checks: vehicles
+    ("same-vehicle-twice", {"vehicles": [V, V]}, [("Vehicles", "A3", "duplicate-id", E)]),
+    (
+        "lane-only",
+        {"vehicles": [{"Vehicle": "KV-LANE", "Lane load": 0.64}]},
+        [("Vehicles", "A2", "no-axle-loads", E)],
+    ),
+    (
+        "library-and-axles",
+        {"vehicles": [V | {"Library": "HL-93"}]},
+        [("Vehicles", "B2", "library-with-axles", E)],
+    ),
+    (
+        "library-and-lane",
+        {"vehicles": [{"Vehicle": "KV-HL", "Library": "HL-93", "Lane load": 0.64}]},
+        [("Vehicles", "C2", "library-with-lane-load", E)],
+    ),
+    (
+        "library-unknown",
+        {"vehicles": [{"Vehicle": "KV-X", "Library": "KVHA-99"}]},
+        [("Vehicles", "B2", "unknown-library", E)],
+    ),
+    (
+        "spacing-count",
+        {"vehicles": [V | {"Axle spacings": "14"}]},
+        [("Vehicles", "C2", "count-mismatch", E)],
+    ),
+    (
+        "two-axles-no-spacing",
+        {"vehicles": [{"Vehicle": "V2", "Axle loads": "20, 20"}]},
+        [("Vehicles", "A2", "count-mismatch", E)],
+    ),
+    (
+        "five-ranges",
+        {
+            "vehicles": [
+                {
+                    "Vehicle": "V6",
+                    "Axle loads": "10, 10, 10, 10, 10, 10",
+                    "Axle spacings": "4-8, 4-8, 4-8, 4-8, 4-8",
+                }
+            ]
+        },
+        [("Vehicles", "C2", "too-many-ranges", E)],
+    ),
+    (
+        "81-axles",
+        {
+            "vehicles": [
+                {
+                    "Vehicle": "V81",
+                    "Axle loads": ", ".join(["5"] * 81),
+                    "Axle spacings": ", ".join(["4"] * 80),
+                }
+            ]
+        },
+        [("Vehicles", "B2", "limit-exceeded", E)],
+    ),
+    (
+        "axle-600-kip",
+        {"vehicles": [V | {"Axle loads": "10, 600, 30"}]},
+        [("Vehicles", "B2", "implausible-value", W)],
+    ),
+    (
+        "axle-6000-kip",
+        {"vehicles": [V | {"Axle loads": "10, 6000, 30"}]},
+        [("Vehicles", "B2", "limit-exceeded", E)],
+    ),
+    (
+        "spacing-1500-ft",
+        {"vehicles": [V | {"Axle spacings": "14, 14-1500"}]},
+        [("Vehicles", "C2", "implausible-value", W)],
+    ),
+    (
+        "lane-12-klf",
+        {"vehicles": [V | {"Lane load": 12}]},
+        [("Vehicles", "D2", "implausible-value", W)],
+    ),
+    ("factor-20", {"vehicles": [V | {"Factor": 20}]}, [("Vehicles", "D2", "implausible-value", W)]),
+]
+
+
+@pytest.mark.parametrize(
+    ("arguments", "expected"),
+    [pytest.param(a, e, id=i) for i, a, e in WORKBOOK_CASES],
+)
+def test_workbook_problem_table(make_workbook, tmp_path, arguments, expected):
+    report = read_input(make_workbook(tmp_path, **arguments))
+    assert _found(report) == sorted(expected), [p.render() for p in report.problems]
+    assert report.ok == (not report.problems)
+    assert (report.case is None) == bool(report.problems)
+    for problem in report.problems + report.warnings:
+        assert "; " in problem.message, f"no fix given: {problem.render()}"
+
+
+def test_all_problems_are_reported_at_once(make_workbook, tmp_path):
+    path = make_workbook(
+        tmp_path,
+        settings={"Units": "metric"},
+        members=[{"Member": "M1", "Spans": "60, x"}, {"Member": "M2", "Spans": 0}],
+        vehicles=[{"Vehicle": "V1", "Axle loads": "10, 30", "Library": "HL-93"}],
+    )
+    assert _found(read_input(path)) == [
+        ("Members", "B2", "not-a-number", E),
+        ("Members", "B3", "too-small", E),
+        ("Settings", "B2", "not-a-choice", E),
+        ("Vehicles", "B2", "library-with-axles", E),
+    ]
+
+
+def test_problems_are_listed_in_workbook_order(make_workbook, tmp_path):
+    path = make_workbook(
+        tmp_path,
+        settings={"Units": "metric"},
+        members=[{"Member": "M1", "Spans": "60, x"}, {"Member": "M2", "Spans": 0}],
+        vehicles=[{"Vehicle": "V1", "Axle loads": "10, 30", "Library": "HL-93"}],
+    )
+    cells = [p.render().split(":")[0] for p in read_input(path).problems]
+    assert cells == ["Settings!B2", "Members!B2", "Members!B3", "Vehicles!B2"]
+
+
+def test_a_list_stored_as_one_number(tmp_path, make_workbook):
+    path = make_workbook(tmp_path, members=[{"Member": "M1", "Spans": 120100}])
+    wb = openpyxl.load_workbook(path)
+    wb["Members"]["B2"].number_format = "#,##0"  # how "120,100" typed into a cell is stored
+    wb.save(path)
+    assert _found(read_input(path)) == [("Members", "B2", "list-stored-as-number", E)]
+
+
+def test_a_formula_stored_as_text(tmp_path, make_workbook):
+    path = make_workbook(tmp_path, members=[M | {"DF moment": 0.6}])
+    wb = openpyxl.load_workbook(path)
+    cell = wb["Members"]["C2"]
+    cell.value, cell.data_type = "=0.5+0.1", "s"  # text that looks like a formula
+    wb.save(path)
+    assert _found(read_input(path)) == [("Members", "C2", "formula-as-text", E)]
+
+
+def test_messages_name_the_fix(make_workbook, tmp_path):
+    path = make_workbook(
+        tmp_path,
+        members=[{"Member": "M1", "Spans": 60, "Hinges": 30}],
+        vehicles=[{"Vehicle": "V1", "Library": "KVHA-99"}],
+    )
+    rendered = [p.render() for p in read_input(path).problems]
+    assert rendered[0].startswith("Members!C2: the hinges make the member a mechanism: ")
+    assert "the part from 0 to 30 ft and the part from 30 to 60 ft" in rendered[0]
+    assert rendered[1].startswith("Vehicles!B2: 'KVHA-99' is not a built-in load model; ")
+    assert "HL-93" in rendered[1]
+
+
+def test_render_shapes():
+    def problem(sheet: str, cell: str) -> Problem:
+        return Problem(code="x", sheet=sheet, cell=cell, message="what; fix")
+
+    assert problem("Members", "C7").render() == "Members!C7: what; fix"
+    assert problem("Members", "").render() == "Members: what; fix"
+    assert problem("", "").render() == "file: what; fix"
+    assert problem(JSON_SHEET, "/members/3/spans").render() == "JSON /members/3/spans: what; fix"
+    as_dict = problem("Members", "C7").to_dict()
+    assert as_dict["text"] == "Members!C7: what; fix"
+    assert as_dict["severity"] == "error"
+
+
+GOOD_MEMBER = {"id": "KV-0101 G1", "spans": [60]}
+GOOD_VEHICLE = {"id": "KV-T3", "axle_loads": [10, 30, 30], "spacings": [14, 16]}
+
+
+def _doc(**kw) -> dict:
+    return {"members": [GOOD_MEMBER], "vehicles": [GOOD_VEHICLE]} | kw
+
+
+# (test id, document text, expected (cell, code) with sheet "JSON")
+JSON_CASES = [
+    (
+        "nan",
+        '{"settings": {"impact": NaN}, "members": [{"id": "M", "spans": [60]}], '
+        '"vehicles": [{"id": "V", "axle_loads": [5]}]}',
+        [("/settings/impact", "not-finite")],
+    ),
+    (
+        "huge-number",
+        '{"members": [{"id": "M", "spans": [1e999]}], '
+        '"vehicles": [{"id": "V", "axle_loads": [5]}]}',
+        [("/members/0/spans/0", "not-finite")],
+    ),
+    (
+        "key-twice",
+        '{"members": [{"id": "M", "spans": [60], "spans": [70]}], '
+        '"vehicles": [{"id": "V", "axle_loads": [5]}]}',
+        [("/members/0/spans", "duplicate-key")],
+    ),
+    ("not-an-object", "[1, 2]", [("", "json-not-object")]),
+    (
+        "text-span",
+        json.dumps(_doc(members=[{"id": "M", "spans": ["60"]}])),
+        [("/members/0/spans/0", "not-a-number")],
+    ),
+    (
+        "spans-not-list",
+        json.dumps(_doc(members=[{"id": "M", "spans": 60}])),
+        [("/members/0/spans", "wrong-type")],
+    ),
+    (
+        "empty-spans",
+        json.dumps(_doc(members=[{"id": "M", "spans": []}])),
+        [("/members/0/spans", "empty-list")],
+    ),
+    (
+        "blank-id",
+        json.dumps(_doc(members=[{"id": " ", "spans": [60]}])),
+        [("/members/0/id", "blank-text")],
+    ),
+    (
+        "misspelt-key",
+        json.dumps(_doc(members=[GOOD_MEMBER | {"hinge": [30]}])),
+        [("/members/0/hinge", "unknown-key")],
+    ),
+    ("unknown-top-key", json.dumps(_doc(capacities=[])), [("/capacities", "unknown-key")]),
+    ("no-spans", json.dumps(_doc(members=[{"id": "M"}])), [("/members/0/spans", "missing-value")]),
+    ("no-members-key", json.dumps({"vehicles": [GOOD_VEHICLE]}), [("/members", "missing-value")]),
+    (
+        "range-backwards",
+        json.dumps(_doc(vehicles=[GOOD_VEHICLE | {"spacings": [14, {"low": 30, "high": 14}]}])),
+        [("/vehicles/0/spacings/1", "inverted-range")],
+    ),
+    (
+        "range-half",
+        json.dumps(_doc(vehicles=[GOOD_VEHICLE | {"spacings": [14, {"low": 30}]}])),
+        [("/vehicles/0/spacings/1/high", "missing-value")],
+    ),
+    (
+        "spacing-negative",
+        json.dumps(_doc(vehicles=[GOOD_VEHICLE | {"spacings": [14, -16]}])),
+        [("/vehicles/0/spacings/1", "too-small")],
+    ),
+    (
+        "spacing-text",
+        json.dumps(_doc(vehicles=[GOOD_VEHICLE | {"spacings": [14, "16"]}])),
+        [("/vehicles/0/spacings/1", "wrong-type")],
+    ),
+    (
+        "stations-fraction",
+        json.dumps(_doc(settings={"stations_per_span": 2.5})),
+        [("/settings/stations_per_span", "not-a-whole-number")],
+    ),
+    (
+        "boolean-factor",
+        json.dumps(_doc(vehicles=[GOOD_VEHICLE | {"factor": True}])),
+        [("/vehicles/0/factor", "not-a-number")],
+    ),
+    (
+        "same-id",
+        json.dumps(_doc(members=[GOOD_MEMBER, GOOD_MEMBER])),
+        [("/members/1/id", "duplicate-id")],
+    ),
+]
+
+
+@pytest.mark.parametrize(("text", "expected"), [pytest.param(t, e, id=i) for i, t, e in JSON_CASES])
+def test_json_problem_table(tmp_path, text, expected):
+    path = tmp_path / "case.json"
+    path.write_text(text, "utf-8")
+    report = read_input(path)
+    assert sorted((p.cell, p.code) for p in report.problems) == sorted(expected), [
+        p.render() for p in report.problems
+    ]
+    assert all(p.sheet == JSON_SHEET for p in report.problems)
+    assert report.case is None
+
+
+@pytest.mark.parametrize(
+    ("data", "code"),
+    [
+        pytest.param(b'{"members": [}', "invalid-json", id="syntax"),
+        pytest.param('{"members": "é"}'.encode("latin-1"), "json-not-utf8", id="latin-1"),
+        pytest.param(b"[" * 100_000 + b"]" * 100_000, "invalid-json", id="deep"),
+    ],
+)
+def test_unreadable_json(tmp_path, data, code):
+    path = tmp_path / "case.json"
+    path.write_bytes(data)
+    report = read_input(path)
+    assert [(p.sheet, p.cell, p.code) for p in report.problems] == [("", "", code)]
+    assert report.problems[0].render().startswith("file: ")
+
+
+def test_json_pointer_escapes_keys(tmp_path):
+    # RFC 6901: "~" is written "~0" and "/" is written "~1".
+    path = tmp_path / "case.json"
+    path.write_text(json.dumps(_doc(members=[GOOD_MEMBER | {"a/b~c": 1}])), "utf-8")
+    (problem,) = read_input(path).problems
+    assert problem.cell == "/members/0/a~1b~0c"
+
+
+def test_missing_file(tmp_path: Path):
+    report = read_input(tmp_path / "nowhere.xlsx")
+    assert [(p.code, p.render()[:5]) for p in report.problems] == [("file-not-found", "file:")]
+    assert read_input(tmp_path).problems[0].code == "not-a-file"
