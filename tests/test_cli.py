@@ -11,6 +11,7 @@ from __future__ import annotations
 import io
 import json
 import os
+import zipfile
 from pathlib import Path
 
 import pytest
@@ -272,3 +273,51 @@ def test_library_lists_models(capsys) -> None:
     out = capsys.readouterr().out
     assert out.startswith("Library name") or out.startswith("No built-in load models")
     assert main(["library", "--units", "SI"]) == EXIT_OK
+
+
+XLSX_MAIN = "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet.main+xml"
+XLSM_MAIN = "application/vnd.ms-excel.sheet.macroEnabled.main+xml"
+VBA_DEFAULT = '<Default Extension="bin" ContentType="application/vnd.ms-office.vbaProject" />'
+
+
+def _as_xlsm(xlsx: Path, vba: bytes) -> Path:
+    """The workbook as a macro-enabled package holding ``vba`` as its VBA project.
+
+    Part names, relationship and content types as in ECMA-376 / [MS-OFFMACRO]
+    (a vbaProject.bin part related from the workbook).
+    """
+    out = io.BytesIO()
+    with zipfile.ZipFile(xlsx) as zin, zipfile.ZipFile(out, "w", zipfile.ZIP_DEFLATED) as zout:
+        for info in zin.infolist():
+            data = zin.read(info.filename).decode()
+            if info.filename == "[Content_Types].xml":
+                data = data.replace(XLSX_MAIN, XLSM_MAIN).replace(
+                    '<Default Extension="xml"', f'{VBA_DEFAULT}<Default Extension="xml"'
+                )
+            if info.filename == "xl/_rels/workbook.xml.rels":
+                data = data.replace(
+                    "</Relationships>",
+                    '<Relationship Id="rIdVba" Type="http://schemas.microsoft.com/office/2006/'
+                    'relationships/vbaProject" Target="vbaProject.bin" /></Relationships>',
+                )
+            zout.writestr(info, data.encode())
+        zout.writestr("xl/vbaProject.bin", vba)
+    path = xlsx.with_suffix(".xlsm")
+    path.write_bytes(out.getvalue())
+    return path
+
+
+def test_macros_survive_in_place_and_a_copy_without_them_warns(book: Path, capsys) -> None:
+    vba = b"\xd0\xcf\x11\xe0 stand-in VBA project bytes"
+    xlsm = _as_xlsm(book, vba)
+    assert main(["run", str(xlsm)]) == EXIT_OK
+    with zipfile.ZipFile(xlsm) as zf:
+        assert zf.read("xl/vbaProject.bin") == vba
+        assert "macroEnabled" in zf.read("[Content_Types].xml").decode()
+    assert "Envelopes" in load_workbook(xlsm).sheetnames
+    copy = book.parent / "no-macros.xlsx"
+    assert main(["run", str(xlsm), "--out", str(copy)]) == EXIT_OK
+    assert "no-macros.xlsx will lack macros (VBA)" in capsys.readouterr().err
+    with zipfile.ZipFile(copy) as zf:
+        assert "xl/vbaProject.bin" not in zf.namelist()
+    assert main(["run", str(book), "--out", str(book.with_name("x.xlsm"))]) == EXIT_USAGE

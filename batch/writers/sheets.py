@@ -125,12 +125,11 @@ def _finish(ws: Worksheet, n_cols: int, last_row: int) -> None:
     ws.auto_filter.ref = f"A1:{get_column_letter(n_cols)}{max(last_row, 1)}"
 
 
-def _highlight(ws: Worksheet, row: int, columns: Sequence[ResultColumn], effect: str) -> None:
-    for j, col in enumerate(columns, start=1):
-        if col.effect == effect:
-            cell = ws.cell(row=row, column=j)
-            cell.fill = HIGHLIGHT_FILL
-            cell.font = HIGHLIGHT_FONT
+def _highlight(ws: Worksheet, row: int, cols: Sequence[int]) -> None:
+    for j in cols:
+        cell = ws.cell(row=row, column=j)
+        cell.fill = HIGHLIGHT_FILL
+        cell.font = HIGHLIGHT_FONT
 
 
 def _member_block(table: ResultTable, env: MemberEnvelope) -> list[list[object]]:
@@ -155,6 +154,10 @@ def write_table(
     written and the row count.
     """
     columns = table.columns
+    marked = {
+        name: [j for j, col in enumerate(columns, start=1) if col.effect == name]
+        for name in table.highlights
+    }
     sheets: list[Worksheet] = []
     row = 1
     total = 0
@@ -182,9 +185,9 @@ def write_table(
                 if value is not None:
                     write_value(ws, row, j, value, col.number_format, col.text)
         total += len(block)
-        for name in table.highlights:
+        for name, cols in marked.items():
             i = governing_row(effect_named(name), env)
             if i is not None:
-                _highlight(ws, first + i, columns, name)
+                _highlight(ws, first + i, cols)
     _finish(ws, len(columns), row)
     return WrittenTable(sheets=tuple(s.title for s in sheets), rows=total)
