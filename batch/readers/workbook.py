@@ -321,14 +321,28 @@ class _Builder:
         return out
 
 
+def _refused_xml(exc: BaseException | None) -> bool:
+    """True when ``exc`` or an error it was raised from is defusedxml refusing the XML."""
+    for _ in range(10):  # a chain of causes is short; the bound guards against a cycle
+        if exc is None:
+            return False
+        if isinstance(exc, DefusedXmlException):
+            return True
+        exc = exc.__cause__ or exc.__context__
+    return False
+
+
 def read_workbook(data: bytes) -> Reading:
     """Read a workbook's bytes into the normalised document; never raises for bad input."""
     try:
         raw, titles = _extract(data)
-    except DefusedXmlException:
-        return Reading(document=None, locator=WorkbookLocator(), problems=(xml_entities_problem(),))
     except Exception as exc:
-        # Whatever openpyxl trips over inside a damaged file, the fix is the same.
+        # Whatever openpyxl trips over inside a damaged file, the fix is the same,
+        # except for XML that defusedxml refused (openpyxl may wrap that error).
+        if _refused_xml(exc):
+            return Reading(
+                document=None, locator=WorkbookLocator(), problems=(xml_entities_problem(),)
+            )
         return Reading(
             document=None,
             locator=WorkbookLocator(),
