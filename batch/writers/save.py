@@ -94,7 +94,8 @@ def _explain(exc: OSError, target: Path) -> str:
         why = f"the folder {where} does not exist; create it or choose another --out"
     else:
         why = f"{exc.strerror or exc}; check the folder and try again"
-    return f"{target.name}: could not save the results: {why}. {target.name} was not changed."
+    outcome = f"{target.name} was not changed" if target.exists() else "nothing was written"
+    return f"{target.name}: could not save the results: {why}; {outcome}."
 
 
 def _fsync_folder(folder: Path) -> None:
