@@ -186,6 +186,7 @@ def chain_extremes(
     best = np.empty(max_c)
     nxt = np.empty(max_c)
     choice = np.zeros((max(n_gaps, 1), max_c), dtype=np.int64)
+    window = np.empty(max_c, dtype=np.int64)
     event_q = np.empty(width * loads.size)
     event_id = np.empty(width * loads.size, dtype=np.int64)
     root_scratch = np.empty(2)
@@ -219,16 +220,33 @@ def chain_extremes(
             for g in range(n_groups - 2, -1, -1):
                 lo = gap_lo[g] - tol
                 hi = gap_hi[g] + tol
+                # Candidates are sorted by position, so the window of feasible
+                # partners slides one way: a monotonic deque gives each window's
+                # best in O(1) amortised (sliding-window maximum).
+                head = 0
+                tail = 0
+                j_next = 0
                 for i in range(ncand[g]):
-                    top = -np.inf
-                    arg = -1
-                    for j in range(ncand[g + 1]):
-                        d = sigma * (pos[g, i] - pos[g + 1, j])
-                        if lo <= d <= hi and nxt[j] > top:
-                            top = nxt[j]
-                            arg = j
-                    best[i] = sense * val[g, i] + top
-                    choice[g, i] = arg
+                    if sigma > 0:
+                        first = pos[g, i] - hi
+                        last = pos[g, i] - lo
+                    else:
+                        first = pos[g, i] + lo
+                        last = pos[g, i] + hi
+                    while j_next < ncand[g + 1] and pos[g + 1, j_next] <= last:
+                        while tail > head and nxt[window[tail - 1]] <= nxt[j_next]:
+                            tail -= 1
+                        window[tail] = j_next
+                        tail += 1
+                        j_next += 1
+                    while tail > head and pos[g + 1, window[head]] < first:
+                        head += 1
+                    if tail > head:
+                        best[i] = sense * val[g, i] + nxt[window[head]]
+                        choice[g, i] = window[head]
+                    else:
+                        best[i] = -np.inf
+                        choice[g, i] = -1
                 for i in range(ncand[g]):
                     nxt[i] = best[i]
             top = -np.inf
