@@ -38,6 +38,7 @@ __all__ = [
     "GUIDE_SHEET",
     "CellValue",
     "case_rows",
+    "case_workbook",
     "example_rows",
     "input_workbook",
     "save_workbook",
@@ -381,8 +382,12 @@ def write_template(path: Path, *, overwrite: bool = False) -> None:
     save_workbook(wb, path, overwrite=overwrite)
 
 
-def write_case_workbook(case: Case, path: Path, *, overwrite: bool = False) -> None:
-    """Write a model case as a filled input workbook (Settings, Members, Vehicles)."""
+def case_workbook(case: Case) -> Workbook:
+    """A model case as a filled input workbook (guide, Settings, Members, Vehicles)."""
     settings = {row.key: _cell_value(getattr(case.settings, row.key)) for row in SETTING_ROWS}
-    wb = input_workbook(units=case.settings.units, settings=settings, rows=case_rows(case))
-    save_workbook(wb, path, overwrite=overwrite)
+    return input_workbook(units=case.settings.units, settings=settings, rows=case_rows(case))
+
+
+def write_case_workbook(case: Case, path: Path, *, overwrite: bool = False) -> None:
+    """Write a model case as a filled input workbook; see :func:`save_workbook` for errors."""
+    save_workbook(case_workbook(case), path, overwrite=overwrite)
