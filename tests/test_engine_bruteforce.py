@@ -307,3 +307,16 @@ def test_exact_extremes_match_brute_force(index: int) -> None:
         spacing = ax.max_spacing if sense > 0 else ax.min_spacing
         assert np.all(spacing >= vehicle.lo - 1e-9)
         assert np.all(spacing <= vehicle.hi + 1e-9)
+
+
+def test_single_axle_extreme_with_a_hinge_just_left_of_a_station() -> None:
+    # One unit axle: its extreme is the influence line's own extreme (definition), here
+    # found by the stepped and polished search. Spans 10, 10, 11.16, 10 (EI 0.5), hinge
+    # at 22.23, 5 stations per span: station 22.232 lies 0.002 ft right of the hinge.
+    il = influence_lines([10.0, 10.0, 11.16, 10.0], [0.5] * 4, [22.23], 5)
+    one = Vehicle(loads=np.array([1.0]), lo=np.empty(0), hi=np.empty(0))
+    ax = axle_extremes(il, [1.0])
+    brute = BruteForce(il, one)
+    scale = il.effect_scale
+    assert np.all(np.abs(brute.extreme(1.0) - ax.max_value) <= REL_TOL_EXACT * scale)
+    assert np.all(np.abs(brute.extreme(-1.0) - ax.min_value) <= REL_TOL_EXACT * scale)

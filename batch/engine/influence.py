@@ -450,11 +450,13 @@ def influence_lines(
     shear = np.einsum("ns,sjk->njk", inside, reactions)
     shear[..., 0] -= left_of
     coef = np.concatenate([moment, shear, reactions], axis=0)
-    # Round-off below 1e-12 of an effect's natural size is noise (e.g. moment at a hinge).
+    # A term below 1e-12 of an effect's natural size over the whole member is
+    # round-off (e.g. the moment at a hinge). It is measured with the member length,
+    # not the piece length: on a sliver piece a real cubic term looks tiny, and the
+    # same cubic continues over the neighbouring pieces of its element.
     scale = np.ones(coef.shape[0])
     scale[: sx.size] = length
-    h = piece_end - piece_start
-    size = np.abs(coef) * (h[None, :, None] ** np.arange(4))
+    size = np.abs(coef) * (length ** np.arange(4))
     coef = np.where(size < 1e-12 * scale[:, None, None], 0.0, coef)
     return InfluenceLines(
         length=length,

@@ -72,6 +72,78 @@ class AxleExtremes:
     min_spacing: NDArray[np.float64]
 
 
+@dataclass(frozen=True)
+class _Combo:
+    """One way of fixing a train's ranged spacings: each at its low or high end, or free."""
+
+    spacing: NDArray[np.float64]  # every gap, free ones at their low end
+    free: list[int]  # gaps left free: they split the train into groups
+    group_start: NDArray[np.int64]  # G + 1 axle indices delimiting the groups
+    offsets: NDArray[np.float64]  # each axle's distance behind its group's front axle
+    own: NDArray[np.float64]  # each group's own length (all groups but the last)
+
+    def gap_bounds(
+        self, lo: NDArray[np.float64], hi: NDArray[np.float64]
+    ) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+        """Front-to-front distance bounds between consecutive groups."""
+        return self.own + lo[self.free], self.own + hi[self.free]
+
+
+def _spacings(
+    il: InfluenceLines,
+    n_axles: int,
+    spacing_low: NDArray[np.float64] | list[float] | tuple[float, ...],
+    spacing_high: NDArray[np.float64] | list[float] | tuple[float, ...] | None,
+) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+    lo = np.asarray(spacing_low, dtype=float).reshape(-1)
+    hi = lo if spacing_high is None else np.asarray(spacing_high, dtype=float).reshape(-1)
+    if n_axles == 0 or lo.size != n_axles - 1 or hi.size != lo.size:
+        raise ValueError("give one or more axle loads and one spacing per gap between axles")
+    # Beyond one member length the groups can never both be on the member, so a
+    # longer spacing adds nothing that the member length does not already give.
+    return lo, np.maximum(lo, np.minimum(hi, il.length))
+
+
+def _combos(lo: NDArray[np.float64], hi: NDArray[np.float64]) -> list[_Combo]:
+    ranged = [g for g in range(lo.size) if hi[g] > lo[g]]
+    if len(ranged) > MAX_RANGES:
+        raise ValueError(f"at most {MAX_RANGES} spacings of one vehicle may be ranges")
+    n_axles = lo.size + 1
+    out = []
+    for choice in itertools.product(("lo", "hi", "free"), repeat=len(ranged)):
+        fixed = lo.copy()
+        for g, c in zip(ranged, choice, strict=True):
+            if c == "hi":
+                fixed[g] = hi[g]
+        free = [g for g, c in zip(ranged, choice, strict=True) if c == "free"]
+        starts = [0, *[g + 1 for g in free]]
+        ends = [*[g + 1 for g in free], n_axles]
+        offsets = np.concatenate(
+            [
+                np.concatenate([[0.0], np.cumsum(fixed[a : z - 1])])
+                for a, z in zip(starts, ends, strict=True)
+            ]
+        )
+        out.append(
+            _Combo(
+                spacing=fixed,
+                free=free,
+                group_start=np.array([*starts, n_axles], dtype=np.int64),
+                offsets=offsets,
+                own=np.array([offsets[z - 1] for z in ends[:-1]]),
+            )
+        )
+    return out
+
+
+Partition = tuple[NDArray[np.float64], NDArray[np.int64], NDArray[np.float64]]
+
+
+def _partitions(il: InfluenceLines, drop_adverse_axles: bool) -> tuple[Partition, Partition]:
+    """The partitions swept for the maximum and for the minimum."""
+    return il.clipped if drop_adverse_axles else (il.reduced, il.reduced)
+
+
 def axle_extremes(
     il: InfluenceLines,
     loads: NDArray[np.float64] | list[float] | tuple[float, ...],
@@ -89,20 +161,12 @@ def axle_extremes(
     the load unit (no dynamic allowance, lane load or factors here). With
     ``drop_adverse_axles`` an axle standing where it would lessen the effect is
     left out (AASHTO LRFD 3.6.1.3.1), by sweeping the positive part of each line
-    for the maximum and its negative part for the minimum.
+    for the maximum and its negative part for the minimum. Also reports the
+    spacing used for each gap.
     """
-    p = np.ascontiguousarray(loads, dtype=float)
-    lo = np.asarray(spacing_low, dtype=float).reshape(-1)
-    hi = lo if spacing_high is None else np.asarray(spacing_high, dtype=float).reshape(-1)
-    if p.ndim != 1 or p.size == 0 or lo.size != p.size - 1 or hi.size != lo.size:
-        raise ValueError("give one or more axle loads and one spacing per gap between axles")
-    # Beyond one member length the groups can never both be on the member, so a
-    # longer spacing adds nothing that the member length does not already give.
-    hi = np.maximum(lo, np.minimum(hi, il.length))
-    ranged = [g for g in range(lo.size) if hi[g] > lo[g]]
-    if len(ranged) > MAX_RANGES:
-        raise ValueError(f"at most {MAX_RANGES} spacings of one vehicle may be ranges")
-    partitions = il.clipped if drop_adverse_axles else (il.reduced, il.reduced)
+    p = np.ascontiguousarray(loads, dtype=float).reshape(-1)
+    lo, hi = _spacings(il, p.size, spacing_low, spacing_high)
+    high_part, low_part = _partitions(il, drop_adverse_axles)
     tol = POSITION_TOL * il.length
     n_eff = il.n_effects
     best = {
@@ -115,44 +179,17 @@ def axle_extremes(
         for sense in (1.0, -1.0)
     }
     for sigma in directions:
-        for choice in itertools.product(("lo", "hi", "free"), repeat=len(ranged)):
-            fixed = lo.copy()
-            free = [g for g, c in zip(ranged, choice, strict=True) if c == "free"]
-            for g, c in zip(ranged, choice, strict=True):
-                if c == "hi":
-                    fixed[g] = hi[g]
-            starts = [0, *[g + 1 for g in free]]
-            ends = [*[g + 1 for g in free], p.size]
-            offsets = np.concatenate(
-                [
-                    np.concatenate([[0.0], np.cumsum(fixed[a : z - 1])])
-                    for a, z in zip(starts, ends, strict=True)
-                ]
-            )
-            own = np.array([offsets[z - 1] for z in ends[:-1]])
-            results = [
-                chain_extremes(
-                    *partition,
-                    p,
-                    offsets,
-                    np.array([*starts, p.size]),
-                    own + lo[free],
-                    own + hi[free],
-                    float(sigma),
-                    tol,
+        for combo in _combos(lo, hi):
+            gap_lo, gap_hi = combo.gap_bounds(lo, hi)
+            for sense, part in ((1.0, high_part), (-1.0, low_part)):
+                result = chain_extremes(
+                    *part, p, combo.offsets, combo.group_start, gap_lo, gap_hi, float(sigma), tol
                 )
-                for partition in (partitions if drop_adverse_axles else partitions[:1])
-            ]
-            for sense, (total, pos, dist) in (
-                (1.0, results[0][0:3]),
-                (-1.0, results[-1][3:6]),
-            ):
+                total, pos, dist = result[0:3] if sense > 0 else result[3:6]
                 value, position, direction, spacing = best[sense]
                 better = sense * total > sense * value
-                if not np.any(better):
-                    continue
-                used = np.tile(fixed, (n_eff, 1))
-                used[:, free] = dist - own
+                used = np.tile(combo.spacing, (n_eff, 1))
+                used[:, combo.free] = dist - combo.own
                 value[better] = total[better]
                 position[better] = pos[better]
                 direction[better] = sigma
@@ -178,11 +215,6 @@ class Train:
     spacing_high: tuple[float, ...] = ()
     drop_adverse_axles: bool = False
 
-    @property
-    def is_rigid(self) -> bool:
-        """True when no spacing is a range."""
-        return not any(h > lo for lo, h in zip(self.spacing_low, self.spacing_high, strict=False))
-
 
 @dataclass(frozen=True, kw_only=True)
 class FleetExtremes:
@@ -195,6 +227,21 @@ class FleetExtremes:
     min_position: NDArray[np.float64]
     min_direction: NDArray[np.int8]
 
+    def absorb(
+        self,
+        row: int,
+        sense: float,
+        value: NDArray[np.float64],
+        position: NDArray[np.float64],
+        direction: NDArray[np.int8],
+    ) -> None:
+        """Keep, in ``row``, whichever of the held and the given extremes is worse."""
+        held = self.max_value if sense > 0 else self.min_value
+        better = sense * value > sense * held[row]
+        held[row, better] = value[better]
+        (self.max_position if sense > 0 else self.min_position)[row, better] = position[better]
+        (self.max_direction if sense > 0 else self.min_direction)[row, better] = direction[better]
+
 
 def fleet_extremes_of(
     il: InfluenceLines,
@@ -203,8 +250,10 @@ def fleet_extremes_of(
 ) -> FleetExtremes:
     """Exact extremes of every train on every influence line of one member.
 
-    Rigid trains are swept together in one compiled call per partition;
-    trains with ranged spacings go through :func:`axle_extremes` one by one.
+    Every rigid train, and every rigid way of fixing a ranged train's spacings
+    at the ends of their ranges, is swept in one compiled call per partition;
+    only the ways that leave a spacing free go one by one through the group
+    join. Units as in :func:`axle_extremes`.
     """
     n_eff = il.n_effects
     shape = (len(trains), n_eff)
@@ -216,36 +265,45 @@ def fleet_extremes_of(
         min_position=np.full(shape, np.nan),
         min_direction=np.zeros(shape, np.int8),
     )
-    sigmas = np.array(directions, dtype=float)
     tol = POSITION_TOL * il.length
-    for drop in (False, True):
-        rows = [i for i, t in enumerate(trains) if t.is_rigid and t.drop_adverse_axles == drop]
-        if not rows:
+    rigid: dict[bool, list[tuple[int, NDArray[np.float64], NDArray[np.float64]]]] = {
+        False: [],
+        True: [],
+    }
+    for row, t in enumerate(trains):
+        p = np.ascontiguousarray(t.loads, dtype=float).reshape(-1)
+        lo, hi = _spacings(il, p.size, t.spacing_low, t.spacing_high or None)
+        parts = _partitions(il, t.drop_adverse_axles)
+        for combo in _combos(lo, hi):
+            if not combo.free:
+                rigid[t.drop_adverse_axles].append((row, p, combo.offsets))
+                continue
+            gap_lo, gap_hi = combo.gap_bounds(lo, hi)
+            for sigma in directions:
+                for sense, part in ((1.0, parts[0]), (-1.0, parts[1])):
+                    result = chain_extremes(
+                        *part,
+                        p,
+                        combo.offsets,
+                        combo.group_start,
+                        gap_lo,
+                        gap_hi,
+                        float(sigma),
+                        tol,
+                    )
+                    value, pos = result[0:2] if sense > 0 else result[3:5]
+                    out.absorb(row, sense, value, pos, np.full(n_eff, sigma, np.int8))
+    sigmas = np.array(directions, dtype=float)
+    for drop, jobs in rigid.items():
+        if not jobs:
             continue
-        loads = np.concatenate([np.asarray(trains[i].loads, dtype=float) for i in rows])
-        offsets = np.concatenate(
-            [np.concatenate([[0.0], np.cumsum(trains[i].spacing_low)]) for i in rows]
-        )
-        start = np.concatenate([[0], np.cumsum([len(trains[i].loads) for i in rows])])
-        positive, negative = il.clipped if drop else (il.reduced, il.reduced)
-        high = fleet_extremes(*positive, loads, offsets, start, sigmas, tol)
-        low = high if not drop else fleet_extremes(*negative, loads, offsets, start, sigmas, tol)
-        out.max_value[rows], out.max_position[rows], out.max_direction[rows] = high[0:3]
-        out.min_value[rows], out.min_position[rows], out.min_direction[rows] = low[3:6]
-    for i, t in enumerate(trains):
-        if t.is_rigid:
-            continue
-        one = axle_extremes(
-            il, t.loads, t.spacing_low, t.spacing_high, directions, t.drop_adverse_axles
-        )
-        out.max_value[i], out.max_position[i], out.max_direction[i] = (
-            one.max_value,
-            one.max_position,
-            one.max_direction,
-        )
-        out.min_value[i], out.min_position[i], out.min_direction[i] = (
-            one.min_value,
-            one.min_position,
-            one.min_direction,
-        )
+        loads = np.concatenate([p for _, p, _ in jobs])
+        offsets = np.concatenate([o for _, _, o in jobs])
+        start = np.concatenate([[0], np.cumsum([p.size for _, p, _ in jobs])]).astype(np.int64)
+        high_part, low_part = _partitions(il, drop)
+        high = fleet_extremes(*high_part, loads, offsets, start, sigmas, tol)
+        low = high if not drop else fleet_extremes(*low_part, loads, offsets, start, sigmas, tol)
+        for k, (row, _, _) in enumerate(jobs):
+            out.absorb(row, 1.0, high[0][k], high[1][k], high[2][k])
+            out.absorb(row, -1.0, low[3][k], low[4][k], low[5][k])
     return out
