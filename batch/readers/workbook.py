@@ -16,7 +16,10 @@ checks found later point back at the cell the engineer typed.
 from __future__ import annotations
 
 import io
+import itertools
+import re
 import warnings
+import zipfile
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -42,6 +45,8 @@ __all__ = ["read_workbook"]
 
 #: The optional sheet for rating, declared in batch.inputs but not read yet.
 _RATING_SHEET = "Capacities"
+# A formula element in sheet XML, with or without a namespace prefix (<f>, <x:f t="shared">).
+_FORMULA_TAG = re.compile(rb"<(?:\w+:)?f[\s>/]")
 
 
 @dataclass(frozen=True)
@@ -65,8 +70,8 @@ def _is_blank(value: object) -> bool:
     return value is None or (isinstance(value, str) and not value.strip())
 
 
-def _raw_sheet(values: Any, formulas: Any, spec: InputSheet, title: str) -> _RawSheet:
-    ws, wf = values[title], formulas[title]
+def _raw_sheet(values: Any, formulas: Any | None, spec: InputSheet, title: str) -> _RawSheet:
+    ws = values[title]
     first = next(iter(ws.iter_rows(min_row=1, max_row=1, max_col=MAX_COLUMNS + 1)), ())
     header = [(f"{get_column_letter(i)}1", c.value) for i, c in enumerate(first, start=1)]
     too_wide = len(header) > MAX_COLUMNS and not _is_blank(header[MAX_COLUMNS][1])
@@ -76,18 +81,21 @@ def _raw_sheet(values: Any, formulas: Any, spec: InputSheet, title: str) -> _Raw
     too_long = False
     if wanted:
         last = MAX_ROWS + 2  # one row past the cap shows whether the cap is exceeded
-        pairs = zip(
-            ws.iter_rows(min_row=2, max_row=last, max_col=wanted[-1]),
-            wf.iter_rows(min_row=2, max_row=last, max_col=wanted[-1]),
-            strict=False,
+        value_rows = ws.iter_rows(min_row=2, max_row=last, max_col=wanted[-1])
+        formula_rows = (
+            itertools.repeat(None)
+            if formulas is None
+            else formulas[title].iter_rows(min_row=2, max_row=last, max_col=wanted[-1])
         )
-        for number, (row, frow) in enumerate(pairs, start=2):
+        # The values pass ends the rows; the formula pass (or the endless None) follows it.
+        paired = zip(value_rows, formula_rows, strict=False)
+        for number, (row, frow) in enumerate(paired, start=2):
             cells = {}
             for col in wanted:
-                cell, fcell = row[col - 1], frow[col - 1]
+                cell = row[col - 1]
                 formula = None
-                if cell.value is None and getattr(fcell, "data_type", "") == "f":
-                    formula = str(getattr(fcell.value, "text", fcell.value))
+                if cell.value is None and frow is not None and frow[col - 1].data_type == "f":
+                    formula = str(getattr(frow[col - 1].value, "text", frow[col - 1].value))
                 if formula or not _is_blank(cell.value):
                     fmt = getattr(cell, "number_format", None) or "General"
                     cells[col] = _Cell(cell.value, fmt, formula)
@@ -107,6 +115,19 @@ def _raw_sheet(values: Any, formulas: Any, spec: InputSheet, title: str) -> _Raw
     )
 
 
+def _has_formulas(data: bytes) -> bool:
+    """Whether any worksheet holds a formula (an ``<f>`` element), by a scan of the raw XML.
+
+    Most inventories hold none, and then the second, formula-reading pass is skipped.
+    """
+    with zipfile.ZipFile(io.BytesIO(data)) as archive:
+        for name in archive.namelist():
+            if name.startswith("xl/worksheets/") and name.endswith(".xml"):
+                if _FORMULA_TAG.search(archive.read(name)):
+                    return True
+    return False
+
+
 def _extract(data: bytes) -> tuple[dict[str, _RawSheet], set[str]]:
     """The raw input sheets by declared name, and the lower-cased titles of all sheets."""
     with warnings.catch_warnings():
@@ -114,7 +135,11 @@ def _extract(data: bytes) -> tuple[dict[str, _RawSheet], set[str]]:
         # dates); reading values only, none of them matters here.
         warnings.simplefilter("ignore")
         values = openpyxl.load_workbook(io.BytesIO(data), read_only=True, data_only=True)
-        formulas = openpyxl.load_workbook(io.BytesIO(data), read_only=True, data_only=False)
+        formulas = (
+            openpyxl.load_workbook(io.BytesIO(data), read_only=True, data_only=False)
+            if _has_formulas(data)
+            else None
+        )
         try:
             titles = {t.strip().lower(): t for t in values.sheetnames}
             raw = {}
@@ -125,7 +150,8 @@ def _extract(data: bytes) -> tuple[dict[str, _RawSheet], set[str]]:
             return raw, set(titles)
         finally:
             values.close()
-            formulas.close()
+            if formulas is not None:
+                formulas.close()
 
 
 @dataclass

@@ -47,7 +47,29 @@ def input_schema() -> dict[str, Any]:
 
 @functools.cache
 def _validator() -> Draft202012Validator:
-    return Draft202012Validator(input_schema())
+    schema = input_schema()
+    return Draft202012Validator(_inlined(schema, schema.get("$defs", {})))
+
+
+def _inlined(node: Any, defs: dict[str, Any]) -> Any:
+    """``node`` with every local ``$ref`` replaced by the definition it names.
+
+    The same rules, checked faster: resolving a reference costs more than the
+    check it leads to, and an inventory has thousands of rows. The schema has no
+    recursive definitions, so the result is finite.
+    """
+    if isinstance(node, list):
+        return [_inlined(n, defs) for n in node]
+    if not isinstance(node, dict):
+        return node
+    out = {k: _inlined(v, defs) for k, v in node.items() if k not in ("$ref", "$defs")}
+    ref = node.get("$ref")
+    if isinstance(ref, str) and ref.startswith("#/$defs/"):
+        target = _inlined(defs[ref.removeprefix("#/$defs/")], defs)
+        if set(target) & set(out) - {"description", "title"}:
+            return {"allOf": [target], **out}  # both constrain: keep both
+        return target | out
+    return out
 
 
 def _example(path: DocPath) -> str:
