@@ -98,3 +98,26 @@ def test_spacing_is_a_number_or_a_range():
     assert _errors(doc({"low": 14, "high": 30})) == []
     assert _errors(doc({"low": 14})) == ["oneOf"]
     assert _errors(doc(-14)) == ["oneOf"]
+
+
+def test_inlined_references_check_the_same_rules():
+    # The validator inlines $ref for speed; it must find exactly what the schema as
+    # written finds (checked here with the jsonschema library on the original).
+    from batch.validation.schema import _validator
+
+    as_written = Draft202012Validator(input_schema())
+    documents = [
+        {"members": [], "vehicles": [{}]},
+        {"members": [{"id": "M", "spans": [0, "x"], "hinges": [-1], "span_ei": []}]},
+        {
+            "settings": {"units": "metric", "stations_per_span": 0.5, "impact": 2, "x": 1},
+            "members": [{"id": " ", "spans": [60], "condition_factor": 0, "dc_load": -1}],
+            "vehicles": [{"id": "V", "spacings": [0, {"low": 1}, {"low": 1, "high": "2"}]}],
+        },
+        {"members": [{"id": "M", "spans": [60]}], "vehicles": [{"id": "V", "library": ""}]},
+        [],
+    ]
+    for doc in documents:
+        expected = sorted((list(e.absolute_path), e.message) for e in as_written.iter_errors(doc))
+        got = sorted((list(e.absolute_path), e.message) for e in _validator().iter_errors(doc))
+        assert got == expected
