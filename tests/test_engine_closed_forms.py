@@ -394,3 +394,22 @@ def test_hs20_on_30_ft_span_drops_the_front_axle() -> None:
     m_max = axle_extremes(il, HS20_LOADS, HS20_SPACING).max_value[il.moment_rows]
     assert m_max[37] == pytest.approx(64 * 11.5**2 / 30, rel=REL_TOL_EXACT)
     assert m_max.max() == pytest.approx(m_max[37], rel=REL_TOL_EXACT)
+
+
+@pytest.mark.xfail(
+    strict=True,
+    reason=(
+        "engine bug: a hinge typed at a station's position (35.35) but a float ulp above "
+        "the computed station (35.349999...) is merged into one break at the station's "
+        "value; influence_lines then assigns the piece right of the hinge to the element "
+        "left of it (searchsorted of breaks in nodes), so R_C = 0 on [35.35, 37.875]"
+    ),
+)
+def test_hinge_at_a_station_gives_the_statics_of_the_suspended_part() -> None:
+    # Statics of a determinate girder (common practice): two 20.2 ft spans, hinge at
+    # 35.35 ft (the 3/4 point of span 2, station 7 of 4 per span). The part right of the
+    # hinge rests on the hinge and support C, so R_C(x) = (x - 35.35) / (40.4 - 35.35).
+    il = influence_lines([20.2, 20.2], hinges=[35.35], stations_per_span=4)
+    x = np.linspace(35.35, 40.4, 11)
+    r_c = il.evaluate(x)[il.reaction_rows][2]
+    np.testing.assert_allclose(r_c, (x - 35.35) / (40.4 - 35.35), rtol=0, atol=REL_TOL_EXACT)
