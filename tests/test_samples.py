@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
+import numpy as np
 import openpyxl
 import pytest
 from generated_workbooks import assert_same_workbook, read_input_or_skip
@@ -56,6 +57,19 @@ def test_every_sample_layout_is_stable(member: Member) -> None:
     assert len(member.spans) + 1 >= 2 + len(member.hinges)
     assert mechanism_parts(member.spans, member.hinges) == []
     influence_lines(member.spans, member.stiffness, member.hinges, stations_per_span=4)
+
+
+def test_no_moment_at_a_sample_hinge_that_is_a_station() -> None:
+    # Statics (common practice): an internal hinge transmits no moment, whatever the load.
+    checked = 0
+    for member in _all_members():
+        il = influence_lines(member.spans, member.stiffness, member.hinges, stations_per_span=10)
+        ordinates = il.evaluate(np.linspace(0.0, member.length, 801))[il.moment_rows]
+        for hinge in member.hinges:
+            for row in np.flatnonzero(np.isclose(il.station_x, hinge, rtol=0, atol=1e-9)):
+                assert np.abs(ordinates[row]).max() <= REL_TOL_EXACT * member.length, member.id
+                checked += 1
+    assert checked > 0  # KV-1010 G2 has its hinges on stations 0.8 and 0.2 of spans 2 and 3
 
 
 def test_inventory_has_every_kind_of_layout() -> None:
