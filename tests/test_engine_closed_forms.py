@@ -402,14 +402,16 @@ def test_hs20_on_30_ft_span_drops_the_front_axle() -> None:
         "engine bug: a hinge typed at a station's position (35.35) but a float ulp above "
         "the computed station (35.349999...) is merged into one break at the station's "
         "value; influence_lines then assigns the piece right of the hinge to the element "
-        "left of it (searchsorted of breaks in nodes), so R_C = 0 on [35.35, 37.875]"
+        "left of it (searchsorted of breaks in nodes), so R_C = 0 on [35.35, 40.4] and "
+        "a unit axle's largest R_C is 0 instead of 1"
     ),
 )
 def test_hinge_at_a_station_gives_the_statics_of_the_suspended_part() -> None:
     # Statics of a determinate girder (common practice): two 20.2 ft spans, hinge at
-    # 35.35 ft (the 3/4 point of span 2, station 7 of 4 per span). The part right of the
+    # 35.35 ft (the 3/4 point of span 2, where a station falls). The part right of the
     # hinge rests on the hinge and support C, so R_C(x) = (x - 35.35) / (40.4 - 35.35).
     il = influence_lines([20.2, 20.2], hinges=[35.35], stations_per_span=4)
     x = np.linspace(35.35, 40.4, 11)
     r_c = il.evaluate(x)[il.reaction_rows][2]
     np.testing.assert_allclose(r_c, (x - 35.35) / (40.4 - 35.35), rtol=0, atol=REL_TOL_EXACT)
+    assert axle_extremes(il, [1.0]).max_value[il.reaction_rows][2] == pytest.approx(1.0)
