@@ -15,51 +15,12 @@ import hashlib
 from pathlib import Path
 
 from batch.readers.jsondoc import read_json
-from batch.readers.safety import WORKBOOK_SUFFIXES, inspect_zip, read_bytes, sniff
+from batch.readers.safety import read_bytes, refusal, sniff
 from batch.readers.workbook import read_workbook
 from batch.validation import validate
-from batch.validation.problems import InputReport, Problem, Reading, file_problem
+from batch.validation.problems import InputReport, Problem, Reading
 
 __all__ = ["read_input"]
-
-_SAVE_AS = "open it in your spreadsheet program and save it as an Excel Workbook (.xlsx)"
-
-
-def _refusal(kind: str, suffix: str, data: bytes, name: str) -> Problem | None:
-    """Why these bytes cannot be read as an input with this name ending; None when they can."""
-    if kind == "empty":
-        return file_problem("file-empty", f"{name} is empty; give a workbook or a JSON document")
-    if kind == "encrypted":
-        return file_problem(
-            "encrypted-workbook",
-            f"{name} is protected by a password (encrypted), so it cannot be read; open it, "
-            "remove the password to open, and save it as an Excel Workbook (.xlsx)",
-        )
-    if kind == "ole2":
-        return file_problem(
-            "xls-format", f"{name} is in the old binary Excel format (.xls); {_SAVE_AS}"
-        )
-    if kind == "zip":
-        found = inspect_zip(data)
-        if found is None and suffix not in WORKBOOK_SUFFIXES:
-            return file_problem(
-                "wrong-file-ending",
-                f"{name} is an Excel workbook, but its name ends in {suffix or 'nothing'!r}; "
-                "rename it to end in .xlsx",
-            )
-        return found
-    if suffix == ".json":
-        return None
-    if suffix in WORKBOOK_SUFFIXES:
-        return file_problem(
-            "not-a-workbook",
-            f"{name} is not an Excel workbook (its content does not start like one); {_SAVE_AS}",
-        )
-    return file_problem(
-        "unsupported-file-type",
-        f"spanfleet reads .xlsx and .xlsm workbooks and .json documents, not "
-        f"{suffix or 'files without an ending'!r}; {_SAVE_AS}",
-    )
 
 
 def read_input(path: Path | str) -> InputReport:
@@ -75,9 +36,9 @@ def read_input(path: Path | str) -> InputReport:
         return InputReport(case=None, problems=(data,))
     digest = hashlib.sha256(data).hexdigest()
     kind, suffix = sniff(data), path.suffix.lower()
-    refusal = _refusal(kind, suffix, data, path.name)
-    if refusal is not None:
-        return InputReport(case=None, problems=(refusal,), digest=digest)
+    refused = refusal(kind, suffix, data, path.name)
+    if refused is not None:
+        return InputReport(case=None, problems=(refused,), digest=digest)
     source = "workbook" if kind == "zip" else "json"
     reading: Reading = read_workbook(data) if source == "workbook" else read_json(data)
     errors, warnings, case = validate(reading)

@@ -28,6 +28,7 @@ __all__ = [
     "WORKBOOK_SUFFIXES",
     "inspect_zip",
     "read_bytes",
+    "refusal",
     "sniff",
     "xml_entities_problem",
 ]
@@ -180,4 +181,45 @@ def xml_entities_problem(part: str = "") -> Problem:
         f"the workbook contains XML entity declarations{where}, which spanfleet refuses "
         "because they can expand without end; spreadsheet programs never write them: "
         f"{_SAVE_AS} again from a trusted copy",
+    )
+
+
+def refusal(kind: str, suffix: str, data: bytes, name: str) -> Problem | None:
+    """Why bytes of this ``kind`` (see :func:`sniff`) cannot be read as the input ``name``.
+
+    ``None`` when they can: a workbook within the caps named .xlsx or .xlsm, or
+    anything named .json (the JSON reader judges it).
+    """
+    if kind == "empty":
+        return file_problem("file-empty", f"{name} is empty; give a workbook or a JSON document")
+    if kind == "encrypted":
+        return file_problem(
+            "encrypted-workbook",
+            f"{name} is protected by a password (encrypted), so it cannot be read; open it, "
+            "remove the password to open, and save it as an Excel Workbook (.xlsx)",
+        )
+    if kind == "ole2":
+        return file_problem(
+            "xls-format", f"{name} is in the old binary Excel format (.xls); {_SAVE_AS}"
+        )
+    if kind == "zip":
+        found = inspect_zip(data)
+        if found is None and suffix not in WORKBOOK_SUFFIXES:
+            return file_problem(
+                "wrong-file-ending",
+                f"{name} is an Excel workbook, but its name ends in {suffix or 'nothing'!r}; "
+                "rename it to end in .xlsx",
+            )
+        return found
+    if suffix == ".json":
+        return None
+    if suffix in WORKBOOK_SUFFIXES:
+        return file_problem(
+            "not-a-workbook",
+            f"{name} is not an Excel workbook (its content does not start like one); {_SAVE_AS}",
+        )
+    return file_problem(
+        "unsupported-file-type",
+        f"spanfleet reads .xlsx and .xlsm workbooks and .json documents, not "
+        f"{suffix or 'files without an ending'!r}; {_SAVE_AS}",
     )

@@ -27,7 +27,15 @@ import openpyxl
 from defusedxml import DefusedXmlException
 from openpyxl.utils import get_column_letter
 
-from batch.inputs import MEMBERS, SETTING_ROWS, SETTINGS, VEHICLES, InputSheet, header_key
+from batch.inputs import (
+    CAPACITIES,
+    MEMBERS,
+    SETTING_ROWS,
+    SETTINGS,
+    VEHICLES,
+    InputSheet,
+    header_key,
+)
 from batch.model import UNIT_SYSTEMS, Settings
 from batch.readers.cells import Note, read_cell
 from batch.readers.headers import HeaderMatch, match_headers, unit_in_header
@@ -43,8 +51,6 @@ from batch.validation.problems import (
 
 __all__ = ["read_workbook"]
 
-#: The optional sheet for rating, declared in batch.inputs but not read yet.
-_RATING_SHEET = "Capacities"
 # A formula element in sheet XML, with or without a namespace prefix (<f>, <x:f t="shared">).
 _FORMULA_TAG = re.compile(rb"<(?:\w+:)?f[\s>/]")
 
@@ -390,10 +396,11 @@ def read_workbook(data: bytes) -> Reading:
         "members": build.table(MEMBERS, "members", raw.get(MEMBERS.name), units),
         "vehicles": build.table(VEHICLES, "vehicles", raw.get(VEHICLES.name), units),
     }
-    if _RATING_SHEET.lower() in titles:
+    # The rating sheet is declared in batch.inputs but not read by this version.
+    if CAPACITIES.name.lower() in titles:
         build.add(
             "rating-not-available",
-            _RATING_SHEET,
+            CAPACITIES.name,
             "",
             "this version does not rate members yet, so the Capacities sheet is not read; "
             "the run gives live-load envelopes only",
