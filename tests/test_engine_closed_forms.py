@@ -396,16 +396,6 @@ def test_hs20_on_30_ft_span_drops_the_front_axle() -> None:
     assert m_max.max() == pytest.approx(m_max[37], rel=REL_TOL_EXACT)
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason=(
-        "engine bug: a hinge typed at a station's position (35.35) but a float ulp above "
-        "the computed station (35.349999...) is merged into one break at the station's "
-        "value; influence_lines then assigns the piece right of the hinge to the element "
-        "left of it (searchsorted of breaks in nodes), so R_C = 0 on [35.35, 40.4] and "
-        "a unit axle's largest R_C is 0 instead of 1"
-    ),
-)
 def test_hinge_at_a_station_gives_the_statics_of_the_suspended_part() -> None:
     # Statics of a determinate girder (common practice): two 20.2 ft spans, hinge at
     # 35.35 ft (the 3/4 point of span 2, where a station falls). The part right of the

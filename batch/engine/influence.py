@@ -405,14 +405,19 @@ def influence_lines(
     )
     if ei.shape != spans_a.shape or np.any(~np.isfinite(ei)) or np.any(ei <= 0):
         raise ValueError("give one relative EI greater than zero for each span")
-    if stations_per_span < 1:
+    if int(stations_per_span) != stations_per_span or stations_per_span < 1:
         raise ValueError("stations per span must be a whole number of at least 1")
+    stations_per_span = int(stations_per_span)
     supports = np.concatenate([[0.0], np.cumsum(spans_a)])
     length = float(supports[-1])
     tol = POSITION_TOL * length
-    hinge_a = np.sort(np.asarray(hinges, dtype=float))
+    hinge_a = np.sort(np.asarray(hinges, dtype=float).reshape(-1))
+    if np.any(~np.isfinite(hinge_a)):
+        raise ValueError("hinge positions must be finite numbers")
     if np.any(hinge_a <= tol) or np.any(hinge_a >= length - tol):
         raise ValueError("hinges must lie strictly inside the member")
+    if np.any(np.diff(hinge_a) <= tol):
+        raise ValueError("two hinges are at the same place; give each hinge once")
     moving = mechanism_parts(spans_a.tolist(), hinge_a.tolist())
     if moving:
         where = ", ".join(f"{a:g} to {b:g}" for a, b in moving)
@@ -425,11 +430,15 @@ def influence_lines(
     element_cubics = _reaction_cubics(nodes, supports, hinge_a, ei, tol)
 
     span_no, fraction, sx = _station_positions(supports, stations_per_span)
+    # A station on a node (a support or a hinge typed at a station) takes the node's
+    # exact position, so that the node's element boundary stays where it is.
+    on_node = np.abs(sx[:, None] - nodes[None, :]) <= tol
+    sx = np.where(on_node.any(axis=1), nodes[on_node.argmax(axis=1)], sx)
     breaks = _merge(np.concatenate([nodes, sx]), tol)
     breaks[-1] = length
     # Snap stations onto the merged partition so that jumps sit exactly on breaks.
     sx = breaks[np.abs(breaks[None, :] - sx[:, None]).argmin(axis=1)]
-    elem = np.clip(np.searchsorted(nodes, breaks[:-1], side="right") - 1, 0, nodes.size - 2)
+    elem = np.clip(np.searchsorted(nodes, breaks[:-1] + tol, side="right") - 1, 0, nodes.size - 2)
     reactions = _shift(element_cubics[:, elem, :], breaks[:-1] - nodes[elem])  # (S, J, 4)
 
     piece_start = breaks[:-1]

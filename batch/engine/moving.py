@@ -99,9 +99,20 @@ def _spacings(
     hi = lo if spacing_high is None else np.asarray(spacing_high, dtype=float).reshape(-1)
     if n_axles == 0 or lo.size != n_axles - 1 or hi.size != lo.size:
         raise ValueError("give one or more axle loads and one spacing per gap between axles")
+    if not (np.all(np.isfinite(lo)) and np.all(np.isfinite(hi))) or np.any(lo < 0):
+        raise ValueError("axle spacings must be finite numbers, zero or more")
+    if np.any(hi < lo):
+        raise ValueError("a spacing range must not end below its start")
     # Beyond one member length the groups can never both be on the member, so a
     # longer spacing adds nothing that the member length does not already give.
     return lo, np.maximum(lo, np.minimum(hi, il.length))
+
+
+def _check(loads: NDArray[np.float64], directions: tuple[int, ...]) -> None:
+    if not np.all(np.isfinite(loads)):
+        raise ValueError("axle loads must be finite numbers")
+    if not directions or any(d not in (LEFT_TO_RIGHT, RIGHT_TO_LEFT) for d in directions):
+        raise ValueError("directions must be one or both of +1 (left to right) and -1")
 
 
 def _combos(lo: NDArray[np.float64], hi: NDArray[np.float64]) -> list[_Combo]:
@@ -165,6 +176,7 @@ def axle_extremes(
     spacing used for each gap.
     """
     p = np.ascontiguousarray(loads, dtype=float).reshape(-1)
+    _check(p, directions)
     lo, hi = _spacings(il, p.size, spacing_low, spacing_high)
     high_part, low_part = _partitions(il, drop_adverse_axles)
     tol = POSITION_TOL * il.length
@@ -272,6 +284,7 @@ def fleet_extremes_of(
     }
     for row, t in enumerate(trains):
         p = np.ascontiguousarray(t.loads, dtype=float).reshape(-1)
+        _check(p, directions)
         lo, hi = _spacings(il, p.size, t.spacing_low, t.spacing_high or None)
         parts = _partitions(il, t.drop_adverse_axles)
         for combo in _combos(lo, hi):
