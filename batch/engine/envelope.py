@@ -28,7 +28,16 @@ from batch.engine.influence import InfluenceLines, influence_lines
 from batch.engine.moving import LEFT_TO_RIGHT, RIGHT_TO_LEFT, Train, fleet_extremes_of
 from batch.model import Member
 
-__all__ = ["Extremes", "LoadCase", "MemberEnvelope", "member_envelope", "member_influence"]
+__all__ = [
+    "CaseEffects",
+    "Extremes",
+    "LoadCase",
+    "MemberEnvelope",
+    "case_effects",
+    "envelope_of",
+    "member_envelope",
+    "member_influence",
+]
 
 #: An extreme smaller than this fraction of the case's natural size is round-off, not an effect.
 ZERO_TOL = 1e-10
@@ -130,14 +139,37 @@ def _uniform_effects(
     return positive, negative, positive + negative
 
 
-def member_envelope(
+@dataclass(frozen=True, kw_only=True)
+class CaseEffects:
+    """Factored extremes of every load case on every effect of one member.
+
+    Arrays of shape (n_cases, n_effects), effects laid out as in
+    :class:`~batch.engine.influence.InfluenceLines` (moments at stations, shears
+    at stations, reactions). ``max_value`` is the largest value of the case
+    (>= 0) and ``min_value`` the smallest (<= 0), both including the case's
+    factor, the member's distribution factor, the dynamic allowance on axles and
+    the lane load on the adverse parts; 0 where the case gives no effect of that
+    sign or its scope excludes the effect. ``*_position`` is the governing front
+    axle's x (NaN when only a lane load acts), ``*_direction`` +1/-1 (0 none).
+    """
+
+    lines: InfluenceLines
+    max_value: NDArray[np.float64]
+    max_position: NDArray[np.float64]
+    max_direction: NDArray[np.int8]
+    min_value: NDArray[np.float64]
+    min_position: NDArray[np.float64]
+    min_direction: NDArray[np.int8]
+
+
+def case_effects(
     member: Member,
     cases: list[LoadCase] | tuple[LoadCase, ...],
     stations_per_span: int = 10,
     directions: str = "both",
     il: InfluenceLines | None = None,
-) -> MemberEnvelope:
-    """Envelope of every effect of ``member`` over all ``cases``.
+) -> CaseEffects:
+    """Factored extremes of each load case on each effect of ``member``.
 
     Units follow the inputs (e.g. kip and ft give kip-ft moments and kip
     shears). Raises ``ValueError`` for a malformed member or case and
@@ -168,7 +200,7 @@ def member_envelope(
     size = il.effect_scale[None, :] * (total * (1 + impact) + lane * il.length)
     scopes = {scope: _scoped(il, scope) for scope in {c.scope for c in cases}}
     applies = np.array([scopes[c.scope] for c in cases], dtype=bool).reshape(-1, n_eff, 2)
-    best = {}
+    out = {}
     for col, (sense, axle_v, axle_p, axle_d, area) in enumerate(
         (
             ("max", fleet.max_value, fleet.max_position, fleet.max_direction, positive),
@@ -179,30 +211,68 @@ def member_envelope(
         axle_part = np.where(np.abs(axle_v) > ZERO_TOL * size, axle_v, 0.0)
         value = scale * ((1 + impact) * axle_part + lane * area[None, :])
         value = np.where(np.abs(value) > ZERO_TOL * size * scale, value, 0.0)
-        sign = 1.0 if sense == "max" else -1.0
-        # Row 0 stands for "no case": value 0, no position. First case wins ties.
-        pad = np.zeros((1, n_eff))
-        value = np.concatenate([pad, np.where(applies[:, :, col], value, 0.0)])
-        axle_part = np.concatenate([pad, axle_part])
-        axle_p = np.concatenate([pad + np.nan, axle_p])
-        axle_d = np.concatenate([pad.astype(np.int8), axle_d])
-        row = (sign * value).argmax(axis=0)
-        cols = np.arange(n_eff)
-        moving = axle_part[row, cols] != 0.0
-        best[sense] = (
-            value[row, cols],
-            row - 1,
-            np.where(moving, axle_p[row, cols], np.nan),
-            np.where(moving, axle_d[row, cols], 0).astype(np.int8),
+        value = np.where(applies[:, :, col], value, 0.0)
+        moving = (axle_part != 0.0) & (value != 0.0)
+        out[sense] = (
+            value,
+            np.where(moving, axle_p, np.nan),
+            np.where(moving, axle_d, 0).astype(np.int8),
         )
+    return CaseEffects(
+        lines=il,
+        max_value=out["max"][0],
+        max_position=out["max"][1],
+        max_direction=out["max"][2],
+        min_value=out["min"][0],
+        min_position=out["min"][1],
+        min_direction=out["min"][2],
+    )
 
-    def pick(sense: str, rows: slice) -> Extremes:
+
+def _governing(
+    value: NDArray[np.float64],
+    position: NDArray[np.float64],
+    direction: NDArray[np.int8],
+    sign: float,
+    rows: NDArray[np.int64] | None = None,
+) -> tuple[NDArray[np.float64], NDArray[np.int64], NDArray[np.float64], NDArray[np.int8]]:
+    """The worst of the given case rows per effect; the first row wins ties, -1 when none acts."""
+    rows = np.arange(value.shape[0]) if rows is None else rows
+    n_eff = value.shape[1]
+    pad = np.zeros((1, n_eff))
+    v = np.concatenate([pad, value[rows]])  # row 0 stands for "no case"
+    p = np.concatenate([pad + np.nan, position[rows]])
+    d = np.concatenate([pad.astype(np.int8), direction[rows]])
+    best = (sign * v).argmax(axis=0)
+    cols = np.arange(n_eff)
+    case = np.where(best > 0, rows[np.maximum(best - 1, 0)], -1)
+    return v[best, cols], case, p[best, cols], d[best, cols]
+
+
+def envelope_of(
+    member_id: str,
+    effects: CaseEffects,
+    labels: tuple[str, ...],
+    rows: NDArray[np.int64] | None = None,
+) -> MemberEnvelope:
+    """The envelope over the load cases ``rows`` (all by default) of ``effects``."""
+    il = effects.lines
+    best = {
+        "max": _governing(
+            effects.max_value, effects.max_position, effects.max_direction, 1.0, rows
+        ),
+        "min": _governing(
+            effects.min_value, effects.min_position, effects.min_direction, -1.0, rows
+        ),
+    }
+
+    def pick(sense: str, part: slice) -> Extremes:
         v, c, p, d = best[sense]
-        return Extremes(value=v[rows], case=c[rows], position=p[rows], direction=d[rows])
+        return Extremes(value=v[part], case=c[part], position=p[part], direction=d[part])
 
     return MemberEnvelope(
-        member=member.id,
-        labels=tuple(c.label for c in cases),
+        member=member_id,
+        labels=labels,
         station_span=il.station_span,
         station_fraction=il.station_fraction,
         station_x=il.station_x,
@@ -214,3 +284,19 @@ def member_envelope(
         r_max=pick("max", il.reaction_rows),
         r_min=pick("min", il.reaction_rows),
     )
+
+
+def member_envelope(
+    member: Member,
+    cases: list[LoadCase] | tuple[LoadCase, ...],
+    stations_per_span: int = 10,
+    directions: str = "both",
+    il: InfluenceLines | None = None,
+) -> MemberEnvelope:
+    """Envelope of every effect of ``member`` over all ``cases``.
+
+    See :func:`case_effects` for units and errors; the envelope keeps, per
+    effect, the worst case, its front-axle position and direction.
+    """
+    effects = case_effects(member, cases, stations_per_span, directions, il)
+    return envelope_of(member.id, effects, tuple(c.label for c in cases))
