@@ -145,7 +145,8 @@ def _check_names(src: Path, target: Path, is_json: bool, has_out: bool) -> None:
         raise Usage(f"{target.name}: .xlsm is for workbooks with macros; use .xlsx")
 
 
-def _open_input(src: Path, report: InputReport, keep_vba: bool) -> OpenedBook:
+def _open_input(src: Path, report: InputReport, keep_vba: bool) -> tuple[OpenedBook, bytes]:
+    """The input workbook opened to receive results, and the bytes it was opened from."""
     from batch.writers.preserve import BookProblem, open_book
 
     data = src.read_bytes()
@@ -155,7 +156,7 @@ def _open_input(src: Path, report: InputReport, keep_vba: bool) -> OpenedBook:
             "save it in your spreadsheet program, close it and run again"
         )
     try:
-        return open_book(data, src.name, keep_vba)
+        return open_book(data, src.name, keep_vba), data
     except BookProblem as exc:
         raise Refused(str(exc)) from exc
 
@@ -208,6 +209,7 @@ def _cmd_run(args: argparse.Namespace) -> int:
     from batch.results import GOVERNING
     from batch.run import RunError, run_case
     from batch.writers import InputInfo, select_sheet, write_results
+    from batch.writers.cached import KeepCachedValues
     from batch.writers.save import SaveError, atomic_save
 
     src: Path = args.book
@@ -220,11 +222,12 @@ def _cmd_run(args: argparse.Namespace) -> int:
         _say(f"{src.name} was not changed.")
         return status
     assert report.case is not None
+    original: bytes | None = None  # the input package, whose formulas' cached values are kept
     if is_json:
         opened = _json_book(report)
     else:
         keep_vba = src.suffix.lower() == ".xlsm" and target.suffix.lower() == ".xlsm"
-        opened = _open_input(src, report, keep_vba)
+        opened, original = _open_input(src, report, keep_vba)
         if in_place:
             _guard_in_place(opened, target)
         for what in opened.cannot_keep:
@@ -246,8 +249,9 @@ def _cmd_run(args: argparse.Namespace) -> int:
     wb = opened.workbook
     sheets = write_results(wb, result, info, notes)
     select_sheet(wb, opened.active or GOVERNING.sheet)
+    book = wb if original is None else KeepCachedValues(wb, original)
     try:
-        atomic_save(wb, target, expect_sha256=report.digest if in_place else None)
+        atomic_save(book, target, expect_sha256=report.digest if in_place else None)
     except SaveError as exc:
         raise Refused(str(exc)) from exc
     for text in result.warnings:
@@ -292,7 +296,7 @@ def _cmd_check(args: argparse.Namespace) -> int:
 def _check_writeback(src: Path, report: InputReport) -> None:
     """Say in advance when an in-place run would refuse to write into this workbook."""
     try:
-        opened = _open_input(src, report, keep_vba=src.suffix.lower() == ".xlsm")
+        opened, _ = _open_input(src, report, keep_vba=src.suffix.lower() == ".xlsm")
     except Refused as exc:
         print(f"warning: {exc}")
         return

@@ -321,3 +321,26 @@ def test_macros_survive_in_place_and_a_copy_without_them_warns(book: Path, capsy
     with zipfile.ZipFile(copy) as zf:
         assert "xl/vbaProject.bin" not in zf.namelist()
     assert main(["run", str(book), "--out", str(book.with_name("x.xlsm"))]) == EXIT_USAGE
+
+
+def test_a_formula_input_keeps_its_cached_value_so_a_second_run_reads_it(
+    tmp_path: Path, make_workbook, capsys
+) -> None:
+    # A spreadsheet program saves each formula with its last result (ECMA-376 Part 1,
+    # §18.3.1.4 c: an <f> element beside a <v> value); openpyxl drops the <v> on save.
+    path = make_workbook(tmp_path, members=[{"Member": "KV-0311 G1", "Spans (ft)": "=30+30"}])
+    out = io.BytesIO()
+    with zipfile.ZipFile(path) as zin, zipfile.ZipFile(out, "w") as zout:
+        for info in zin.infolist():
+            zout.writestr(
+                info, zin.read(info).replace(b"<f>30+30</f><v />", b"<f>30+30</f><v>60</v>")
+            )
+    path.write_bytes(out.getvalue())
+    assert read_input(path).ok
+    for _ in range(2):  # the second run reads the workbook the first one wrote
+        assert main(["run", str(path), "-q"]) == EXIT_OK, capsys.readouterr().err
+    report = read_input(path)
+    assert report.ok, [p.render() for p in report.problems]
+    assert report.case is not None
+    assert report.case.members[0].spans == (60.0,)
+    assert load_workbook(path)["Members"]["B2"].value == "=30+30"
