@@ -241,3 +241,25 @@ def test_rows_within_the_cap_are_read(make_workbook, tmp_path, monkeypatch):
     assert report.ok
     assert report.case is not None
     assert len(report.case.members) == 5
+
+
+def test_damaged_compressed_data(make_workbook, tmp_path):
+    # A member marked deflated (method 8, APPNOTE 4.4.5) whose bytes are not a deflate stream:
+    # zlib itself raises while the part is read, before any CRC check.
+    parts = _members(make_workbook(tmp_path))
+    buffer = io.BytesIO()
+    with zipfile.ZipFile(buffer, "w", zipfile.ZIP_STORED) as z:
+        for name, data in parts.items():
+            z.writestr(name, b"\xff" * 64 if name == "xl/workbook.xml" else data)
+    data = bytearray(buffer.getvalue())
+    name = b"xl/workbook.xml"
+    # Local file header: method at offset 8, name at 30; central directory header: 10 and 46.
+    for signature, method_at, name_at in ((b"PK\x03\x04", 8, 30), (b"PK\x01\x02", 10, 46)):
+        at = data.find(signature)
+        while at >= 0:
+            if data[at + name_at : at + name_at + len(name)] == name:
+                struct.pack_into("<H", data, at + method_at, 8)
+            at = data.find(signature, at + 4)
+    path = tmp_path / "inflate.xlsx"
+    path.write_bytes(bytes(data))
+    assert _one_file_problem(path) == "damaged-zip"

@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import io
 import zipfile
+import zlib
 from pathlib import Path
 
 from batch.validation.problems import Problem, file_problem
@@ -123,7 +124,14 @@ def inspect_zip(data: bytes) -> Problem | None:
             if kind:
                 return kind
             return _entity_declarations(archive, infos)
-    except (zipfile.BadZipFile, zipfile.LargeZipFile, OSError, EOFError, ValueError) as exc:
+    except (
+        zipfile.BadZipFile,
+        zipfile.LargeZipFile,
+        zlib.error,
+        OSError,
+        EOFError,
+        ValueError,
+    ) as exc:  # zlib.error: a member's compressed data is damaged
         return file_problem(
             "damaged-zip",
             f"the file is a damaged zip archive ({exc}); {_SAVE_AS} again",
