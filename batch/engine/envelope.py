@@ -175,6 +175,16 @@ def case_effects(
     shears). Raises ``ValueError`` for a malformed member or case and
     :class:`batch.engine.influence.UnstableMemberError` for a mechanism.
     """
+    if not cases:
+        raise ValueError("give at least one load case")
+    if directions not in DIRECTION_CODES:
+        raise ValueError(f"directions must be one of {', '.join(DIRECTION_CODES)}")
+    if not np.all(np.isfinite([member.df_moment, member.df_shear])):
+        raise ValueError(f"member {member.id!r}: distribution factors must be finite numbers")
+    for c in cases:
+        for name, value in (("lane load", c.lane_load), ("impact", c.impact), ("factor", c.factor)):
+            if not np.isfinite(value):
+                raise ValueError(f"load case {c.label!r}: {name} must be a finite number")
     il = il if il is not None else member_influence(member, stations_per_span)
     positive, negative, _ = _uniform_effects(il)
     n_eff = il.n_effects

@@ -36,14 +36,22 @@ from __future__ import annotations
 
 import functools
 from dataclasses import dataclass
+from fractions import Fraction
 
 import numpy as np
 from numpy.typing import NDArray
+
+from batch.engine.exact import null_space, solve
 
 __all__ = ["InfluenceLines", "UnstableMemberError", "influence_lines", "mechanism_parts"]
 
 #: Two positions closer than this fraction of the member length are the same point.
 POSITION_TOL = 1e-10
+
+#: Above this condition number (of the diagonally scaled stiffness matrix) the
+#: double-precision solve could lose more than about six of its sixteen digits,
+#: so the system is solved in exact rational arithmetic instead.
+COND_LIMIT = 1e6
 
 # Cubic Hermite shape functions in power basis of xi (rows N1..N4, columns xi^0..xi^3).
 _HERMITE = np.array(
@@ -265,26 +273,24 @@ def mechanism_parts(
     tol = POSITION_TOL * length
     cuts = np.concatenate([[0.0], np.sort(np.asarray(hinges, dtype=float)), [length]])
     n_seg = cuts.size - 1
-    rows = []
+    zero = Fraction(0)
+    rows: list[list[Fraction]] = []
+    # Exact arithmetic: hinges very close together must not look like a mechanism.
     for xs in supports:
         for s in range(n_seg):
             if cuts[s] - tol <= xs <= cuts[s + 1] + tol:
-                row = np.zeros(2 * n_seg)
-                row[2 * s], row[2 * s + 1] = 1.0, (xs - cuts[s]) / length
+                row = [zero] * (2 * n_seg)
+                row[2 * s], row[2 * s + 1] = Fraction(1), Fraction(xs) - Fraction(cuts[s])
                 rows.append(row)
     for s in range(1, n_seg):
-        row = np.zeros(2 * n_seg)
-        row[2 * (s - 1)], row[2 * (s - 1) + 1] = 1.0, (cuts[s] - cuts[s - 1]) / length
-        row[2 * s] = -1.0
+        row = [zero] * (2 * n_seg)
+        row[2 * (s - 1)] = Fraction(1)
+        row[2 * (s - 1) + 1] = Fraction(cuts[s]) - Fraction(cuts[s - 1])
+        row[2 * s] = Fraction(-1)
         rows.append(row)
-    a = np.array(rows)
-    _, sv, vt = np.linalg.svd(a)
-    rank = int(np.sum(sv > 1e-9 * sv[0]))
-    free = vt[rank:]
-    if free.shape[0] == 0:
-        return []
-    motion = np.abs(free).max(axis=0).reshape(n_seg, 2).max(axis=1)
-    return [(float(cuts[s]), float(cuts[s + 1])) for s in range(n_seg) if motion[s] > 1e-9]
+    free = null_space(rows, 2 * n_seg)
+    moving = {s for x in free for s in range(n_seg) if x[2 * s] != 0 or x[2 * s + 1] != 0}
+    return [(float(cuts[s]), float(cuts[s + 1])) for s in sorted(moving)]
 
 
 def _station_positions(
@@ -304,6 +310,32 @@ def _merge(points: NDArray[np.float64], tol: float) -> NDArray[np.float64]:
     p = np.sort(points)
     keep = np.concatenate([[True], np.diff(p) > tol])
     return p[keep]
+
+
+def _assemble(
+    elements: list[tuple[float, float, float, NDArray[np.int64]]],
+    n_dof: int,
+    number: type[float] | type[Fraction],
+) -> list[list]:
+    """Global stiffness matrix of Euler-Bernoulli elements (a, b, EI, dofs), in ``number``.
+
+    With ``Fraction`` every entry is exact (the float inputs are exact rationals).
+    """
+    zero = number(0)
+    k = [[zero] * n_dof for _ in range(n_dof)]
+    for a, b, ei, g in elements:
+        h = number(b) - number(a)
+        c = number(ei) / (h * h * h)
+        ke = [
+            [12, 6 * h, -12, 6 * h],
+            [6 * h, 4 * h * h, -6 * h, 2 * h * h],
+            [-12, -6 * h, 12, -6 * h],
+            [6 * h, 2 * h * h, -6 * h, 4 * h * h],
+        ]
+        for r in range(4):
+            for q in range(4):
+                k[g[r]][g[q]] += c * ke[r][q]
+    return k
 
 
 def _reaction_cubics(
@@ -330,31 +362,31 @@ def _reaction_cubics(
         else:
             rot_right[i] = rot_left[i]
     n_dof = nxt
-    k = np.zeros((n_dof, n_dof))
     elements = []
     for e in range(n_nodes - 1):
         a, b = nodes[e], nodes[e + 1]
-        h = b - a
         span = min(int(np.searchsorted(supports, 0.5 * (a + b))) - 1, span_ei.size - 1)
-        ei = span_ei[span]
-        ke = (ei / h**3) * np.array(
-            [
-                [12, 6 * h, -12, 6 * h],
-                [6 * h, 4 * h * h, -6 * h, 2 * h * h],
-                [-12, -6 * h, 12, -6 * h],
-                [6 * h, 2 * h * h, -6 * h, 4 * h * h],
-            ]
-        )
         g = np.array([v_dof[e], rot_right[e], v_dof[e + 1], rot_left[e + 1]])
-        k[np.ix_(g, g)] += ke
-        elements.append((a, h, g))
+        elements.append((a, b, float(span_ei[span]), g))
     restrained = np.array([v_dof[int(np.argmin(np.abs(nodes - s)))] for s in supports], dtype=int)
     free = np.setdiff1d(np.arange(n_dof), restrained)
+    k = np.array(_assemble(elements, n_dof, float), dtype=float)
+    k_ff, k_fr = k[np.ix_(free, free)], k[np.ix_(free, restrained)]
+    scale = 1.0 / np.sqrt(np.diag(k_ff))
     transfer = np.zeros((restrained.size, n_dof))
-    transfer[:, free] = np.linalg.solve(k[np.ix_(free, free)], k[np.ix_(free, restrained)]).T
+    if np.linalg.cond(k_ff * scale[:, None] * scale[None, :]) < COND_LIMIT:
+        transfer[:, free] = np.linalg.solve(k_ff, k_fr).T
+    else:  # nearly a mechanism: solve the same system in exact rational arithmetic
+        exact = _assemble(elements, n_dof, Fraction)
+        solution = solve(
+            [[exact[i][j] for j in free] for i in free],
+            [[exact[i][j] for j in restrained] for i in free],
+        )
+        transfer[:, free] = np.array(solution, dtype=float).T
     transfer[np.arange(restrained.size), restrained] = -1.0
     out = np.empty((restrained.size, n_nodes - 1, 4))
-    for e, (_, h, g) in enumerate(elements):
+    for e, (a, b, _, g) in enumerate(elements):
+        h = b - a
         weights = -transfer[:, g] * np.array([1.0, h, 1.0, h])  # (n_sup, 4 shape functions)
         xi_coef = weights @ _HERMITE  # coefficients of xi^n
         out[:, e, :] = xi_coef / h ** np.arange(4)
@@ -405,7 +437,11 @@ def influence_lines(
     )
     if ei.shape != spans_a.shape or np.any(~np.isfinite(ei)) or np.any(ei <= 0):
         raise ValueError("give one relative EI greater than zero for each span")
-    if int(stations_per_span) != stations_per_span or stations_per_span < 1:
+    if (
+        not np.isfinite(stations_per_span)
+        or int(stations_per_span) != stations_per_span
+        or stations_per_span < 1
+    ):
         raise ValueError("stations per span must be a whole number of at least 1")
     stations_per_span = int(stations_per_span)
     supports = np.concatenate([[0.0], np.cumsum(spans_a)])
