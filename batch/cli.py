@@ -23,6 +23,7 @@ import hashlib
 import json
 import os
 import sys
+import time
 import traceback
 from collections.abc import Sequence
 from pathlib import Path
@@ -62,6 +63,16 @@ def _warn(text: str) -> None:
     _say(f"warning: {text}")
 
 
+def _positive_int(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        value = 0
+    if value < 1:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a whole number of at least 1")
+    return value
+
+
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser of the ``spanfleet`` command."""
     parser = argparse.ArgumentParser(
@@ -81,6 +92,24 @@ def build_parser() -> argparse.ArgumentParser:
         "(the input is left untouched); required for JSON input",
     )
     run.add_argument("-q", "--quiet", action="store_true", help="print problems and warnings only")
+    run.add_argument(
+        "--jobs",
+        type=_positive_int,
+        default=None,
+        metavar="N",
+        help="worker processes (default: all local cores; small runs use one)",
+    )
+    run.add_argument(
+        "--cluster",
+        metavar="ADDRESS",
+        help="run the members on an existing Dask cluster (e.g. tcp://10.0.0.5:8786); "
+        "needs the 'cluster' extra",
+    )
+    run.add_argument(
+        "--no-store",
+        action="store_true",
+        help="keep no checkpoint store beside the workbook (no resume, no per-vehicle store)",
+    )
 
     check = sub.add_parser("check", help="validate the input only; print every problem")
     check.add_argument("book", type=Path, help="input workbook or JSON document")
@@ -194,20 +223,47 @@ def _guard_in_place(opened: OpenedBook, target: Path) -> None:
 
 
 def _progress(quiet: bool) -> ProgressFn | None:
-    """A one-line progress display on a terminal; nothing when quiet or redirected."""
+    """A one-line progress display on a terminal: members done, rate, time left.
+
+    Nothing when quiet or when standard error is not a terminal (a log file).
+    """
     if quiet or not sys.stderr.isatty():
         return None
+    start = time.monotonic()
 
     def show(done: int, total: int, member: str) -> None:
+        spent = time.monotonic() - start
+        rate = done / spent if spent > 0 else 0.0
+        left = (total - done) / rate if rate > 0 else 0.0
         end = "\n" if done == total else ""
-        print(f"\r  member {done}/{total}: {member[:40]:<40}", end=end, file=sys.stderr)
+        print(
+            f"\r  {done}/{total} members, {rate:.1f}/s, about {_duration(left)} left; "
+            f"last {member[:30]:<30}",
+            end=end,
+            file=sys.stderr,
+        )
 
     return show
 
 
+def _duration(seconds: float) -> str:
+    if seconds < 90:
+        return f"{seconds:.0f} s"
+    if seconds < 5400:
+        return f"{seconds / 60:.0f} min"
+    return f"{seconds / 3600:.1f} h"
+
+
+def _run_key(report: InputReport) -> str:
+    """Identifies the validated input and the program version, for the checkpoint store."""
+    text = json.dumps(report.document, sort_keys=True, default=str)
+    return hashlib.sha256(f"{batch.__version__}\n{text}".encode()).hexdigest()
+
+
 def _cmd_run(args: argparse.Namespace) -> int:
     from batch.results import GOVERNING
-    from batch.run import RunError, run_case
+    from batch.run import RunError, RunOptions, run_case
+    from batch.store import store_path_for
     from batch.writers import InputInfo, select_sheet, write_results
     from batch.writers.cached import KeepCachedValues
     from batch.writers.save import SaveError, atomic_save
@@ -232,8 +288,14 @@ def _cmd_run(args: argparse.Namespace) -> int:
             _guard_in_place(opened, target)
         for what in opened.cannot_keep:
             _warn(f"{target.name} will lack {what} (spanfleet cannot copy it)")
+    options = RunOptions(
+        jobs=args.jobs,
+        cluster=args.cluster,
+        store=None if args.no_store else store_path_for(target),
+        key=_run_key(report),
+    )
     try:
-        result = run_case(report.case, _progress(args.quiet))
+        result = run_case(report.case, _progress(args.quiet), options)
     except RunError as exc:
         raise Refused(f"{exc}. {src.name} was not changed.") from exc
     info = InputInfo(

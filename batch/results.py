@@ -35,6 +35,8 @@ __all__ = [
     "REACTIONS",
     "RESULT_TABLES",
     "RUN_LOG_SHEET",
+    "VEHICLE_SUMMARY_COLUMNS",
+    "VEHICLE_SUMMARY_SHEET",
     "Effect",
     "ResultColumn",
     "ResultTable",
@@ -60,6 +62,18 @@ FORMAT_TEXT = "@"
 
 RUN_LOG_SHEET = "Run Log"
 CHARTS_SHEET = "Moment Charts"
+VEHICLE_SUMMARY_SHEET = "Vehicle Summary"
+
+#: Columns of the Vehicle Summary sheet after Member and Vehicle: the member's
+#: extreme of each effect under that vehicle, over all stations or supports.
+VEHICLE_SUMMARY_COLUMNS: tuple[tuple[str, Quantity], ...] = (
+    ("M max", "moment"),
+    ("M min", "moment"),
+    ("V max", "force"),
+    ("V min", "force"),
+    ("R max", "force"),
+    ("R min", "force"),
+)
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -443,6 +457,7 @@ _NUMBERED_ENVELOPES = re.compile(rf"^{ENVELOPES.sheet.lower()} \d+$")
 _RESULT_NAMES = {t.sheet.lower() for t in RESULT_TABLES} | {
     CHARTS_SHEET.lower(),
     RUN_LOG_SHEET.lower(),
+    VEHICLE_SUMMARY_SHEET.lower(),
 }
 
 

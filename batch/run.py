@@ -1,33 +1,61 @@
-"""Run a validated case: the fleet's load cases over every member, one member at a time.
+"""Run a validated case: the fleet's load cases over every member, in chunks.
 
-The fleet is expanded to load cases once (:func:`batch.loadcases.fleet_cases`);
-each member's envelope is then computed by :func:`batch.engine.member_envelope`
-with the run's stations per span and directions. :func:`member_results` yields
-members one by one (so a caller may stream them); :func:`run_case` collects
-them with timing and counts. Units and sign conventions are those of the engine
-and the workbook contract (sagging moment positive, V = sum of the upward forces
-left of the section, reactions upward positive).
+The fleet is expanded to load cases once (:func:`batch.loadcases.fleet_cases`).
+Members are then analysed in chunks — serially, on local worker processes, or on
+a Dask cluster — and each member's result is identical whichever way it ran. A
+member's result is its envelope (:func:`batch.engine.envelope_of`) and its
+per-vehicle peaks: for every vehicle, the extreme M max, M min, V max, V min,
+R max and R min over all stations and supports.
+
+With a :class:`~batch.store.CheckpointStore`, every finished member is written to
+it as soon as its chunk returns, and members already there from an interrupted
+run of the same input are not computed again.
+
+Units and sign conventions are those of the engine and the workbook contract
+(sagging moment positive, V = sum of the upward forces left of the section,
+reactions upward positive).
 """
 
 from __future__ import annotations
 
+import math
+import multiprocessing
+import os
 import time
 import warnings
 from collections.abc import Callable, Iterator
+from concurrent.futures import FIRST_COMPLETED, Future, ProcessPoolExecutor, wait
 from dataclasses import dataclass
 from datetime import datetime, timezone
+from pathlib import Path
 
 import numpy as np
+from numpy.typing import NDArray
 
-from batch.engine import LoadCase, MemberEnvelope, member_envelope
+from batch.engine import CaseEffects, LoadCase, MemberEnvelope, case_effects, envelope_of
 from batch.loadcases import fleet_cases
-from batch.model import Case, Member
+from batch.model import Case, Member, Settings
 from batch.results import EFFECTS
+from batch.store import CheckpointStore
 
-__all__ = ["MemberResult", "ProgressFn", "RunError", "RunResult", "member_results", "run_case"]
+__all__ = [
+    "MemberResult",
+    "ProgressFn",
+    "RunError",
+    "RunOptions",
+    "RunResult",
+    "analyse_member",
+    "run_case",
+]
 
-#: Called after each member: (members done, members in all, id of the member just done).
+#: Called as members finish: (members done, members in all, id of the member just done).
 ProgressFn = Callable[[int, int, str], None]
+
+#: Below this many member-vehicle pairs, worker processes cost more than they save.
+PARALLEL_MIN_PAIRS = 20_000
+
+#: Rows a sheet holds below its header; a larger per-vehicle summary stays in the store only.
+SHEET_ROWS = 1_048_575
 
 
 class RunError(Exception):
@@ -41,13 +69,28 @@ class RunError(Exception):
             "check its spans, hinges and Span EI"
         )
 
+    def __reduce__(self) -> tuple[type[RunError], tuple[str, str]]:
+        return (RunError, (self.member, self.reason))  # survives the trip from a worker
+
 
 @dataclass(frozen=True, kw_only=True)
 class MemberResult:
-    """One member's envelope and any numerical warnings raised while computing it."""
+    """One member's envelope, per-vehicle peaks (n_vehicles, 6) and numerical warnings."""
 
+    index: int
     envelope: MemberEnvelope
+    peaks: NDArray[np.float64]
     warnings: tuple[str, ...] = ()
+
+
+@dataclass(frozen=True, kw_only=True)
+class RunOptions:
+    """How to run: worker processes (None: all local cores), a Dask cluster, a store."""
+
+    jobs: int | None = 1
+    cluster: str | None = None
+    store: Path | None = None
+    key: str = ""  # identifies the input (and version) for the store
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -55,6 +98,9 @@ class RunResult:
     """Everything a run computed, in member order, with its timing.
 
     ``started`` is the UTC start time, ``seconds`` the wall-clock compute time.
+    ``peaks`` holds every member's per-vehicle peaks (members, vehicles, 6) when
+    they fit on one sheet, else None (they are in the store). ``resumed`` counts
+    the members taken from the store of an interrupted run.
     """
 
     case: Case
@@ -63,6 +109,10 @@ class RunResult:
     warnings: tuple[str, ...]
     started: datetime
     seconds: float
+    peaks: NDArray[np.float64] | None = None
+    workers: int = 1
+    resumed: int = 0
+    store: Path | None = None
 
     @property
     def n_members(self) -> int:
@@ -90,57 +140,173 @@ class RunResult:
         return sum(int(env.support_x.size) for env in self.envelopes)
 
 
-def _analyse(member: Member, cases: list[LoadCase], case: Case) -> MemberResult:
-    settings = case.settings
+def _vehicle_peaks(
+    effects: CaseEffects, cases: tuple[LoadCase, ...], n_vehicles: int
+) -> NDArray[np.float64]:
+    """Per vehicle, the extreme of each enveloped effect over its load cases and rows."""
+    il = effects.lines
+    starts = np.searchsorted([c.vehicle for c in cases], np.arange(n_vehicles))
+    out = np.zeros((n_vehicles, 6))
+    for col, (rows, sense) in enumerate(
+        (
+            (il.moment_rows, 1),
+            (il.moment_rows, -1),
+            (il.shear_rows, 1),
+            (il.shear_rows, -1),
+            (il.reaction_rows, 1),
+            (il.reaction_rows, -1),
+        )
+    ):
+        values = (effects.max_value if sense > 0 else effects.min_value)[:, rows]
+        per_case = values.max(axis=1) if sense > 0 else values.min(axis=1)
+        reduce = np.maximum if sense > 0 else np.minimum
+        out[:, col] = reduce.reduceat(per_case, starts) if len(cases) else 0.0
+    return out
+
+
+def analyse_member(
+    index: int, member: Member, cases: tuple[LoadCase, ...], settings: Settings, n_vehicles: int
+) -> MemberResult:
+    """Envelope and per-vehicle peaks of one member; :class:`RunError` if it cannot be done."""
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
         try:
-            env = member_envelope(member, cases, settings.stations_per_span, settings.directions)
+            effects = case_effects(member, cases, settings.stations_per_span, settings.directions)
         except ValueError as exc:  # includes UnstableMemberError
             raise RunError(member.id, str(exc)) from exc
+        env = envelope_of(member.id, effects, tuple(c.label for c in cases))
+        peaks = _vehicle_peaks(effects, cases, n_vehicles)
     for effect in EFFECTS:
         if not np.all(np.isfinite(effect.extremes(env).value)):
             raise RunError(member.id, f"{effect.name} is not a finite number")
     notes = tuple(
         dict.fromkeys(f"member {member.id!r}: numerical warning: {w.message}" for w in caught)
     )
-    return MemberResult(envelope=env, warnings=notes)
+    return MemberResult(index=index, envelope=env, peaks=peaks, warnings=notes)
 
 
-def member_results(
-    case: Case, cases: list[LoadCase], progress: ProgressFn | None = None
-) -> Iterator[MemberResult]:
-    """Yield each member's result in input order, calling ``progress`` after each.
+@dataclass(frozen=True)
+class _Chunk:
+    members: tuple[tuple[int, Member], ...]
+    cases: tuple[LoadCase, ...]
+    settings: Settings
+    n_vehicles: int
 
-    Raises :class:`RunError` for a member the engine cannot analyse.
+
+def _analyse_chunk(chunk: _Chunk) -> list[MemberResult]:
+    return [
+        analyse_member(i, m, chunk.cases, chunk.settings, chunk.n_vehicles)
+        for i, m in chunk.members
+    ]
+
+
+def _workers(options: RunOptions, pairs: int) -> int:
+    wanted = options.jobs if options.jobs is not None else (os.cpu_count() or 1)
+    return 1 if pairs < PARALLEL_MIN_PAIRS else max(1, wanted)
+
+
+def _local(chunks: list[_Chunk], workers: int) -> Iterator[list[MemberResult]]:
+    if workers <= 1:
+        for chunk in chunks:
+            yield _analyse_chunk(chunk)
+        return
+    # spawn: workers start clean (no copied locks or threads) and load the compiled kernel
+    # from numba's cache.
+    pool = ProcessPoolExecutor(workers, mp_context=multiprocessing.get_context("spawn"))
+    try:
+        pending: set[Future[list[MemberResult]]] = {pool.submit(_analyse_chunk, c) for c in chunks}
+        while pending:
+            done, pending = wait(pending, return_when=FIRST_COMPLETED)
+            for future in done:
+                yield future.result()
+    finally:
+        pool.shutdown(wait=True, cancel_futures=True)
+
+
+def _cluster(chunks: list[_Chunk], address: str) -> Iterator[list[MemberResult]]:
+    try:
+        from dask.distributed import Client, as_completed
+    except ImportError as exc:  # the optional extra is missing
+        raise RunError(
+            "(all)", "--cluster needs dask.distributed: pip install 'spanfleet[cluster]'"
+        ) from exc
+    with Client(address) as client:
+        futures = [client.submit(_analyse_chunk, c, pure=False) for c in chunks]
+        for future in as_completed(futures):
+            yield future.result()
+
+
+def run_case(
+    case: Case, progress: ProgressFn | None = None, options: RunOptions | None = None
+) -> RunResult:
+    """Envelopes and per-vehicle peaks of every member of ``case`` under its whole fleet.
+
+    Raises :class:`RunError` for a member the engine cannot analyse (validation
+    should have caught it).
     """
-    total = len(case.members)
-    for done, member in enumerate(case.members, start=1):
-        result = _analyse(member, cases, case)
-        if progress is not None:
-            progress(done, total, member.id)
-        yield result
-
-
-def run_case(case: Case, progress: ProgressFn | None = None) -> RunResult:
-    """Envelopes of every member of ``case`` under its whole fleet.
-
-    Serial, one member at a time. Raises :class:`RunError` for a member the
-    engine cannot analyse (validation should have caught it).
-    """
+    options = options or RunOptions()
     started = datetime.now(timezone.utc)
     clock = time.perf_counter()
-    cases = fleet_cases(case.vehicles, case.settings)
-    envelopes: list[MemberEnvelope] = []
-    notes: list[str] = []
-    for result in member_results(case, cases, progress):
-        envelopes.append(result.envelope)
-        notes.extend(result.warnings)
+    cases = tuple(fleet_cases(case.vehicles, case.settings))
+    n_members, n_vehicles = len(case.members), len(case.vehicles)
+    store = (
+        CheckpointStore(
+            options.store,
+            options.key,
+            tuple(c.label for c in cases),
+            tuple(v.id for v in case.vehicles),
+        )
+        if options.store is not None
+        else None
+    )
+    try:
+        envelopes: dict[int, MemberEnvelope] = {}
+        notes: dict[int, tuple[str, ...]] = {}
+        fits = n_members * n_vehicles <= SHEET_ROWS
+        peaks = np.zeros((n_members, n_vehicles, 6)) if fits else None
+        finished = store.finished() if store is not None else set()
+        todo = [(i, m) for i, m in enumerate(case.members) if i not in finished]
+        workers = 1 if options.cluster else _workers(options, len(todo) * len(cases))
+        size = max(1, min(64, math.ceil(len(todo) / (4 * max(workers, 1)))))
+        chunks = [
+            _Chunk(tuple(todo[k : k + size]), cases, case.settings, n_vehicles)
+            for k in range(0, len(todo), size)
+        ]
+        done = len(finished)
+        source = _cluster(chunks, options.cluster) if options.cluster else _local(chunks, workers)
+        for results in source:
+            for r in results:
+                envelopes[r.index] = r.envelope
+                notes[r.index] = r.warnings
+                if peaks is not None:
+                    peaks[r.index] = r.peaks
+                if store is not None:
+                    store.put(r.index, r.envelope, r.warnings, r.peaks)
+                done += 1
+                if progress is not None:
+                    progress(done, n_members, r.envelope.member)
+        if store is not None and finished:
+            for index, (env, warns) in zip(
+                sorted(finished), store.envelopes(sorted(finished)), strict=True
+            ):
+                envelopes[index] = env
+                notes[index] = warns
+            if peaks is not None:
+                for row in store.peak_rows():
+                    if row.member_index in finished:
+                        peaks[row.member_index, row.vehicle_index] = row.values
+    finally:
+        if store is not None:
+            store.close()
     return RunResult(
         case=case,
-        load_cases=tuple(cases),
-        envelopes=tuple(envelopes),
-        warnings=tuple(notes),
+        load_cases=cases,
+        envelopes=tuple(envelopes[i] for i in range(n_members)),
+        warnings=tuple(w for i in range(n_members) for w in notes[i]),
         started=started,
         seconds=time.perf_counter() - clock,
+        peaks=peaks,
+        workers=workers,
+        resumed=len(finished),
+        store=options.store,
     )

@@ -23,7 +23,14 @@ import batch.run
 from batch.cli import EXIT_INTERNAL, EXIT_OK, EXIT_PROBLEMS, EXIT_USAGE, main
 from batch.readers import read_input
 
-RESULT_SHEETS = {"Envelopes", "Reactions", "Governing", "Moment Charts", "Run Log"}
+RESULT_SHEETS = {
+    "Envelopes",
+    "Reactions",
+    "Governing",
+    "Vehicle Summary",
+    "Moment Charts",
+    "Run Log",
+}
 
 
 def load_workbook(path: Path, **kwargs):

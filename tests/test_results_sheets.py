@@ -100,7 +100,14 @@ def written(tmp_path: Path) -> tuple[Case, Path]:
 def test_sheets_and_headers_follow_the_contract(written: tuple[Case, Path]) -> None:
     _, path = written
     wb = load_workbook(path)
-    assert wb.sheetnames == ["Envelopes", "Reactions", "Governing", "Moment Charts", "Run Log"]
+    assert wb.sheetnames == [
+        "Envelopes",
+        "Reactions",
+        "Governing",
+        "Vehicle Summary",
+        "Moment Charts",
+        "Run Log",
+    ]
     env_header = [c.value for c in wb["Envelopes"][1]]
     # The contract's Envelopes columns, with US units in parentheses.
     expected = ["Member", "Span", "Station", "x (ft)"]
@@ -321,6 +328,7 @@ def test_run_log_records_the_run_and_the_cautions(written: tuple[Case, Path]) ->
         ("Envelopes 12", True),
         ("Run Log", True),
         ("Moment Charts", True),
+        ("Vehicle Summary", True),
         ("Governing", True),
         ("Reactions", True),
         ("Envelopes old", False),

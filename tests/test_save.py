@@ -177,7 +177,14 @@ def test_a_second_run_replaces_the_result_sheets(tmp_path: Path) -> None:
     _run_into(src, src)
     first = load_workbook(src).sheetnames
     opened = open_book(src.read_bytes(), src.name, keep_vba=False)
-    assert opened.replaced == ("Envelopes", "Reactions", "Governing", "Moment Charts", "Run Log")
+    assert opened.replaced == (
+        "Envelopes",
+        "Reactions",
+        "Governing",
+        "Vehicle Summary",
+        "Moment Charts",
+        "Run Log",
+    )
     assert opened.cannot_keep == ()  # our own chart sheet does not count
     _run_into(src, src)
     assert load_workbook(src).sheetnames == first

@@ -9,11 +9,12 @@ from __future__ import annotations
 
 from openpyxl.workbook.workbook import Workbook
 
-from batch.results import CHARTS_SHEET, RESULT_TABLES, RUN_LOG_SHEET
+from batch.results import CHARTS_SHEET, RESULT_TABLES, RUN_LOG_SHEET, VEHICLE_SUMMARY_SHEET
 from batch.run import RunResult
 from batch.writers.charts import write_moment_charts
 from batch.writers.runlog import InputInfo, write_run_log
 from batch.writers.sheets import MAX_DATA_ROWS, write_table
+from batch.writers.summary import write_vehicle_summary
 
 __all__ = ["InputInfo", "select_sheet", "write_results"]
 
@@ -52,6 +53,15 @@ def write_results(
                 f"({max_rows} below the header); they continue on "
                 f"{', '.join(written.sheets[1:])}. A member's rows are never split."
             )
+    if write_vehicle_summary(wb, result, units):
+        sheets.append(VEHICLE_SUMMARY_SHEET)
+    else:
+        remarks.append(
+            f"{VEHICLE_SUMMARY_SHEET}: {result.n_members * result.n_vehicles} member-vehicle "
+            "rows are more than one sheet holds; they are in the checkpoint store "
+            f"{result.store.name if result.store else '(none: the run used --no-store)'}, "
+            "view vehicle_summary."
+        )
     charted = write_moment_charts(wb, result.envelopes, units, settings.chart_members)
     if charted:
         sheets.append(CHARTS_SHEET)

@@ -115,6 +115,10 @@ def _rows(
     yield "Load cases", result.n_load_cases, _PLAIN
     yield "Stations (Envelopes rows)", result.n_stations, _PLAIN
     yield "Supports (Reactions rows)", result.n_supports, _PLAIN
+    yield "Worker processes", result.workers, _PLAIN
+    if result.store is not None:
+        yield "Checkpoint store", result.store.name, _PLAIN
+        yield "Members resumed from it", result.resumed, _PLAIN
     yield "Load cases run", None, _SECTION
     for lc in result.load_cases:
         vehicle = result.case.vehicles[lc.vehicle].id

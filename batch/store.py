@@ -1,0 +1,181 @@
+"""The checkpoint store: finished members of a run, kept in SQLite beside the workbook.
+
+A long run writes each finished member here as soon as it is done, so a run that
+is interrupted (Ctrl-C, killed, power lost) and started again with the same
+command and the same input carries on from where it stopped. The store is keyed
+by a digest of the validated input and the program version: any change to the
+input (or a new version of spanfleet) empties it.
+
+It also keeps the per-vehicle summary of every member — for each member and
+vehicle, the extreme M max, M min, V max, V min, R max and R min over all
+stations and supports — which can be far larger than a sheet holds. Engineers
+may query it with any SQLite client, e.g.::
+
+    SELECT member, vehicle, m_max FROM vehicle_summary
+    WHERE member = 'KV-0412 G1' ORDER BY m_max DESC;
+
+Values are in the run's units with the contract's sign conventions (sagging
+moment positive, V = sum of the upward forces left of the section, reactions
+upward). Envelopes are stored as numpy ``.npz`` blobs written and read with
+``allow_pickle=False``, so a store file from elsewhere cannot run code.
+"""
+
+from __future__ import annotations
+
+import io
+import json
+import sqlite3
+from collections.abc import Iterable, Iterator
+from dataclasses import dataclass
+from pathlib import Path
+
+import numpy as np
+from numpy.typing import NDArray
+
+from batch.engine import Extremes, MemberEnvelope
+
+__all__ = ["PEAK_COLUMNS", "CheckpointStore", "PeakRow", "store_path_for"]
+
+#: Columns of the per-vehicle summary, in order (see the module docstring).
+PEAK_COLUMNS: tuple[str, ...] = ("m_max", "m_min", "v_max", "v_min", "r_max", "r_min")
+
+_EXTREMES = ("m_max", "m_min", "v_max", "v_min", "r_max", "r_min")
+_LAYOUT = ("station_span", "station_fraction", "station_x", "support_x")
+
+_SCHEMA = """
+CREATE TABLE IF NOT EXISTS meta (key TEXT PRIMARY KEY, value TEXT NOT NULL);
+CREATE TABLE IF NOT EXISTS members (
+    idx INTEGER PRIMARY KEY, member TEXT NOT NULL, envelope BLOB NOT NULL, warnings TEXT NOT NULL
+);
+CREATE TABLE IF NOT EXISTS vehicle_peaks (
+    member_idx INTEGER NOT NULL, vehicle_idx INTEGER NOT NULL,
+    m_max REAL, m_min REAL, v_max REAL, v_min REAL, r_max REAL, r_min REAL,
+    PRIMARY KEY (member_idx, vehicle_idx)
+);
+CREATE TABLE IF NOT EXISTS vehicles (idx INTEGER PRIMARY KEY, vehicle TEXT NOT NULL);
+CREATE VIEW IF NOT EXISTS vehicle_summary AS
+    SELECT m.member AS member, v.vehicle AS vehicle, p.m_max, p.m_min, p.v_max, p.v_min,
+           p.r_max, p.r_min
+    FROM vehicle_peaks p JOIN members m ON m.idx = p.member_idx
+    JOIN vehicles v ON v.idx = p.vehicle_idx;
+"""
+
+
+@dataclass(frozen=True, kw_only=True)
+class PeakRow:
+    """One member's peaks under one vehicle, in the order of :data:`PEAK_COLUMNS`."""
+
+    member_index: int
+    vehicle_index: int
+    member: str
+    vehicle: str
+    values: tuple[float, ...]
+
+
+def store_path_for(target: Path) -> Path:
+    """Where the store of a run that writes ``target`` lives: beside it, same stem."""
+    return target.with_name(f"{target.stem}.spanfleet.sqlite")
+
+
+def _pack(env: MemberEnvelope) -> bytes:
+    arrays: dict[str, NDArray[np.generic]] = {name: getattr(env, name) for name in _LAYOUT}
+    for name in _EXTREMES:
+        ext: Extremes = getattr(env, name)
+        for field in ("value", "case", "position", "direction"):
+            arrays[f"{name}.{field}"] = getattr(ext, field)
+    buf = io.BytesIO()
+    np.savez(buf, allow_pickle=False, **arrays)
+    return buf.getvalue()
+
+
+def _unpack(member: str, blob: bytes, labels: tuple[str, ...]) -> MemberEnvelope:
+    with np.load(io.BytesIO(blob), allow_pickle=False) as data:
+        parts = {name: data[name] for name in _LAYOUT}
+        for name in _EXTREMES:
+            parts[name] = Extremes(
+                value=data[f"{name}.value"],
+                case=data[f"{name}.case"],
+                position=data[f"{name}.position"],
+                direction=data[f"{name}.direction"],
+            )
+    return MemberEnvelope(member=member, labels=labels, **parts)
+
+
+class CheckpointStore:
+    """Finished members of one run, by member index (see the module docstring).
+
+    ``key`` identifies the run (input digest and version); opening a store whose
+    key differs empties it. ``labels`` are the run's load-case labels, which the
+    envelopes' case indices refer to; ``vehicles`` the fleet's ids.
+    """
+
+    def __init__(
+        self, path: Path, key: str, labels: tuple[str, ...], vehicles: tuple[str, ...]
+    ) -> None:
+        self.path = path
+        self.labels = labels
+        self._db = sqlite3.connect(path, timeout=30.0)
+        self._db.execute("PRAGMA journal_mode=WAL")
+        self._db.executescript(_SCHEMA)
+        row = self._db.execute("SELECT value FROM meta WHERE key = 'run'").fetchone()
+        self.resumed = row is not None and row[0] == key
+        if not self.resumed:
+            with self._db:
+                for table in ("members", "vehicle_peaks", "vehicles", "meta"):
+                    self._db.execute(f"DELETE FROM {table}")  # fixed table names
+                self._db.execute("INSERT INTO meta VALUES ('run', ?)", (key,))
+                self._db.execute("INSERT INTO meta VALUES ('labels', ?)", (json.dumps(labels),))
+                self._db.executemany(
+                    "INSERT INTO vehicles VALUES (?, ?)", list(enumerate(vehicles))
+                )
+
+    def finished(self) -> set[int]:
+        """Indices of the members already stored."""
+        return {idx for (idx,) in self._db.execute("SELECT idx FROM members")}
+
+    def put(
+        self,
+        index: int,
+        envelope: MemberEnvelope,
+        warnings: tuple[str, ...],
+        peaks: NDArray[np.float64],
+    ) -> None:
+        """Store one finished member, with its per-vehicle peaks (n_vehicles, 6), atomically."""
+        with self._db:
+            self._db.execute(
+                "INSERT OR REPLACE INTO members VALUES (?, ?, ?, ?)",
+                (index, envelope.member, _pack(envelope), json.dumps(warnings)),
+            )
+            self._db.executemany(
+                "INSERT OR REPLACE INTO vehicle_peaks VALUES (?, ?, ?, ?, ?, ?, ?, ?)",
+                [(index, v, *map(float, row)) for v, row in enumerate(peaks)],
+            )
+
+    def envelopes(self, indices: Iterable[int]) -> Iterator[tuple[MemberEnvelope, tuple[str, ...]]]:
+        """The stored envelopes and warnings of ``indices``, in that order."""
+        for index in indices:
+            member, blob, warnings = self._db.execute(
+                "SELECT member, envelope, warnings FROM members WHERE idx = ?", (index,)
+            ).fetchone()
+            yield _unpack(member, blob, self.labels), tuple(json.loads(warnings))
+
+    def peak_rows(self) -> Iterator[PeakRow]:
+        """Every stored per-vehicle summary row, members and vehicles in input order."""
+        query = (
+            "SELECT p.member_idx, p.vehicle_idx, m.member, v.vehicle, "
+            "p.m_max, p.m_min, p.v_max, p.v_min, p.r_max, p.r_min "
+            "FROM vehicle_peaks p JOIN members m ON m.idx = p.member_idx "
+            "JOIN vehicles v ON v.idx = p.vehicle_idx ORDER BY p.member_idx, p.vehicle_idx"
+        )
+        for mi, vi, member, vehicle, *values in self._db.execute(query):
+            yield PeakRow(
+                member_index=mi,
+                vehicle_index=vi,
+                member=member,
+                vehicle=vehicle,
+                values=tuple(values),
+            )
+
+    def close(self) -> None:
+        """Close the database (the file stays for resuming and for queries)."""
+        self._db.close()
