@@ -76,8 +76,10 @@ def _group_candidates(
     pos: np.ndarray,
     val: np.ndarray,
     event_q: np.ndarray,
-    event_id: np.ndarray,
+    event_break: np.ndarray,
+    event_load: np.ndarray,
     roots: np.ndarray,
+    heads: np.ndarray,
 ) -> int:
     """Fill pos/val with every candidate of one rigid group; returns the count.
 
@@ -88,25 +90,31 @@ def _group_candidates(
     changes: its old piece's expansion about its right end is removed and its
     new piece's expansion about its left end is added. The shifted cubic's
     value at an event is the limit from the left; after the crossings, the
-    limit from the right. ``event_q``, ``event_id`` (n*K) and ``roots`` (2)
-    are scratch.
+    limit from the right. ``event_q``, ``event_break``, ``event_load`` (n*K), ``roots`` (2) and
+    ``heads`` (n) are scratch. ``offs`` must be monotone (a train's offsets are).
     """
     k_axles = loads.size
     total = n * k_axles
+    # Events come as n lists (one per break) already sorted by axle, because the
+    # offsets are monotone: an n-way merge sorts them in O(n * total).
+    ascending = offs[0] <= offs[k_axles - 1]
     for i in range(n):
-        for k in range(k_axles):
-            event_q[i * k_axles + k] = b[i] + offs[k]
-            event_id[i * k_axles + k] = i * k_axles + k
-    for i in range(1, total):  # insertion sort by position: the lists are short
-        vq = event_q[i]
-        vid = event_id[i]
-        h = i - 1
-        while h >= 0 and event_q[h] > vq:
-            event_q[h + 1] = event_q[h]
-            event_id[h + 1] = event_id[h]
-            h -= 1
-        event_q[h + 1] = vq
-        event_id[h + 1] = vid
+        heads[i] = 0
+    for t in range(total):
+        pick = -1
+        best = np.inf
+        for i in range(n):
+            j = heads[i]
+            if j < k_axles:
+                q = b[i] + offs[j if ascending else k_axles - 1 - j]
+                if q < best:
+                    best = q
+                    pick = i
+        j = heads[pick]
+        heads[pick] = j + 1
+        event_q[t] = best
+        event_break[t] = pick
+        event_load[t] = loads[j if ascending else k_axles - 1 - j]
     a0 = 0.0
     a1 = 0.0
     a2 = 0.0
@@ -123,8 +131,8 @@ def _group_candidates(
         pos[count] = qg
         val[count] = a0  # limit from the left
         while idx < total and event_q[idx] - qg <= tol:
-            brk = event_id[idx] // k_axles
-            p = loads[event_id[idx] % k_axles]
+            brk = event_break[idx]
+            p = event_load[idx]
             if brk >= 1:  # the axle leaves piece brk - 1 at its right end
                 a0 -= p * ends[brk - 1, 0]
                 a1 -= p * ends[brk - 1, 1]
@@ -188,8 +196,10 @@ def chain_extremes(
     choice = np.zeros((max(n_gaps, 1), max_c), dtype=np.int64)
     window = np.empty(max_c, dtype=np.int64)
     event_q = np.empty(width * loads.size)
-    event_id = np.empty(width * loads.size, dtype=np.int64)
+    event_break = np.empty(width * loads.size, dtype=np.int64)
+    event_load = np.empty(width * loads.size)
     root_scratch = np.empty(2)
+    heads = np.empty(width, dtype=np.int64)
     signed = sigma * offsets
     ends = _piece_ends(breaks, counts, coef)
     out_v = np.empty((2, n_eff))
@@ -209,8 +219,10 @@ def chain_extremes(
                 pos[g],
                 val[g],
                 event_q,
-                event_id,
+                event_break,
+                event_load,
                 root_scratch,
+                heads,
             )
         for sense_i in range(2):
             sense = 1.0 if sense_i == 0 else -1.0
@@ -296,8 +308,10 @@ def fleet_extremes(
     pos = np.empty(4 * width * k_max + 2)
     val = np.empty(4 * width * k_max + 2)
     event_q = np.empty(width * k_max)
-    event_id = np.empty(width * k_max, dtype=np.int64)
+    event_break = np.empty(width * k_max, dtype=np.int64)
+    event_load = np.empty(width * k_max)
     root_scratch = np.empty(2)
+    heads = np.empty(width, dtype=np.int64)
     ends = _piece_ends(breaks, counts, coef)
     max_v = np.zeros((n_cases, n_eff))
     max_p = np.full((n_cases, n_eff), np.nan)
@@ -321,8 +335,10 @@ def fleet_extremes(
                     pos,
                     val,
                     event_q,
-                    event_id,
+                    event_break,
+                    event_load,
                     root_scratch,
+                    heads,
                 )
                 for c in range(count):
                     v = val[c]
