@@ -38,6 +38,13 @@ def _piece_ends(breaks: np.ndarray, counts: np.ndarray, coef: np.ndarray) -> np.
 @nb.njit(cache=True)
 def _quad_roots(a0: float, a1: float, a2: float, h: float, out: np.ndarray) -> int:
     """Roots of a0 + a1 t + a2 t^2 strictly inside (0, h); returns how many were written."""
+    # Most intervals hold no root: the ends have one sign and the vertex lies outside.
+    end = a0 + h * (a1 + h * a2)
+    if a0 * end > 0.0:
+        twice = 2.0 * a2 * h
+        vertex_inside = (0.0 < -a1 < twice) if a2 > 0.0 else (twice < -a1 < 0.0)
+        if not vertex_inside:
+            return 0
     scale = abs(a0) + abs(a1) * h + abs(a2) * h * h
     count = 0
     if abs(a2) * h * h > 1e-14 * scale:
