@@ -155,6 +155,24 @@ def _partitions(il: InfluenceLines, drop_adverse_axles: bool) -> tuple[Partition
     return il.clipped if drop_adverse_axles else (il.reduced, il.reduced)
 
 
+def _chain(
+    parts: tuple[Partition, Partition],
+    loads: NDArray[np.float64],
+    combo: _Combo,
+    gaps: tuple[NDArray[np.float64], NDArray[np.float64]],
+    sigma: int,
+    tol: float,
+) -> tuple[tuple[NDArray[np.float64], ...], tuple[NDArray[np.float64], ...]]:
+    """(value, position, distances) of the maximum and of the minimum of one combination.
+
+    One compiled call gives both when the two partitions are the same.
+    """
+    args = (loads, combo.offsets, combo.group_start, gaps[0], gaps[1], float(sigma), tol)
+    high = chain_extremes(*parts[0], *args)
+    low = high if parts[1] is parts[0] else chain_extremes(*parts[1], *args)
+    return high[0:3], low[3:6]
+
+
 def axle_extremes(
     il: InfluenceLines,
     loads: NDArray[np.float64] | list[float] | tuple[float, ...],
@@ -178,7 +196,7 @@ def axle_extremes(
     p = np.ascontiguousarray(loads, dtype=float).reshape(-1)
     _check(p, directions)
     lo, hi = _spacings(il, p.size, spacing_low, spacing_high)
-    high_part, low_part = _partitions(il, drop_adverse_axles)
+    parts = _partitions(il, drop_adverse_axles)
     tol = POSITION_TOL * il.length
     n_eff = il.n_effects
     best = {
@@ -192,12 +210,8 @@ def axle_extremes(
     }
     for sigma in directions:
         for combo in _combos(lo, hi):
-            gap_lo, gap_hi = combo.gap_bounds(lo, hi)
-            for sense, part in ((1.0, high_part), (-1.0, low_part)):
-                result = chain_extremes(
-                    *part, p, combo.offsets, combo.group_start, gap_lo, gap_hi, float(sigma), tol
-                )
-                total, pos, dist = result[0:3] if sense > 0 else result[3:6]
+            both = _chain(parts, p, combo, combo.gap_bounds(lo, hi), sigma, tol)
+            for sense, (total, pos, dist) in zip((1.0, -1.0), both, strict=True):
                 value, position, direction, spacing = best[sense]
                 better = sense * total > sense * value
                 used = np.tile(combo.spacing, (n_eff, 1))
@@ -291,20 +305,9 @@ def fleet_extremes_of(
             if not combo.free:
                 rigid[t.drop_adverse_axles].append((row, p, combo.offsets))
                 continue
-            gap_lo, gap_hi = combo.gap_bounds(lo, hi)
             for sigma in directions:
-                for sense, part in ((1.0, parts[0]), (-1.0, parts[1])):
-                    result = chain_extremes(
-                        *part,
-                        p,
-                        combo.offsets,
-                        combo.group_start,
-                        gap_lo,
-                        gap_hi,
-                        float(sigma),
-                        tol,
-                    )
-                    value, pos = result[0:2] if sense > 0 else result[3:5]
+                both = _chain(parts, p, combo, combo.gap_bounds(lo, hi), sigma, tol)
+                for sense, (value, pos, _) in zip((1.0, -1.0), both, strict=True):
                     out.absorb(row, sense, value, pos, np.full(n_eff, sigma, np.int8))
     sigmas = np.array(directions, dtype=float)
     for drop, jobs in rigid.items():
