@@ -273,6 +273,26 @@ def test_content_openpyxl_cannot_keep_is_named(tmp_path: Path) -> None:
     assert "images in the workbook" in opened.cannot_keep
 
 
+@pytest.mark.parametrize(
+    ("part", "what"),
+    [
+        # Part names from ECMA-376 Part 1 (connections, query tables) and Excel's own
+        # extensions (data model, rich values), from memory; openpyxl writes none of them.
+        ("xl/connections.xml", "data connections"),
+        ("xl/queryTables/queryTable1.xml", "query tables"),
+        ("xl/model/item.data", "a data model"),
+        ("xl/richData/rdrichvalue.xml", "linked data types"),
+    ],
+)
+def test_external_data_and_rich_values_are_named(tmp_path: Path, part: str, what: str) -> None:
+    src = _engineer_workbook(tmp_path / "book.xlsx")
+    buffer = io.BytesIO(src.read_bytes())
+    with zipfile.ZipFile(buffer, "a") as zf:
+        zf.writestr(part, b"<kept-by-the-engineer/>")
+    opened = open_book(buffer.getvalue(), src.name, keep_vba=False)
+    assert [c for c in opened.cannot_keep if c.startswith(what)] != [], opened.cannot_keep
+
+
 def test_a_foreign_sheet_with_a_result_name_is_never_removed(tmp_path: Path) -> None:
     wb = Workbook()
     wb.active.title = "Members"
