@@ -38,6 +38,14 @@ class Settings:
 
     ``impact`` is the dynamic load allowance IM as a fraction (0.33 = 33 %),
     applied to axle loads only, never to lane loads.
+
+    Rating (see :mod:`batch.rating`): ``dc_factor`` and ``dw_factor`` are the
+    dead-load factors, ``dc_factor_relieving`` and ``dw_factor_relieving`` the
+    ones used where a dead load relieves the rated effect; ``ll_factor_*`` the
+    live-load factors by vehicle category (design: inventory and operating).
+    Screening: ``reference_vehicle`` names a Vehicles row or a library model
+    ("" for none); ``screening_floor`` is the share of the reference's largest
+    effect below which an effect is not compared.
     """
 
     units: UnitSystem = "US"
@@ -45,6 +53,16 @@ class Settings:
     stations_per_span: int = 10
     impact: float = 0.33
     chart_members: int = 50
+    dc_factor: float = 1.25
+    dw_factor: float = 1.5
+    dc_factor_relieving: float = 0.9
+    dw_factor_relieving: float = 0.65
+    ll_factor_design: float = 1.75
+    ll_factor_operating: float = 1.35
+    ll_factor_legal: float = 1.45
+    ll_factor_permit: float = 1.3
+    reference_vehicle: str = ""
+    screening_floor: float = 0.1
 
     @property
     def unit_labels(self) -> dict[str, str]:
@@ -125,9 +143,36 @@ class Vehicle:
 
 
 @dataclass(frozen=True, kw_only=True)
+class Capacity:
+    """One row of the Capacities sheet: a station of a member to be rated.
+
+    ``span`` counts from 1 at the member's left end; ``station`` is the
+    fraction of that span (one of the stations 0, 1/n, ..., 1). Resistances
+    are factored resistances phi*Rn (moment unit for ``resistance_m_pos``
+    sagging and ``resistance_m_neg`` hogging, a positive magnitude; force unit
+    for ``resistance_v``), ``None`` where that effect is not rated. The dead-load
+    effects ``dc_m``, ``dw_m`` (sagging positive) and ``dc_v``, ``dw_v`` (V = sum
+    of the upward forces left of the section, the section as in Envelopes) are
+    ``None`` where they are to be computed from the member's uniform dead loads.
+    """
+
+    member: str
+    span: int
+    station: float
+    resistance_m_pos: float | None = None
+    resistance_m_neg: float | None = None
+    resistance_v: float | None = None
+    dc_m: float | None = None
+    dw_m: float | None = None
+    dc_v: float | None = None
+    dw_v: float | None = None
+
+
+@dataclass(frozen=True, kw_only=True)
 class Case:
-    """A whole validated input: settings, the inventory and the fleet."""
+    """A whole validated input: settings, the inventory, the fleet and any capacities."""
 
     settings: Settings = field(default_factory=Settings)
     members: tuple[Member, ...] = ()
     vehicles: tuple[Vehicle, ...] = ()
+    capacities: tuple[Capacity, ...] = ()
