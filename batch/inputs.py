@@ -72,6 +72,11 @@ def header_key(text: object) -> str:
     return re.sub(r"\s+", " ", s).strip().lower()
 
 
+# Rating settings: the published values quoted in their meanings are those of the MBE
+# (AASHTO Manual for Bridge Evaluation, 2nd ed. 2011 onward) and of AASHTO LRFD Table
+# 3.4.1-2 for the relieving (minimum) dead-load factors, all from memory (published-facts
+# 2.1, tagged [M]); batch/rating.py keeps the same values beside the checks that use them.
+
 #: Member id used by the example rows of Members and Capacities (they must agree).
 _EXAMPLE_MEMBER = "KV-0412 G1"
 
@@ -112,6 +117,95 @@ SETTING_ROWS: tuple[SettingRow, ...] = (
         kind="number",
         default=50,
         meaning="How many members get a moment-envelope chart (the first n).",
+    ),
+    SettingRow(
+        name="DC factor",
+        key="dc_factor",
+        kind="number",
+        default=1.25,
+        meaning="Rating: load factor on component dead load DC, Strength I (MBE Table "
+        "6A.4.2.2-1: 1.25). Allowed 1.0 to 2.5.",
+    ),
+    SettingRow(
+        name="DW factor",
+        key="dw_factor",
+        kind="number",
+        default=1.5,
+        meaning="Rating: load factor on wearing-surface dead load DW, Strength I (MBE: 1.50; "
+        "1.25 where the overlay thickness is measured in the field). Allowed 1.0 to 2.5.",
+    ),
+    SettingRow(
+        name="DC factor relieving",
+        key="dc_factor_relieving",
+        kind="number",
+        default=0.9,
+        meaning="Rating: factor on DC where the dead load relieves the rated effect (opposite "
+        "sign), so that relief is not overstated (LRFD Table 3.4.1-2 minimum: 0.90). "
+        "Allowed 0 to 1.",
+    ),
+    SettingRow(
+        name="DW factor relieving",
+        key="dw_factor_relieving",
+        kind="number",
+        default=0.65,
+        meaning="Rating: factor on DW where it relieves the rated effect (LRFD Table 3.4.1-2 "
+        "minimum: 0.65). Allowed 0 to 1.",
+    ),
+    SettingRow(
+        name="LL factor design",
+        key="ll_factor_design",
+        kind="number",
+        default=1.75,
+        meaning="Rating: live-load factor for design loads at the inventory level (MBE Table "
+        "6A.4.2.2-1: 1.75). Allowed 1.0 to 2.5.",
+    ),
+    SettingRow(
+        name="LL factor design operating",
+        key="ll_factor_operating",
+        kind="number",
+        default=1.35,
+        meaning="Rating: live-load factor for design loads at the operating level (MBE: 1.35). "
+        "Design loads report both levels. Allowed 1.0 to 2.5.",
+    ),
+    SettingRow(
+        name="LL factor legal",
+        key="ll_factor_legal",
+        kind="number",
+        default=1.45,
+        meaning="Rating: live-load factor for legal loads, routine commercial traffic. 1.45 is "
+        "the MBE value for ADTT >= 5000 (Table 6A.4.4.2.3a-1), the highest of that table and "
+        "the conservative choice when the ADTT is not known; 1.30 for ADTT <= 1000, "
+        "interpolate between. "
+        "Allowed 1.0 to 2.5.",
+    ),
+    SettingRow(
+        name="LL factor permit",
+        key="ll_factor_permit",
+        kind="number",
+        default=1.3,
+        meaning="Rating: live-load factor for permit loads. 1.30 is the MBE value for routine "
+        "(annual) permits mixed with traffic, ADTT > 5000, with the multi-lane distribution "
+        "factor (MBE 6A.4.5.4.2; 1.20 at ADTT 1000, 1.10 below 100). Single-trip permits "
+        "take other values and a one-lane distribution factor. Allowed 1.0 to 2.5.",
+    ),
+    SettingRow(
+        name="Reference vehicle",
+        key="reference_vehicle",
+        kind="text",
+        default="",
+        meaning="Screening: a Vehicles row id or a built-in load model (e.g. HL-93), such as "
+        "the load the members were designed for. When given, every vehicle's effects are "
+        "compared with this one's (Screening sheet). Blank: no screening.",
+    ),
+    SettingRow(
+        name="Screening floor",
+        key="screening_floor",
+        kind="number",
+        default=0.1,
+        meaning="Screening compares effects only where the reference's effect is at least this "
+        "fraction of its largest effect of the same kind on the member (0.1 = 10 %), so that "
+        "near-zero effects do not give meaningless ratios. spanfleet's choice, not a published "
+        "value; 0 compares wherever the reference gives any effect.",
     ),
 )
 

@@ -132,12 +132,15 @@ def _put(cell: Cell, value: CellValue) -> None:
 
 
 def case_rows(case: Case) -> dict[str, list[dict[str, CellValue]]]:
-    """The Members and Vehicles rows of a model case, keyed by the declared column keys.
+    """The Members, Vehicles and (when it has any) Capacities rows of a model case.
 
-    Empty values (no hinges, no library, ...) become blank cells; every other
-    value is written, defaults included, so the sheet shows what was used.
+    Rows are keyed by the declared column keys. Empty values (no hinges, no
+    library, a blank resistance, ...) become blank cells; every other value is
+    written, defaults included, so the sheet shows what was used.
     """
-    objects = {"Members": case.members, "Vehicles": case.vehicles}
+    objects: dict[str, tuple[object, ...]] = {"Members": case.members, "Vehicles": case.vehicles}
+    if case.capacities:
+        objects["Capacities"] = case.capacities
     sheets = {sheet.name: sheet for sheet in INPUT_SHEETS}
     return {
         name: [
@@ -236,7 +239,8 @@ def _guide_lines(units: UnitSystem) -> list[tuple[str, Font | None]]:
             "Fill in the sheets of this workbook, then run  spanfleet check BOOK.xlsx  to see "
             "every input problem at once, and  spanfleet run BOOK.xlsx  to compute the "
             "live-load envelopes. Results come back into this workbook as new sheets "
-            "(Envelopes, Reactions, Governing, Run Log); your own sheets are kept.",
+            "(Envelopes, Reactions, Governing, Run Log, and the rating and screening sheets "
+            "when asked for); your own sheets are kept.",
             plain,
         ),
         ("", plain),
@@ -268,8 +272,10 @@ def _guide_lines(units: UnitSystem) -> list[tuple[str, Font | None]]:
             plain,
         ),
         (
-            "5. Capacities is optional: delete its example row, or the whole sheet, when you "
-            "want envelopes only.",
+            "5. Capacities is optional: every station listed there is rated against every "
+            "vehicle (Ratings and Rating Matrix sheets). Delete its example row, or the whole "
+            "sheet, when you want envelopes only. Without capacities, a Reference vehicle in "
+            "Settings compares every vehicle with that load (Screening sheets).",
             plain,
         ),
         (
@@ -383,7 +389,7 @@ def write_template(path: Path, *, overwrite: bool = False) -> None:
 
 
 def case_workbook(case: Case) -> Workbook:
-    """A model case as a filled input workbook (guide, Settings, Members, Vehicles)."""
+    """A model case as a filled input workbook (guide, Settings, Members, Vehicles, Capacities)."""
     settings = {row.key: _cell_value(getattr(case.settings, row.key)) for row in SETTING_ROWS}
     return input_workbook(units=case.settings.units, settings=settings, rows=case_rows(case))
 

@@ -275,11 +275,12 @@ def test_unknown_columns_are_ignored_with_a_warning(make_workbook, tmp_path):
     assert report.case.members[0].hinges == ()
 
 
-def test_a_capacities_sheet_is_not_read_yet(make_workbook, tmp_path):
+def test_a_capacities_sheet_with_headers_only_rates_nothing(make_workbook, tmp_path):
     path = make_workbook(tmp_path, extra={"Capacities": [["Member", "Span", "Station"]]})
     report = read_input(path)
     assert report.ok
-    assert [(p.sheet, p.code) for p in report.warnings] == [("Capacities", "rating-not-available")]
+    assert report.warnings == ()
+    assert report.case is not None and report.case.capacities == ()
 
 
 def test_xlsm_reads_like_xlsx(make_workbook, tmp_path):

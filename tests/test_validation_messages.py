@@ -10,6 +10,12 @@ Sources, by rule:
 * dynamic load allowance above 75 %: AASHTO LRFD Table 3.6.2.1-1, whose largest
   value is 75 % for deck joints (published-facts.md, [F S3]);
 * condition × system factor of at least 0.85: MBE 6A.4.2.1 (from memory);
+* condition and system factors of at least 0.85 each (the lowest of the MBE's
+  tables, from memory), rating load factors from 1.0 to 2.5 with a warning away
+  from the published values (MBE Table 6A.4.2.2-1 and the legal and permit
+  tables, from memory; published-facts 2.1);
+* Capacities rows: the workbook contract ("Capacities": member, span and
+  station as in Envelopes; resistances; a blank resistance is not rated);
 * JSON: RFC 8259 (no NaN or Infinity; object names should be unique) and RFC
   6901 (JSON pointers).
 """
@@ -27,6 +33,8 @@ from batch.readers import read_input
 from batch.validation.problems import JSON_SHEET, Problem
 
 M = {"Member": "KV-0101 G1", "Spans": 60}
+MC = M | {"DC load": 1.1}  # a member with a dead load, as rating needs
+CAP = ["Member", "Span", "Station", "Resistance M+"]
 V = {"Vehicle": "KV-T3", "Axle loads": "10, 30, 30", "Axle spacings": "14, 16"}
 E, W = "error", "warning"
 
@@ -84,9 +92,106 @@ WORKBOOK_CASES = [
         [("Vehicles", "D1", "unknown-column", W)],
     ),
     (
-        "capacities-present",
+        "capacities-headers-only",
         {"extra": {"Capacities": _sheet(["Member", "Span", "Station"])}},
-        [("Capacities", "", "rating-not-available", W)],
+        [],
+    ),
+    (
+        "capacities-without-station-header",
+        {
+            "members": [MC],
+            "extra": {"Capacities": _sheet(CAP[:2] + CAP[3:], ["KV-0101 G1", 1, 900])},
+        },
+        [("Capacities", "", "missing-header", E)],
+    ),
+    # capacities
+    (
+        "capacity-unknown-member",
+        {"members": [MC], "extra": {"Capacities": _sheet(CAP, ["KV-9999", 1, 0.5, 900])}},
+        [("Capacities", "A2", "unknown-member", E)],
+    ),
+    (
+        "capacity-span-2-of-1",
+        {"members": [MC], "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 2, 0.5, 900])}},
+        [("Capacities", "B2", "span-not-on-member", E)],
+    ),
+    (
+        "capacity-span-zero",
+        {"members": [MC], "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 0, 0.5, 900])}},
+        [("Capacities", "B2", "too-small", E)],
+    ),
+    (
+        "capacity-span-fraction",
+        {"members": [MC], "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1.5, 0.5, 900])}},
+        [("Capacities", "B2", "not-a-whole-number", E)],
+    ),
+    (
+        "capacity-station-off-grid",
+        {"members": [MC], "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1, 0.45, 900])}},
+        [("Capacities", "C2", "station-not-on-grid", E)],
+    ),
+    (
+        "capacity-station-on-a-finer-grid",
+        {
+            "settings": {"Stations per span": 20},
+            "members": [MC],
+            "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1, 0.45, 900])},
+        },
+        [],
+    ),
+    (
+        "capacity-station-within-tolerance",
+        {"members": [MC], "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1, 0.3000004, 900])}},
+        [],
+    ),
+    (
+        "capacity-station-above-1",
+        {"members": [MC], "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1, 1.2, 900])}},
+        [("Capacities", "C2", "too-large", E)],
+    ),
+    (
+        "capacity-negative-resistance",
+        {"members": [MC], "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1, 0.5, -900])}},
+        [("Capacities", "D2", "too-small", E)],
+    ),
+    (
+        "capacity-no-resistance",
+        {"members": [MC], "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1, 0.5, None])}},
+        [("Capacities", "D2", "no-resistance", E)],
+    ),
+    (
+        "capacity-twice",
+        {
+            "members": [MC],
+            "extra": {
+                "Capacities": _sheet(
+                    CAP, ["KV-0101 G1", 1, 0.5, 900], [" kv-0101 g1", 1, 0.5000001, 950]
+                )
+            },
+        },
+        [("Capacities", "A3", "duplicate-capacity", E)],
+    ),
+    (
+        "capacity-without-dead-load",
+        {"extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1, 0.5, 900])}},
+        [("Capacities", "A2", "no-dead-load", W)],
+    ),
+    (
+        "capacity-dead-load-given-on-the-row",
+        {
+            "extra": {
+                "Capacities": _sheet([*CAP, "DC M", "DC V"], ["KV-0101 G1", 1, 0.5, 900, 410, 0])
+            }
+        },
+        [],
+    ),
+    (
+        "capacity-dead-load-text",
+        {
+            "members": [MC],
+            "extra": {"Capacities": _sheet([*CAP, "DC M"], ["KV-0101 G1", 1, 0.5, 900, "lots"])},
+        },
+        [("Capacities", "E2", "not-a-number", E)],
     ),
     # settings
     (
@@ -135,6 +240,35 @@ WORKBOOK_CASES = [
         "impact-above-lrfd-largest",
         {"settings": {"Dynamic load allowance": 0.8}},
         [("Settings", "B2", "implausible-value", W)],
+    ),
+    ("dc-factor-below-1", {"settings": {"DC factor": 0.9}}, [("Settings", "B2", "too-small", E)]),
+    (
+        "ll-factor-legal-3",
+        {"settings": {"LL factor legal": 3}},
+        [("Settings", "B2", "too-large", E)],
+    ),
+    (
+        "ll-factor-design-1.6",
+        {"settings": {"LL factor design": 1.6}},
+        [("Settings", "B2", "unpublished-factor", W)],
+    ),
+    ("dw-factor-field-measured", {"settings": {"DW factor": 1.25}}, []),
+    (
+        "relieving-factor-above-1",
+        {"settings": {"DC factor relieving": 1.1}},
+        [("Settings", "B2", "too-large", E)],
+    ),
+    (
+        "reference-unknown",
+        {"settings": {"Reference vehicle": "KV-T9"}},
+        [("Settings", "B2", "unknown-reference", E)],
+    ),
+    ("reference-in-the-fleet", {"settings": {"Reference vehicle": " kv-t3"}}, []),
+    ("reference-in-the-library", {"settings": {"Reference vehicle": "hl93"}}, []),
+    (
+        "screening-floor-1",
+        {"settings": {"Screening floor": 1}},
+        [("Settings", "B2", "too-large", E)],
     ),
     (
         "chart-members-negative",
@@ -228,6 +362,16 @@ WORKBOOK_CASES = [
         "lane-negative",
         {"vehicles": [V | {"Lane load": -0.64}]},
         [("Vehicles", "D2", "too-small", E)],
+    ),
+    (
+        "condition-factor-below-poor",
+        {"members": [M | {"Condition factor": 0.8}]},
+        [("Members", "C2", "factor-below-published", E)],
+    ),
+    (
+        "system-factor-below-mbe",
+        {"members": [M | {"System factor": 0.75}]},
+        [("Members", "C2", "factor-below-published", E)],
     ),
     (
         "capacity-factors-below-mbe-floor",
@@ -512,7 +656,21 @@ JSON_CASES = [
         json.dumps(_doc(members=[GOOD_MEMBER | {"hinge": [30]}])),
         [("/members/0/hinge", "unknown-key")],
     ),
-    ("unknown-top-key", json.dumps(_doc(capacities=[])), [("/capacities", "unknown-key")]),
+    ("unknown-top-key", json.dumps(_doc(bridges=[])), [("/bridges", "unknown-key")]),
+    (
+        "capacity-unknown-member",
+        json.dumps(
+            _doc(capacities=[{"member": "KV-9", "span": 1, "station": 0.5, "resistance_v": 90}])
+        ),
+        [("/capacities/0/member", "unknown-member")],
+    ),
+    (
+        "capacity-unknown-key",
+        json.dumps(
+            _doc(capacities=[{"member": "KV-0101 G1", "span": 1, "station": 0.5, "Rn": 90}])
+        ),
+        [("/capacities/0/Rn", "unknown-key"), ("/capacities/0/resistance_m_pos", "no-resistance")],
+    ),
     ("no-spans", json.dumps(_doc(members=[{"id": "M"}])), [("/members/0/spans", "missing-value")]),
     ("no-members-key", json.dumps({"vehicles": [GOOD_VEHICLE]}), [("/members", "missing-value")]),
     (

@@ -149,7 +149,7 @@ def _extract(data: bytes) -> tuple[dict[str, _RawSheet], set[str]]:
         try:
             titles = {t.strip().lower(): t for t in values.sheetnames}
             raw = {}
-            for spec in (SETTINGS, MEMBERS, VEHICLES):
+            for spec in (SETTINGS, MEMBERS, VEHICLES, CAPACITIES):
                 title = titles.get(spec.name.lower())
                 if title is not None and hasattr(values[title], "iter_rows"):
                     raw[spec.name] = _raw_sheet(values, formulas, spec, title)
@@ -329,13 +329,13 @@ class _Builder:
         return out
 
     def table(self, spec: InputSheet, key: str, raw: _RawSheet | None, units: str | None) -> list:
-        """The rows of Members or Vehicles as the document's list of objects."""
+        """The rows of Members, Vehicles or Capacities as the document's list of objects."""
         self.cells[(key,)] = (spec.name, "")
         if not self.headers(spec, raw, units) or raw is None:
             self.blocked.add((key,))
             return []
         columns = raw.match.columns
-        id_col = columns["id"]
+        id_col = columns[spec.columns[0].key]  # the row's id (Capacities: its member)
         out: list[dict[str, object]] = []
         for number, cells in raw.rows:
             index = len(out)
@@ -396,15 +396,10 @@ def read_workbook(data: bytes) -> Reading:
         "members": build.table(MEMBERS, "members", raw.get(MEMBERS.name), units),
         "vehicles": build.table(VEHICLES, "vehicles", raw.get(VEHICLES.name), units),
     }
-    # The rating sheet is declared in batch.inputs but not read by this version.
+    # Capacities is optional: read when the workbook has it (a sheet of that name).
     if CAPACITIES.name.lower() in titles:
-        build.add(
-            "rating-not-available",
-            CAPACITIES.name,
-            "",
-            "this version does not rate members yet, so the Capacities sheet is not read; "
-            "the run gives live-load envelopes only",
-            severity="warning",
+        document["capacities"] = build.table(
+            CAPACITIES, "capacities", raw.get(CAPACITIES.name), units
         )
     return Reading(
         document=document,

@@ -19,15 +19,15 @@ from batch.validation.to_model import to_case
 
 __all__ = ["validate"]
 
-_SHEET_ORDER = {"": 0, JSON_SHEET: 1, "Settings": 1, "Members": 2, "Vehicles": 3}
-_SECTION_ORDER = {"settings": 1, "members": 2, "vehicles": 3}
+_SHEET_ORDER = {"": 0, JSON_SHEET: 1, "Settings": 1, "Members": 2, "Vehicles": 3, "Capacities": 4}
+_SECTION_ORDER = {"settings": 1, "members": 2, "vehicles": 3, "capacities": 4}
 
 _Key = tuple[int, int | str]
 
 
 def _position(problem: Problem) -> tuple[int, tuple[_Key, ...]]:
     """Sort key: file first, then sheets in workbook order, then row and column (or pointer)."""
-    rank = _SHEET_ORDER.get(problem.sheet, 4)
+    rank = _SHEET_ORDER.get(problem.sheet, 5)
     cell = re.fullmatch(r"([A-Z]+)(\d+)", problem.cell)
     if cell:
         column = 0

@@ -6,6 +6,9 @@ gap between axles, one Span EI per span), hinges strictly inside the member
 and not forming a mechanism, unique ids, library names and their exclusions,
 the engine's limit on ranged spacings, and magnitudes against the one table of
 limits, :data:`LIMITS` (past ``warn`` a warning, past ``refuse`` an error).
+For rating: condition and system factors against the MBE's values, load
+factors against the published ones, the screening reference, and every
+Capacities row against its member's spans and stations.
 
 A field the reader could not read, or that failed the schema, is skipped here,
 so one mistake gives one problem.
@@ -23,10 +26,12 @@ from batch import library
 from batch.engine.influence import POSITION_TOL, mechanism_parts
 from batch.engine.moving import MAX_RANGES
 from batch.model import UNIT_LABELS, UNIT_SYSTEMS, Settings
+from batch.rating import MIN_CAPACITY_FACTOR, PUBLISHED_FACTORS
+from batch.validation.capacities import capacity_problems
 from batch.validation.fields import label, shown
 from batch.validation.problems import DocPath, Locator, PathSet, Problem, Severity
 
-__all__ = ["LIMITS", "MIN_CAPACITY_FACTOR", "Limit", "check_document"]
+__all__ = ["LIMITS", "Limit", "check_document"]
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -63,8 +68,12 @@ LIMITS: dict[str, Limit] = {
     "impact": Limit(warn=(0.75, 0.75)),
 }
 
-#: MBE 6A.4.2.1 (from memory): the product of condition and system factors is not taken below 0.85.
-MIN_CAPACITY_FACTOR = 0.85
+#: The lowest condition factor (poor, 0.85) and system factor (0.85, the least redundant
+#: members) of the MBE's tables (6A.4.2.3 and 6A.4.2.4, from memory).
+LOWEST_CAPACITY_FACTORS = {
+    "condition_factor": (0.85, "1.00 good or satisfactory, 0.95 fair, 0.85 poor"),
+    "system_factor": (0.85, "0.85 for the least redundant members up to 1.00 for most girders"),
+}
 
 _Found = tuple[DocPath, str, str, Severity]
 
@@ -145,17 +154,7 @@ def _member(m: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[_Found]:
         value = _number(m.get(key))
         if value is not None and cx.ok((*at, key)):
             yield from cx.magnitude((*at, key), "dead_load", value)
-    phi_c, phi_s = _number(m.get("condition_factor", 1.0)), _number(m.get("system_factor", 1.0))
-    fields_ok = cx.ok((*at, "condition_factor")) and cx.ok((*at, "system_factor"))
-    if phi_c is not None and phi_s is not None and fields_ok:
-        if phi_c * phi_s < MIN_CAPACITY_FACTOR:
-            yield (
-                (*at, "condition_factor"),
-                "low-capacity-factors",
-                f"Condition factor × System factor = {phi_c * phi_s:.3g}, below the "
-                f"{MIN_CAPACITY_FACTOR} floor of the MBE (6A.4.2.1); check both factors",
-                "warning",
-            )
+    yield from _capacity_factors(m, at, cx)
     if spans is None:
         return
     sp = (*at, "spans")
@@ -176,6 +175,69 @@ def _member(m: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[_Found]:
         )
     if hinges:
         yield from _hinges(spans, hinges, (*at, "hinges"), cx)
+
+
+def _capacity_factors(m: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[_Found]:
+    """Condition and system factors: each within the MBE's values, their product floored."""
+    values = {}
+    for key, (lowest, published) in LOWEST_CAPACITY_FACTORS.items():
+        value = _number(m.get(key, 1.0))
+        if value is None or not cx.ok((*at, key)):
+            return
+        if value < lowest:
+            yield (
+                (*at, key),
+                "factor-below-published",
+                f"{label((*at, key))}: {shown(value)} is below {shown(lowest)}, the lowest the "
+                f"MBE gives ({published}); give a value from {shown(lowest)} to 1",
+                "error",
+            )
+            return
+        values[key] = value
+    product = values["condition_factor"] * values["system_factor"]
+    if product < MIN_CAPACITY_FACTOR:
+        yield (
+            (*at, "condition_factor"),
+            "low-capacity-factors",
+            f"Condition factor × System factor = {product:.4g}, below the {MIN_CAPACITY_FACTOR} "
+            f"floor of the MBE (6A.4.2.1); the rating uses {MIN_CAPACITY_FACTOR} for flexure "
+            "(shear uses the condition factor alone); check both factors",
+            "warning",
+        )
+
+
+def _settings(settings: dict[str, Any], vehicles: list[Any], cx: _Context) -> Iterator[_Found]:
+    """The dynamic load allowance, rating load factors and the screening reference."""
+    impact = _number(settings.get("impact"))
+    if impact is not None and cx.ok(("settings", "impact")):
+        yield from cx.magnitude(("settings", "impact"), "impact", impact)
+    for key, (low, high) in PUBLISHED_FACTORS.items():
+        path = ("settings", key)
+        value = _number(settings.get(key))
+        if value is None or not cx.ok(path) or low - 1e-9 <= value <= high + 1e-9:
+            continue
+        published = shown(low) if low == high else f"{shown(low)} to {shown(high)}"
+        yield (
+            path,
+            "unpublished-factor",
+            f"{label(path)}: {shown(value)} is not the published value ({published}); it is "
+            "used as given: check it against the MBE edition you rate to and the owner's rules",
+            "warning",
+        )
+    name = settings.get("reference_vehicle")
+    path = ("settings", "reference_vehicle")
+    if not isinstance(name, str) or not name.strip() or not cx.ok(path):
+        return
+    ids = {str(v.get("id", "")).strip().casefold() for v in vehicles if isinstance(v, dict)}
+    if name.strip().casefold() not in ids and not _library_known(name):
+        yield (
+            path,
+            "unknown-reference",
+            f"Reference vehicle: {name.strip()!r} is neither a vehicle of the Vehicles sheet "
+            "nor a built-in load model; give a Vehicle id or a library name such as HL-93, "
+            "or leave it blank for no screening",
+            "error",
+        )
 
 
 def _hinges(spans: list[float], hinges: list[float], at: DocPath, cx: _Context) -> Iterator[_Found]:
@@ -368,9 +430,8 @@ def check_document(
     units = settings.get("units", Settings().units)
     cx = _Context(units if units in UNIT_SYSTEMS else Settings().units, bad or PathSet())
     found: list[_Found] = []
-    impact = _number(settings.get("impact"))
-    if impact is not None and cx.ok(("settings", "impact")):
-        found += cx.magnitude(("settings", "impact"), "impact", impact)
+    vehicles = document.get("vehicles")
+    found += _settings(settings, vehicles if isinstance(vehicles, list) else [], cx)
     sections: tuple[tuple[str, _Check], ...] = (("members", _member), ("vehicles", _vehicle))
     for key, check in sections:
         rows = document.get(key)
@@ -380,6 +441,9 @@ def check_document(
         for i, row in enumerate(rows):
             if isinstance(row, dict):
                 found += check(row, (key, i), cx)
+    capacities = document.get("capacities")
+    if isinstance(capacities, list):
+        found += capacity_problems(capacities, document, locator, cx.ok)
     out = []
     for path, code, message, severity in found:
         sheet, cell = locator.where(path)

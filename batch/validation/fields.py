@@ -9,12 +9,12 @@ from __future__ import annotations
 
 import json
 
-from batch.inputs import MEMBERS, SETTING_ROWS, VEHICLES, InputColumn, SettingRow
+from batch.inputs import CAPACITIES, MEMBERS, SETTING_ROWS, VEHICLES, InputColumn, SettingRow
 from batch.validation.problems import DocPath
 
 __all__ = ["declaration", "entry", "label", "shown"]
 
-_TABLES = {"members": MEMBERS, "vehicles": VEHICLES}
+_TABLES = {"members": MEMBERS, "vehicles": VEHICLES, "capacities": CAPACITIES}
 
 
 def declaration(path: DocPath) -> InputColumn | SettingRow | None:

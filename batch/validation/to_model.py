@@ -5,6 +5,10 @@ checks. The conversion follows the declarations of :mod:`batch.inputs` (each
 column's kind); a key that is absent takes the model's default. Numbers become
 floats, or ints where the model's field is an int; text loses its outer spaces
 (ids were compared for uniqueness that way).
+
+A vehicle row that names a library model and leaves Category blank takes the
+model's category. A capacity row names its member by the member's id exactly
+as the Members sheet spells it (ids match ignoring case and outer spaces).
 """
 
 from __future__ import annotations
@@ -12,8 +16,9 @@ from __future__ import annotations
 import dataclasses
 from typing import Any
 
-from batch.inputs import MEMBERS, SETTING_ROWS, VEHICLES, InputSheet
-from batch.model import Case, Member, Settings, Spacing, Vehicle
+from batch import library
+from batch.inputs import CAPACITIES, MEMBERS, SETTING_ROWS, VEHICLES, InputSheet
+from batch.model import Capacity, Case, Member, Settings, Spacing, Vehicle
 
 __all__ = ["to_case"]
 
@@ -49,10 +54,27 @@ def _settings(doc: dict[str, Any]) -> Settings:
     return Settings(**values)
 
 
+def _vehicle(doc: dict[str, Any]) -> Vehicle:
+    values = _fields(VEHICLES, doc)
+    if "category" not in values and values.get("library"):
+        values["category"] = library.model(values["library"]).category
+    return Vehicle(**values)
+
+
+def _capacity(doc: dict[str, Any], ids: dict[str, str]) -> Capacity:
+    values = _fields(CAPACITIES, doc)
+    values["member"] = ids[values["member"].casefold()]
+    values["span"] = int(values["span"])
+    return Capacity(**values)
+
+
 def to_case(document: dict[str, Any]) -> Case:
     """The model of a document that passed validation with no errors."""
+    members = tuple(Member(**_fields(MEMBERS, m)) for m in document["members"])
+    ids = {m.id.casefold(): m.id for m in members}
     return Case(
         settings=_settings(document.get("settings", {})),
-        members=tuple(Member(**_fields(MEMBERS, m)) for m in document["members"]),
-        vehicles=tuple(Vehicle(**_fields(VEHICLES, v)) for v in document["vehicles"]),
+        members=members,
+        vehicles=tuple(_vehicle(v) for v in document["vehicles"]),
+        capacities=tuple(_capacity(c, ids) for c in document.get("capacities", [])),
     )
