@@ -34,7 +34,7 @@ import batch
 if TYPE_CHECKING:
     from batch.run import ProgressFn
     from batch.validation.problems import InputReport
-    from batch.writers.preserve import OpenedBook
+    from batch.writers import SourcePackage
 
 __all__ = ["EXIT_INTERNAL", "EXIT_OK", "EXIT_PROBLEMS", "EXIT_USAGE", "main"]
 
@@ -174,9 +174,9 @@ def _check_names(src: Path, target: Path, is_json: bool, has_out: bool) -> None:
         raise Usage(f"{target.name}: .xlsm is for workbooks with macros; use .xlsx")
 
 
-def _open_input(src: Path, report: InputReport, keep_vba: bool) -> tuple[OpenedBook, bytes]:
-    """The input workbook opened to receive results, and the bytes it was opened from."""
-    from batch.writers.preserve import BookProblem, open_book
+def _open_input(src: Path, report: InputReport, keep_vba: bool) -> SourcePackage:
+    """The input workbook's package, ready to receive the results."""
+    from batch.writers import BookProblem, SourcePackage
 
     data = src.read_bytes()
     if hashlib.sha256(data).hexdigest() != report.digest:
@@ -185,34 +185,33 @@ def _open_input(src: Path, report: InputReport, keep_vba: bool) -> tuple[OpenedB
             "save it in your spreadsheet program, close it and run again"
         )
     try:
-        return open_book(data, src.name, keep_vba), data
+        return SourcePackage(data, src.name, keep_vba=keep_vba)
     except BookProblem as exc:
         raise Refused(str(exc)) from exc
 
 
-def _json_book(report: InputReport) -> OpenedBook:
-    """A new workbook for JSON input: the case as input sheets, ready for results."""
+def _json_source(report: InputReport) -> SourcePackage:
+    """For JSON input: the case as input sheets of a new workbook, ready for results."""
+    import io
+
     from batch.inputs import SETTING_ROWS
     from batch.template import case_rows, input_workbook
-    from batch.writers.preserve import OpenedBook
+    from batch.writers import SourcePackage
 
     case = report.case
     assert case is not None
     settings = {row.key: getattr(case.settings, row.key) for row in SETTING_ROWS}
     wb = input_workbook(units=case.settings.units, settings=settings, rows=case_rows(case))
-    return OpenedBook(workbook=wb, cannot_keep=(), replaced=(), active=None)
+    for ws in wb.worksheets:
+        ws.sheet_view.tabSelected = False  # the results' Governing sheet will be the active one
+    buffer = io.BytesIO()
+    wb.save(buffer)
+    return SourcePackage(buffer.getvalue(), "(JSON input)", keep_active=False)
 
 
-def _guard_in_place(opened: OpenedBook, target: Path) -> None:
+def _guard_in_place(target: Path) -> None:
     from batch.writers.save import open_elsewhere
 
-    if opened.cannot_keep:
-        lost = "; ".join(opened.cannot_keep)
-        raise Refused(
-            f"{target.name}: holds content that spanfleet cannot write back ({lost}). "
-            f"{target.name} was not changed. Run again with --out RESULTS.xlsx to write the "
-            "input sheets and the results to a new workbook (it will lack that content)."
-        )
     lock = open_elsewhere(target)
     if lock is not None:
         raise Refused(
@@ -261,11 +260,9 @@ def _run_key(report: InputReport) -> str:
 
 
 def _cmd_run(args: argparse.Namespace) -> int:
-    from batch.results import GOVERNING
     from batch.run import RunError, RunOptions, run_case
     from batch.store import store_path_for
-    from batch.writers import InputInfo, select_sheet, write_results
-    from batch.writers.cached import KeepCachedValues
+    from batch.writers import BookProblem, InputInfo, result_package
     from batch.writers.save import SaveError, atomic_save
 
     src: Path = args.book
@@ -278,16 +275,18 @@ def _cmd_run(args: argparse.Namespace) -> int:
         _say(f"{src.name} was not changed.")
         return status
     assert report.case is not None
-    original: bytes | None = None  # the input package, whose formulas' cached values are kept
     if is_json:
-        opened = _json_book(report)
+        source = _json_source(report)
     else:
         keep_vba = src.suffix.lower() == ".xlsm" and target.suffix.lower() == ".xlsm"
-        opened, original = _open_input(src, report, keep_vba)
+        source = _open_input(src, report, keep_vba)
         if in_place:
-            _guard_in_place(opened, target)
-        for what in opened.cannot_keep:
-            _warn(f"{target.name} will lack {what} (spanfleet cannot copy it)")
+            _guard_in_place(target)
+        for what in source.lacks:
+            _warn(
+                f"{target.name} will lack {what}: an .xlsx workbook cannot hold them; "
+                "give --out a name ending in .xlsm to keep them"
+            )
     options = RunOptions(
         jobs=args.jobs,
         cluster=args.cluster,
@@ -305,22 +304,16 @@ def _cmd_run(args: argparse.Namespace) -> int:
         output=target.name,
         warnings=tuple(w.render() for w in report.warnings),
     )
-    notes = ()
-    if opened.replaced:
-        notes = (f"Replaced the result sheets of an earlier run: {', '.join(opened.replaced)}.",)
-    wb = opened.workbook
-    sheets = write_results(wb, result, info, notes)
-    select_sheet(wb, opened.active or GOVERNING.sheet)
-    book = wb if original is None else KeepCachedValues(wb, original)
+    package = result_package(source, result, info)
     try:
-        atomic_save(book, target, expect_sha256=report.digest if in_place else None)
-    except SaveError as exc:
+        atomic_save(package, target, expect_sha256=report.digest if in_place else None)
+    except (SaveError, BookProblem) as exc:
         raise Refused(str(exc)) from exc
     for text in result.warnings:
         _warn(text)
     if not args.quiet:
         print(
-            f"{target.name}: wrote {', '.join(sheets)} ({result.n_members} members, "
+            f"{target.name}: wrote {', '.join(package.sheets)} ({result.n_members} members, "
             f"{result.n_vehicles} vehicles, {result.n_load_cases} load cases, "
             f"{result.seconds:.1f} s)"
         )
@@ -356,17 +349,11 @@ def _cmd_check(args: argparse.Namespace) -> int:
 
 
 def _check_writeback(src: Path, report: InputReport) -> None:
-    """Say in advance when an in-place run would refuse to write into this workbook."""
+    """Say in advance when a run would refuse to write into this workbook."""
     try:
-        opened, _ = _open_input(src, report, keep_vba=src.suffix.lower() == ".xlsm")
+        _open_input(src, report, keep_vba=src.suffix.lower() == ".xlsm")
     except Refused as exc:
         print(f"warning: {exc}")
-        return
-    for what in opened.cannot_keep:
-        print(
-            f"warning: {src.name} holds {what}, which spanfleet cannot write back; "
-            "use run --out for the results"
-        )
 
 
 def _cmd_template(args: argparse.Namespace) -> int:

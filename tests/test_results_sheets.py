@@ -21,6 +21,7 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from defusedxml import ElementTree
 from openpyxl import load_workbook
 
 from batch.cautions import CAUTIONS
@@ -37,8 +38,8 @@ from batch.results import (
     is_result_sheet_name,
 )
 from batch.run import run_case
-from batch.writers import InputInfo, write_results
-from batch.writers.preserve import new_book
+from batch.writers import InputInfo, SourcePackage, result_package
+from batch.writers.package import empty_package
 from batch.writers.save import atomic_save
 from batch.writers.sheets import HIGHLIGHT_RGB, OWNER_MARK
 
@@ -46,6 +47,7 @@ REL_TOL_EXACT = 1e-9  # the sheets carry the engine's float64 numbers unchanged
 REL_TOL_CLOSED_FORM = 1e-9  # exact engine against an exact closed form
 
 P_AXLE = 20.0  # kip, one-axle test vehicle
+CHART_NS = "http://schemas.openxmlformats.org/drawingml/2006/chart"
 
 
 def _single_axle(ident: str = "KVHA single 20") -> Vehicle:
@@ -76,12 +78,11 @@ def _case(units: str = "US", **settings: object) -> Case:
 
 def _write(tmp_path: Path, case: Case, max_rows: int | None = None) -> Path:
     result = run_case(case)
-    wb = new_book()
     info = InputInfo(name="case.json", digest="0" * 64, source="json", output="out.xlsx")
     kwargs = {} if max_rows is None else {"max_rows": max_rows}
-    write_results(wb, result, info, **kwargs)
+    source = SourcePackage(empty_package(), "out.xlsx")
     path = tmp_path / "out.xlsx"
-    atomic_save(wb, path)
+    atomic_save(result_package(source, result, info, **kwargs), path)
     return path
 
 
@@ -292,10 +293,18 @@ def test_moment_charts_hold_one_chart_per_member_and_their_own_data(tmp_path: Pa
         assert c["M max (kip-ft)"] == e["M max (kip-ft)"]
         assert c["M min (kip-ft)"] == e["M min (kip-ft)"]
     with zipfile.ZipFile(path) as zf:
-        charts = [n for n in zf.namelist() if n.startswith("xl/charts/chart")]
+        charts = sorted(n for n in zf.namelist() if n.startswith("xl/charts/chart"))
         assert len(charts) == 2
-        xml = zf.read(charts[0]).decode()
-        assert "<scatterChart>" in xml and "'Moment Charts'!$B$2" in xml
+        chart = ElementTree.fromstring(zf.read(charts[0]))
+    # DrawingML chart part (ECMA-376 Part 1, §21.2.2.161 scatterChart): two series, y against
+    # x, whose ranges are member 1's rows of the chart sheet.
+    series = chart.findall(f".//{{{CHART_NS}}}scatterChart/{{{CHART_NS}}}ser")
+    refs = [[f.text for f in ser.iter(f"{{{CHART_NS}}}f")] for ser in series]
+    rows = sum(1 for r in chart_rows if r["Member"] == charted[0]) + 1
+    assert refs == [
+        [f"'Moment Charts'!$B$2:$B${rows}", f"'Moment Charts'!${col}$2:${col}${rows}"]
+        for col in ("C", "D")
+    ]
     log = [r["Value"] for r in _rows(wb["Run Log"])]
     assert any(isinstance(v, str) and "shows 2 of 3 members" in v for v in log)
 

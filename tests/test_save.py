@@ -3,9 +3,14 @@
 What must survive is the contract's list ("every other sheet is kept as it was")
 and issue 7's: values, formulas (with their cached values), number formats,
 styles, comments, merged cells, data validation, defined names, column widths,
-row heights, hidden state and any sheet the engineer added. Atomic replacement
-by rename within one folder is common practice (POSIX rename(2) is atomic; so is
-os.replace on one file system).
+row heights, hidden state and any sheet the engineer added — and, since results
+are spliced into the input's own package, also what openpyxl cannot model
+(charts, pictures, connections ...). The strongest check is used where it
+applies: the input's parts are byte-identical after a run. Package structure
+(parts, relationships, content types) is that of ECMA-376 Part 2 (Open Packaging
+Conventions); workbook elements are those of ECMA-376 Part 1, §18.2. Atomic
+replacement by rename within one folder is common practice (POSIX rename(2) is
+atomic; so is os.replace on one file system).
 """
 
 from __future__ import annotations
@@ -19,6 +24,7 @@ import zipfile
 from pathlib import Path
 
 import pytest
+from defusedxml import ElementTree
 from openpyxl import Workbook
 from openpyxl import load_workbook as _load_path
 from openpyxl.chart import BarChart, Reference
@@ -29,9 +35,7 @@ from openpyxl.worksheet.datavalidation import DataValidation
 
 from batch.model import Case, Member, Settings, Vehicle
 from batch.run import run_case
-from batch.writers import InputInfo, write_results
-from batch.writers.cached import KeepCachedValues, cached_values
-from batch.writers.preserve import BookProblem, open_book
+from batch.writers import BookProblem, InputInfo, SourcePackage, result_package
 from batch.writers.save import TEMP_PREFIX, SaveError, atomic_save, open_elsewhere
 
 CASE = Case(
@@ -113,11 +117,44 @@ def _with_cached_values(path: Path) -> Path:
     return path
 
 
+MAIN = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
+REL = "{http://schemas.openxmlformats.org/package/2006/relationships}"
+
+
+def _package(path: Path) -> SourcePackage:
+    return SourcePackage(path.read_bytes(), path.name)
+
+
 def _run_into(src: Path, target: Path) -> None:
-    data = src.read_bytes()
-    opened = open_book(data, src.name, keep_vba=False)
-    write_results(opened.workbook, run_case(CASE), INFO)
-    atomic_save(KeepCachedValues(opened.workbook, data), target)
+    atomic_save(result_package(_package(src), run_case(CASE), INFO), target)
+
+
+def _parts(path: Path) -> dict[str, bytes]:
+    with zipfile.ZipFile(path) as zf:
+        return {name: zf.read(name) for name in zf.namelist()}
+
+
+def _sheet_parts(path: Path) -> dict[str, str]:
+    """Sheet name -> part name, from the workbook part and its relationships."""
+    parts = _parts(path)
+    rels = ElementTree.fromstring(parts["xl/_rels/workbook.xml.rels"])
+    target = {r.get("Id"): r.get("Target") for r in rels.iter(f"{REL}Relationship")}
+    book = ElementTree.fromstring(parts["xl/workbook.xml"])
+    rid = "{http://schemas.openxmlformats.org/officeDocument/2006/relationships}id"
+    return {
+        s.get("name"): "xl/" + target[s.get(rid)].lstrip("/").removeprefix("xl/")
+        for s in book.iter(f"{MAIN}sheet")
+    }
+
+
+def cached_values(path: Path, sheet: str) -> dict[str, tuple[str, str]]:
+    """(type, cached value) of each formula cell of ``sheet`` (ECMA-376 §18.3.1.4: <f> + <v>)."""
+    xml = ElementTree.fromstring(_parts(path)[_sheet_parts(path)[sheet]])
+    return {
+        c.get("r"): (c.get("t") or "", c.find(f"{MAIN}v").text)
+        for c in xml.iter(f"{MAIN}c")
+        if c.find(f"{MAIN}f") is not None and c.find(f"{MAIN}v") is not None
+    }
 
 
 def _cells(ws) -> dict[str, tuple]:
@@ -134,6 +171,29 @@ def _cells(ws) -> dict[str, tuple]:
         for row in ws.iter_rows()
         for c in row
     }
+
+
+def test_every_input_part_is_kept_byte_for_byte(tmp_path: Path) -> None:
+    src = _engineer_workbook(tmp_path / "book.xlsx")
+    before = _parts(src)
+    _run_into(src, src)
+    after = _parts(src)
+    # Only the parts that list sheets, styles and content types are edited.
+    edited = {
+        "xl/workbook.xml",
+        "xl/_rels/workbook.xml.rels",
+        "[Content_Types].xml",
+        "xl/styles.xml",
+        "docProps/app.xml",
+    }
+    for name, data in before.items():
+        if name not in edited:
+            assert after[name] == data, name
+    # The style sheet only grows: the input's own records are untouched and come first.
+    styles = after["xl/styles.xml"].decode()
+    for tag in ("fonts", "fills", "cellXfs"):
+        old = re.search(rf"<{tag}[^>]*>(.*?)</{tag}>", before["xl/styles.xml"].decode())[1]
+        assert re.search(rf"<{tag}[^>]*>(.*?)</{tag}>", styles)[1].startswith(old), tag
 
 
 def test_every_input_cell_and_sheet_survives_a_run(tmp_path: Path) -> None:
@@ -159,25 +219,32 @@ def test_every_input_cell_and_sheet_survives_a_run(tmp_path: Path) -> None:
     assert after.active.title == "Members"
 
 
-def test_cached_formula_values_survive_except_those_reading_results(tmp_path: Path) -> None:
+def test_cached_formula_values_survive_and_a_rerun_asks_for_recalculation(
+    tmp_path: Path,
+) -> None:
     src = _engineer_workbook(tmp_path / "book.xlsx")
     _run_into(src, src)
-    values = cached_values(src.read_bytes(), ["Members", "Engineer notes"])
-    assert values["Members"]["C2"] == ("", "0.6")
-    assert values["Engineer notes"]["B1"] == ("", "80")
-    assert values["Engineer notes"]["B2"] == ("str", "KV-0101 G1 ok")
-    # =MAX(Envelopes!E:E) was computed from the replaced results: stale, so not kept.
-    assert "B3" not in values["Engineer notes"]
+    assert cached_values(src, "Members")["C2"] == ("", "0.6")
+    notes = cached_values(src, "Engineer notes")
+    assert notes["B1"] == ("", "80")
+    assert notes["B2"] == ("str", "KV-0101 G1 ok")
+    assert notes["B3"] == ("", "160")  # =MAX(Envelopes!E:E): kept as the input had it
     data_only = load_workbook(src, data_only=True)
     assert data_only["Members"]["C2"].value == pytest.approx(0.6)
+    # A second run replaces the results that B3 reads, so the workbook asks the spreadsheet
+    # program for a full recalculation on opening (ECMA-376 §18.2.2 calcPr fullCalcOnLoad).
+    _run_into(src, src)
+    calc = ElementTree.fromstring(_parts(src)["xl/workbook.xml"]).find(f"{MAIN}calcPr")
+    assert calc is not None and calc.get("fullCalcOnLoad") == "1"
+    assert cached_values(src, "Engineer notes")["B3"] == ("", "160")
 
 
 def test_a_second_run_replaces_the_result_sheets(tmp_path: Path) -> None:
     src = _engineer_workbook(tmp_path / "book.xlsx")
     _run_into(src, src)
     first = load_workbook(src).sheetnames
-    opened = open_book(src.read_bytes(), src.name, keep_vba=False)
-    assert opened.replaced == (
+    first_parts = set(_parts(src))
+    assert _package(src).ours == (
         "Envelopes",
         "Reactions",
         "Governing",
@@ -185,9 +252,10 @@ def test_a_second_run_replaces_the_result_sheets(tmp_path: Path) -> None:
         "Moment Charts",
         "Run Log",
     )
-    assert opened.cannot_keep == ()  # our own chart sheet does not count
     _run_into(src, src)
     assert load_workbook(src).sheetnames == first
+    # The earlier sheets went with their drawing and charts: nothing is left over or doubled.
+    assert set(_parts(src)) == first_parts
 
 
 def test_out_leaves_the_input_bytes_unchanged(tmp_path: Path) -> None:
@@ -233,9 +301,8 @@ def test_a_full_disk_gives_a_clear_message(tmp_path: Path, monkeypatch) -> None:
         raise OSError(errno.ENOSPC, "No space left on device")
 
     monkeypatch.setattr(os, "replace", full)
-    opened = open_book(before, target.name, keep_vba=False)
     with pytest.raises(SaveError, match=r"full; free some space.*was not changed"):
-        atomic_save(opened.workbook, target)
+        atomic_save(result_package(_package(target), run_case(CASE), INFO), target)
     assert target.read_bytes() == before
     assert not [p for p in tmp_path.iterdir() if p.name.startswith(TEMP_PREFIX)]
 
@@ -257,40 +324,52 @@ def test_the_replaced_file_keeps_its_permissions(tmp_path: Path) -> None:
     assert stat.S_IMODE(target.stat().st_mode) == 0o640
 
 
-def test_content_openpyxl_cannot_keep_is_named(tmp_path: Path) -> None:
-    src = _engineer_workbook(tmp_path / "book.xlsx")
+def _with_user_chart_and_picture(src: Path) -> None:
     wb = load_workbook(src)
     chart = BarChart()
     chart.add_data(Reference(wb["Lookup"], min_col=1, min_row=1, max_row=1))
     wb["Engineer notes"].add_chart(chart, "D2")
     wb.save(src)
-    data = src.read_bytes()
-    buffer = io.BytesIO(data)
+    buffer = io.BytesIO(src.read_bytes())
     with zipfile.ZipFile(buffer, "a") as zf:
         zf.writestr("xl/media/image1.png", b"\x89PNG not really")
-    opened = open_book(buffer.getvalue(), src.name, keep_vba=False)
-    assert "charts on sheet 'Engineer notes'" in opened.cannot_keep
-    assert "images in the workbook" in opened.cannot_keep
+    src.write_bytes(buffer.getvalue())
+
+
+def test_charts_and_pictures_of_the_engineer_are_kept_by_an_in_place_run(tmp_path: Path) -> None:
+    src = _engineer_workbook(tmp_path / "book.xlsx")
+    _with_user_chart_and_picture(src)
+    before = _parts(src)
+    own = [n for n in before if n.startswith(("xl/charts/", "xl/drawings/", "xl/media/"))]
+    assert len(own) >= 3
+    for _ in range(2):  # the second run removes the first run's charts, never the engineer's
+        _run_into(src, src)
+        after = _parts(src)
+        assert {n: after[n] for n in own} == {n: before[n] for n in own}
+    notes = _sheet_parts(src)["Engineer notes"]
+    assert after[notes] == before[notes]
+    assert len(load_workbook(src)["Engineer notes"]._charts) == 1
 
 
 @pytest.mark.parametrize(
-    ("part", "what"),
+    "part",
     [
         # Part names from ECMA-376 Part 1 (connections, query tables) and Excel's own
         # extensions (data model, rich values), from memory; openpyxl writes none of them.
-        ("xl/connections.xml", "data connections"),
-        ("xl/queryTables/queryTable1.xml", "query tables"),
-        ("xl/model/item.data", "a data model"),
-        ("xl/richData/rdrichvalue.xml", "linked data types"),
+        "xl/connections.xml",
+        "xl/queryTables/queryTable1.xml",
+        "xl/model/item.data",
+        "xl/richData/rdrichvalue.xml",
     ],
 )
-def test_external_data_and_rich_values_are_named(tmp_path: Path, part: str, what: str) -> None:
+def test_external_data_and_rich_values_are_kept(tmp_path: Path, part: str) -> None:
     src = _engineer_workbook(tmp_path / "book.xlsx")
     buffer = io.BytesIO(src.read_bytes())
     with zipfile.ZipFile(buffer, "a") as zf:
         zf.writestr(part, b"<kept-by-the-engineer/>")
-    opened = open_book(buffer.getvalue(), src.name, keep_vba=False)
-    assert [c for c in opened.cannot_keep if c.startswith(what)] != [], opened.cannot_keep
+    src.write_bytes(buffer.getvalue())
+    _run_into(src, src)
+    assert _parts(src)[part] == b"<kept-by-the-engineer/>"
 
 
 def test_a_foreign_sheet_with_a_result_name_is_never_removed(tmp_path: Path) -> None:
@@ -300,7 +379,7 @@ def test_a_foreign_sheet_with_a_result_name_is_never_removed(tmp_path: Path) -> 
     path = tmp_path / "book.xlsx"
     wb.save(path)
     with pytest.raises(BookProblem, match="governing: this sheet has the name of a spanfleet"):
-        open_book(path.read_bytes(), path.name, keep_vba=False)
+        _package(path)
 
 
 def test_lock_files_of_spreadsheet_programs_are_found(tmp_path: Path) -> None:

@@ -16,21 +16,14 @@ from dataclasses import dataclass
 
 import numpy as np
 import openpyxl
-from openpyxl.styles import Alignment, Font
-from openpyxl.workbook.workbook import Workbook
 
 import batch
 from batch.cautions import CAUTIONS, SIGN_CONVENTIONS
 from batch.inputs import SETTING_ROWS
 from batch.results import RUN_LOG_SHEET
 from batch.run import RunResult
-from batch.writers.sheets import (
-    HEADER_FILL,
-    HIGHLIGHT_FILL,
-    new_result_sheet,
-    write_header_cells,
-    write_value,
-)
+from batch.writers.package import ResultBook
+from batch.writers.styles import HEADER_RGB, HIGHLIGHT_RGB, CellFormat
 
 __all__ = ["InputInfo", "write_run_log"]
 
@@ -96,7 +89,7 @@ def _rows(
     yield "Run time (s)", round(result.seconds, 3), _PLAIN
     versions = (
         f"Python {platform.python_version()}, numpy {np.__version__}, "
-        f"openpyxl {openpyxl.__version__}"
+        f"openpyxl {openpyxl.__version__} (reads the input)"
     )
     yield "Environment", versions, _PLAIN
     yield "Input", None, _SECTION
@@ -149,27 +142,27 @@ def _rows(
         yield str(k), text, _PLAIN
 
 
+#: How each kind of row looks: (item cell, value cell); wrapped, aligned to the top.
+_LOOKS = {
+    _PLAIN: (CellFormat(wrap=True, vertical="top"),) * 2,
+    _SECTION: (CellFormat(bold=True, fill=HEADER_RGB, wrap=True, vertical="top"),) * 2,
+    _MARKED: (
+        CellFormat(wrap=True, vertical="top"),
+        CellFormat(bold=True, fill=HIGHLIGHT_RGB, wrap=True, vertical="top"),
+    ),
+}
+
+
 def write_run_log(
-    wb: Workbook,
+    book: ResultBook,
     result: RunResult,
     info: InputInfo,
     sheets: Sequence[str],
     notes: Sequence[str] = (),
 ) -> None:
     """Add the Run Log sheet; ``sheets`` are the result sheets written, ``notes`` about them."""
-    ws = new_result_sheet(wb, RUN_LOG_SHEET)
-    write_header_cells(ws, ("Item", "Value"), (30, 100))
-    wrap = Alignment(wrap_text=True, vertical="top")
-    bold = Font(bold=True)
-    for r, (item, value, style) in enumerate(_rows(result, info, sheets, notes), start=2):
-        key = write_value(ws, r, 1, item)
-        key.alignment = wrap
-        cell = write_value(ws, r, 2, value)
-        cell.alignment = wrap
-        if style == _SECTION:
-            for c in (key, cell):
-                c.font = bold
-                c.fill = HEADER_FILL
-        elif style == _MARKED:
-            cell.font = bold
-            cell.fill = HIGHLIGHT_FILL
+    ws = book.new_sheet(RUN_LOG_SHEET, columns=2)
+    ws.header(("Item", "Value"), (30, 100))
+    looks = {kind: [book.styles.xf(f) for f in pair] for kind, pair in _LOOKS.items()}
+    for item, value, style in _rows(result, info, sheets, notes):
+        ws.row((item, value), looks[style])

@@ -1,17 +1,21 @@
-"""The tabular result sheets (Envelopes, Reactions, Governing) and their cell styles.
+"""The tabular result sheets (Envelopes, Reactions, Governing), streamed member by member.
 
 Columns come from :mod:`batch.results`, each declared once. Every sheet gets a
 bold header row with units, a frozen header, an autofilter over the data and the
-declared widths and number formats. Text is always written as a text cell, so an
-id such as ``=cmd|...`` can never become a live formula.
+declared widths and number formats (text columns use the text format ``@``).
+Text is always written as a text cell, so an id such as ``=cmd|...`` can never
+become a live formula.
 
 For each member, the cell holding the member's governing (extreme) value of each
 highlighted effect, and its vehicle, position and direction cells in the same
-row, get :data:`HIGHLIGHT_FILL` (a soft amber) and bold type.
+row, get the highlight: the soft amber fill
+:data:`~batch.writers.styles.HIGHLIGHT_RGB` and bold type. The governing row is
+known before the member's rows are written (:func:`batch.results.governing_row`),
+so rows go out strictly top to bottom.
 
-Every sheet spanfleet writes carries a hidden sheet-level defined name
-:data:`OWNER_MARK`; a later run removes only sheets that have a result name and
-this mark, so an engineer's own sheet that happens to share a name is never lost.
+Also here, for writers that go cell by cell (rows still in order):
+:func:`new_result_sheet`, :func:`write_header_cells`, :func:`write_value` and
+:func:`highlight`.
 """
 
 from __future__ import annotations
@@ -19,23 +23,19 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass
 
-from openpyxl.cell.cell import ILLEGAL_CHARACTERS_RE, Cell
-from openpyxl.styles import Alignment, Font, PatternFill
-from openpyxl.utils import get_column_letter, quote_sheetname
-from openpyxl.workbook.defined_name import DefinedName
-from openpyxl.workbook.workbook import Workbook
-from openpyxl.worksheet.worksheet import Worksheet
-
 from batch.engine import MemberEnvelope
-from batch.results import ResultColumn, ResultTable, effect_named, governing_row
+from batch.results import FORMAT_TEXT, ResultColumn, ResultTable, effect_named, governing_row
+from batch.writers.package import OWNER_MARK, ResultBook
+from batch.writers.stream import MAX_ROWS, SheetStream
+from batch.writers.styles import HIGHLIGHT_RGB, CellFormat, StyleSheet, highlighted
 
 __all__ = [
-    "HEADER_FILL",
-    "HIGHLIGHT_FILL",
     "HIGHLIGHT_RGB",
     "MAX_DATA_ROWS",
     "OWNER_MARK",
     "WrittenTable",
+    "column_format",
+    "highlight",
     "new_result_sheet",
     "write_header",
     "write_header_cells",
@@ -43,18 +43,8 @@ __all__ = [
     "write_value",
 ]
 
-#: Data rows that fit on one sheet below the header (1,048,576 rows in all).
-MAX_DATA_ROWS = 1_048_575
-
-#: Hidden sheet-level defined name that marks a sheet as written by spanfleet.
-OWNER_MARK = "spanfleet_result"
-
-HIGHLIGHT_RGB = "FFE3B3"  # soft amber: the governing value of an effect
-HIGHLIGHT_FILL = PatternFill(fill_type="solid", fgColor=HIGHLIGHT_RGB)
-HIGHLIGHT_FONT = Font(bold=True)
-HEADER_FILL = PatternFill(fill_type="solid", fgColor="D3E1E8")  # pale slate
-HEADER_FONT = Font(bold=True)
-HEADER_ALIGN = Alignment(wrap_text=True, vertical="center")
+#: Data rows that fit on one sheet below the header.
+MAX_DATA_ROWS = MAX_ROWS - 1
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -65,84 +55,66 @@ class WrittenTable:
     rows: int
 
 
-class SheetNameTaken(Exception):
-    """A sheet of the same name (ignoring case) exists and is not spanfleet's."""
+def column_format(col: ResultColumn) -> CellFormat:
+    """The cell format of a result column's data cells."""
+    return CellFormat(number_format=FORMAT_TEXT if col.text else col.number_format)
 
 
-def new_result_sheet(wb: Workbook, name: str) -> Worksheet:
-    """Append an empty sheet called ``name``, marked as written by spanfleet.
-
-    Raises :class:`SheetNameTaken` when a sheet of that name (in any case)
-    already exists: spreadsheet programs treat such names as the same sheet.
-    """
-    if any(title.lower() == name.lower() for title in wb.sheetnames):
-        raise SheetNameTaken(name)
-    ws = wb.create_sheet(name)
-    ws.defined_names[OWNER_MARK] = DefinedName(
-        OWNER_MARK, attr_text=f"{quote_sheetname(name)}!$A$1", hidden=True
-    )
-    return ws
+# ---------------------------------------------------------------- cell by cell
 
 
-def write_value(
-    ws: Worksheet, row: int, col: int, value: object, number_format: str = "", text: bool = False
-) -> Cell:
-    """Write one cell; strings are always text cells (never formulas).
-
-    Characters a workbook cannot hold (control characters) are dropped.
-    """
-    if isinstance(value, str):
-        value = ILLEGAL_CHARACTERS_RE.sub("", value)
-    cell = ws.cell(row=row, column=col, value=value)
-    if isinstance(value, str):
-        cell.data_type = "s"
-    if number_format and value is not None and not text:
-        cell.number_format = number_format
-    return cell
+def new_result_sheet(book: ResultBook, name: str) -> SheetStream:
+    """Start the result sheet ``name`` (finishing the sheet before it)."""
+    return book.new_sheet(name)
 
 
-def write_header_cells(ws: Worksheet, titles: Sequence[str], widths: Sequence[float]) -> None:
+def write_header_cells(ws: SheetStream, titles: Sequence[str], widths: Sequence[float]) -> None:
     """Bold, filled header row; each column at least its width or its title's; row 1 frozen."""
-    for j, (title, width) in enumerate(zip(titles, widths, strict=True), start=1):
-        cell = write_value(ws, 1, j, title)
-        cell.font = HEADER_FONT
-        cell.fill = HEADER_FILL
-        cell.alignment = HEADER_ALIGN
-        fit = max(width, len(title) * 0.9 + 2)
-        ws.column_dimensions[get_column_letter(j)].width = round(fit, 1)
-    ws.freeze_panes = "A2"
+    ws.header(titles, widths)
 
 
 def write_header(
-    ws: Worksheet, columns: Sequence[ResultColumn], unit_labels: dict[str, str]
+    ws: SheetStream, columns: Sequence[ResultColumn], unit_labels: dict[str, str]
 ) -> None:
     """Header row of result columns, titles with units (see :func:`write_header_cells`)."""
-    titles = [col.title(unit_labels) for col in columns]
-    write_header_cells(ws, titles, [col.width for col in columns])
+    ws.header([col.title(unit_labels) for col in columns], [col.width for col in columns])
 
 
-def _finish(ws: Worksheet, n_cols: int, last_row: int) -> None:
-    ws.auto_filter.ref = f"A1:{get_column_letter(n_cols)}{max(last_row, 1)}"
+def write_value(
+    ws: SheetStream,
+    row: int,
+    col: int,
+    value: object,
+    number_format: str = "",
+    text: bool = False,
+    *,
+    bold: bool = False,
+    fill: str | None = None,
+) -> None:
+    """Set one cell (rows in order, top to bottom); strings are always text cells.
+
+    ``fill`` is a hex RGB colour (e.g. ``"FFE3B3"``).
+    """
+    code = FORMAT_TEXT if text or isinstance(value, str) else number_format
+    ws.put(row, col, value, CellFormat(number_format=code, bold=bold, fill=fill))
 
 
-def _highlight(ws: Worksheet, row: int, cols: Sequence[int]) -> None:
-    for j in cols:
-        cell = ws.cell(row=row, column=j)
-        cell.fill = HIGHLIGHT_FILL
-        cell.font = HIGHLIGHT_FONT
+def highlight(ws: SheetStream, row: int, cols: Sequence[int]) -> None:
+    """Mark cells of the row being written as governing values (amber fill, bold)."""
+    ws.restyle(row, cols, highlighted)
 
 
-def _member_block(table: ResultTable, env: MemberEnvelope) -> list[list[object]]:
-    """One member's rows of ``table``, column values zipped into rows."""
-    columns = [col.values(env) for col in table.columns]
-    sizes = {len(values) for values in columns}
-    if len(sizes) != 1:
-        raise ValueError(f"{table.sheet}: columns of member {env.member!r} differ in length")
-    return [list(row) for row in zip(*columns, strict=True)]
+# ---------------------------------------------------------------- tables
+
+
+def _styles(styles: StyleSheet, columns: Sequence[ResultColumn]) -> tuple[list[int], list[int]]:
+    """Each column's plain and highlighted style index."""
+    formats = [column_format(col) for col in columns]
+    return [styles.xf(f) for f in formats], [styles.xf(highlighted(f)) for f in formats]
 
 
 def write_table(
-    wb: Workbook,
+    book: ResultBook,
     table: ResultTable,
     envelopes: Sequence[MemberEnvelope],
     unit_labels: dict[str, str],
@@ -154,40 +126,39 @@ def write_table(
     written and the row count.
     """
     columns = table.columns
-    marked = {
-        name: [j for j, col in enumerate(columns, start=1) if col.effect == name]
+    plain, marked = _styles(book.styles, columns)
+    effects = {
+        effect_named(name): [j for j, col in enumerate(columns) if col.effect == name]
         for name in table.highlights
     }
-    sheets: list[Worksheet] = []
-    row = 1
-    total = 0
+    sheets: list[str] = []
+    on_sheet = total = 0
 
-    def next_sheet() -> Worksheet:
+    def next_sheet() -> SheetStream:
         name = table.sheet if not sheets else f"{table.sheet} {len(sheets) + 1}"
-        ws = new_result_sheet(wb, name)
+        ws = book.new_sheet(name, rows=max_rows + 1, columns=len(columns))
         write_header(ws, columns, unit_labels)
-        sheets.append(ws)
+        ws.autofilter = True
+        sheets.append(name)
         return ws
 
     ws = next_sheet()
     for env in envelopes:
-        block = _member_block(table, env)
-        if len(block) > max_rows:
+        block = [col.values(env) for col in columns]
+        n = len(block[0])
+        if any(len(values) != n for values in block):
+            raise ValueError(f"{table.sheet}: columns of member {env.member!r} differ in length")
+        if n > max_rows:
             raise ValueError(f"member {env.member!r} has more rows than one sheet holds")
-        if row - 1 + len(block) > max_rows:
-            _finish(ws, len(columns), row)
+        if on_sheet + n > max_rows:
             ws = next_sheet()
-            row = 1
-        first = row + 1
-        for values in block:
-            row += 1
-            for j, (col, value) in enumerate(zip(columns, values, strict=True), start=1):
-                if value is not None:
-                    write_value(ws, row, j, value, col.number_format, col.text)
-        total += len(block)
-        for name, cols in marked.items():
-            i = governing_row(effect_named(name), env)
+            on_sheet = 0
+        marks: dict[tuple[int, int], int] = {}
+        for effect, cols in effects.items():
+            i = governing_row(effect, env)
             if i is not None:
-                _highlight(ws, first + i, cols)
-    _finish(ws, len(columns), row)
-    return WrittenTable(sheets=tuple(s.title for s in sheets), rows=total)
+                marks.update({(i, j): marked[j] for j in cols})
+        ws.block(block, plain, marks)
+        on_sheet += n
+        total += n
+    return WrittenTable(sheets=tuple(sheets), rows=total)

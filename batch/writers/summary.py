@@ -8,31 +8,28 @@ fits on one sheet; the full table is always in the run's checkpoint store.
 
 from __future__ import annotations
 
-from openpyxl.workbook.workbook import Workbook
-
-from batch.results import FORMAT_VALUE, VEHICLE_SUMMARY_COLUMNS, VEHICLE_SUMMARY_SHEET
+from batch.results import FORMAT_TEXT, FORMAT_VALUE, VEHICLE_SUMMARY_COLUMNS, VEHICLE_SUMMARY_SHEET
 from batch.run import RunResult
-from batch.writers.sheets import new_result_sheet, write_header_cells, write_value
+from batch.writers.package import ResultBook
+from batch.writers.styles import CellFormat
 
 __all__ = ["write_vehicle_summary"]
 
 
-def write_vehicle_summary(wb: Workbook, result: RunResult, unit_labels: dict[str, str]) -> bool:
+def write_vehicle_summary(book: ResultBook, result: RunResult, unit_labels: dict[str, str]) -> bool:
     """Add the Vehicle Summary sheet; False (nothing written) when it would not fit."""
     if result.peaks is None:
         return False
-    ws = new_result_sheet(wb, VEHICLE_SUMMARY_SHEET)
     titles = ["Member", "Vehicle"] + [
         f"{name} ({unit_labels[quantity]})" for name, quantity in VEHICLE_SUMMARY_COLUMNS
     ]
-    write_header_cells(ws, titles, [16.0, 18.0] + [12.0] * len(VEHICLE_SUMMARY_COLUMNS))
-    row = 1
+    ws = book.new_sheet(VEHICLE_SUMMARY_SHEET, columns=len(titles))
+    ws.header(titles, [16.0, 18.0] + [12.0] * len(VEHICLE_SUMMARY_COLUMNS))
+    ws.autofilter = True
+    text = book.styles.xf(CellFormat(number_format=FORMAT_TEXT))
+    value = book.styles.xf(CellFormat(number_format=FORMAT_VALUE))
+    styles = [text, text] + [value] * len(VEHICLE_SUMMARY_COLUMNS)
+    vehicles = [v.id for v in result.case.vehicles]
     for member, per_vehicle in zip(result.case.members, result.peaks, strict=True):
-        for vehicle, values in zip(result.case.vehicles, per_vehicle, strict=True):
-            row += 1
-            write_value(ws, row, 1, member.id)
-            write_value(ws, row, 2, vehicle.id)
-            for j, value in enumerate(values, start=3):
-                write_value(ws, row, j, float(value), FORMAT_VALUE)
-    ws.auto_filter.ref = f"A1:{ws.cell(row=1, column=len(titles)).column_letter}{row}"
+        ws.block([[member.id] * len(vehicles), vehicles, *per_vehicle.T.tolist()], styles)
     return True
