@@ -3,9 +3,11 @@
 The fleet is expanded to load cases once (:func:`batch.loadcases.fleet_cases`).
 Members are then analysed in chunks — serially, on local worker processes, or on
 a Dask cluster — and each member's result is identical whichever way it ran. A
-member's result is its envelope (:func:`batch.engine.envelope_of`) and its
-per-vehicle peaks: for every vehicle, the extreme M max, M min, V max, V min,
-R max and R min over all stations and supports.
+member's result is its envelope (:func:`batch.engine.envelope_of`), its
+per-vehicle peaks (for every vehicle, the extreme M max, M min, V max, V min,
+R max and R min over all stations and supports) and, when the case asks for it,
+its load rating and screening (:mod:`batch.assess`), computed in the same worker
+from the same load-case effects.
 
 With a :class:`~batch.store.CheckpointStore`, every finished member is written to
 it as soon as its chunk returns, and members already there from an interrupted
@@ -25,16 +27,19 @@ import time
 import warnings
 from collections.abc import Callable, Iterator
 from concurrent.futures import FIRST_COMPLETED, Future, ProcessPoolExecutor, wait
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from datetime import datetime, timezone
 from pathlib import Path
 
 import numpy as np
 from numpy.typing import NDArray
 
-from batch.engine import CaseEffects, LoadCase, MemberEnvelope, case_effects, envelope_of
+from batch.assess import AssessmentPlan, MemberAssessment, assess_member
+from batch.engine import LoadCase, MemberEnvelope, case_effects, envelope_of
+from batch.engine.influence import InfluenceLines
 from batch.loadcases import fleet_cases
 from batch.model import Case, Member, Settings
+from batch.rating import VehicleEffects, vehicle_effects
 from batch.results import EFFECTS
 from batch.store import CheckpointStore
 
@@ -75,12 +80,17 @@ class RunError(Exception):
 
 @dataclass(frozen=True, kw_only=True)
 class MemberResult:
-    """One member's envelope, per-vehicle peaks (n_vehicles, 6) and numerical warnings."""
+    """One member's results: envelope, per-vehicle peaks (n_vehicles, 6), warnings.
+
+    ``assessment`` holds its rating and screening (see
+    :class:`~batch.assess.MemberAssessment`).
+    """
 
     index: int
     envelope: MemberEnvelope
     peaks: NDArray[np.float64]
     warnings: tuple[str, ...] = ()
+    assessment: MemberAssessment = field(default_factory=MemberAssessment)
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -100,7 +110,9 @@ class RunResult:
     ``started`` is the UTC start time, ``seconds`` the wall-clock compute time.
     ``peaks`` holds every member's per-vehicle peaks (members, vehicles, 6) when
     they fit on one sheet, else None (they are in the store). ``resumed`` counts
-    the members taken from the store of an interrupted run.
+    the members taken from the store of an interrupted run. ``assessments``
+    holds each member's rating and screening, in member order (empty when the
+    case asks for neither).
     """
 
     case: Case
@@ -113,6 +125,7 @@ class RunResult:
     workers: int = 1
     resumed: int = 0
     store: Path | None = None
+    assessments: tuple[MemberAssessment, ...] = ()
 
     @property
     def n_members(self) -> int:
@@ -140,13 +153,9 @@ class RunResult:
         return sum(int(env.support_x.size) for env in self.envelopes)
 
 
-def _vehicle_peaks(
-    effects: CaseEffects, cases: tuple[LoadCase, ...], n_vehicles: int
-) -> NDArray[np.float64]:
+def _vehicle_peaks(live: VehicleEffects, il: InfluenceLines) -> NDArray[np.float64]:
     """Per vehicle, the extreme of each enveloped effect over its load cases and rows."""
-    il = effects.lines
-    starts = np.searchsorted([c.vehicle for c in cases], np.arange(n_vehicles))
-    out = np.zeros((n_vehicles, 6))
+    out = np.zeros((live.max_value.shape[0], 6))
     for col, (rows, sense) in enumerate(
         (
             (il.moment_rows, 1),
@@ -157,17 +166,23 @@ def _vehicle_peaks(
             (il.reaction_rows, -1),
         )
     ):
-        values = (effects.max_value if sense > 0 else effects.min_value)[:, rows]
-        per_case = values.max(axis=1) if sense > 0 else values.min(axis=1)
-        reduce = np.maximum if sense > 0 else np.minimum
-        out[:, col] = reduce.reduceat(per_case, starts) if len(cases) else 0.0
+        values = (live.max_value if sense > 0 else live.min_value)[:, rows]
+        out[:, col] = values.max(axis=1) if sense > 0 else values.min(axis=1)
     return out
 
 
 def analyse_member(
-    index: int, member: Member, cases: tuple[LoadCase, ...], settings: Settings, n_vehicles: int
+    index: int,
+    member: Member,
+    cases: tuple[LoadCase, ...],
+    settings: Settings,
+    n_vehicles: int,
+    plan: AssessmentPlan | None = None,
 ) -> MemberResult:
-    """Envelope and per-vehicle peaks of one member; :class:`RunError` if it cannot be done."""
+    """Envelope, per-vehicle peaks and (with a ``plan``) rating and screening of one member.
+
+    Raises :class:`RunError` if the member cannot be analysed.
+    """
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
         try:
@@ -175,14 +190,19 @@ def analyse_member(
         except ValueError as exc:  # includes UnstableMemberError
             raise RunError(member.id, str(exc)) from exc
         env = envelope_of(member.id, effects, tuple(c.label for c in cases))
-        peaks = _vehicle_peaks(effects, cases, n_vehicles)
+        peaks = _vehicle_peaks(vehicle_effects(effects, cases, n_vehicles), effects.lines)
+        assessment = (
+            MemberAssessment() if plan is None else assess_member(member, effects, cases, plan)
+        )
     for effect in EFFECTS:
         if not np.all(np.isfinite(effect.extremes(env).value)):
             raise RunError(member.id, f"{effect.name} is not a finite number")
     notes = tuple(
         dict.fromkeys(f"member {member.id!r}: numerical warning: {w.message}" for w in caught)
     )
-    return MemberResult(index=index, envelope=env, peaks=peaks, warnings=notes)
+    return MemberResult(
+        index=index, envelope=env, peaks=peaks, warnings=notes, assessment=assessment
+    )
 
 
 @dataclass(frozen=True)
@@ -191,11 +211,12 @@ class _Chunk:
     cases: tuple[LoadCase, ...]
     settings: Settings
     n_vehicles: int
+    plan: AssessmentPlan | None = None
 
 
 def _analyse_chunk(chunk: _Chunk) -> list[MemberResult]:
     return [
-        analyse_member(i, m, chunk.cases, chunk.settings, chunk.n_vehicles)
+        analyse_member(i, m, chunk.cases, chunk.settings, chunk.n_vehicles, chunk.plan)
         for i, m in chunk.members
     ]
 
@@ -249,6 +270,7 @@ def run_case(
     clock = time.perf_counter()
     cases = tuple(fleet_cases(case.vehicles, case.settings))
     n_members, n_vehicles = len(case.members), len(case.vehicles)
+    plan = AssessmentPlan.of(case)
     store = (
         CheckpointStore(
             options.store,
@@ -262,6 +284,7 @@ def run_case(
     try:
         envelopes: dict[int, MemberEnvelope] = {}
         notes: dict[int, tuple[str, ...]] = {}
+        assessed: dict[int, MemberAssessment] = {}
         fits = n_members * n_vehicles <= SHEET_ROWS
         peaks = np.zeros((n_members, n_vehicles, 6)) if fits else None
         finished = store.finished() if store is not None else set()
@@ -269,7 +292,7 @@ def run_case(
         workers = 1 if options.cluster else _workers(options, len(todo) * len(cases))
         size = max(1, min(64, math.ceil(len(todo) / (4 * max(workers, 1)))))
         chunks = [
-            _Chunk(tuple(todo[k : k + size]), cases, case.settings, n_vehicles)
+            _Chunk(tuple(todo[k : k + size]), cases, case.settings, n_vehicles, plan)
             for k in range(0, len(todo), size)
         ]
         done = len(finished)
@@ -278,19 +301,21 @@ def run_case(
             for r in results:
                 envelopes[r.index] = r.envelope
                 notes[r.index] = r.warnings
+                assessed[r.index] = r.assessment
                 if peaks is not None:
                     peaks[r.index] = r.peaks
                 if store is not None:
-                    store.put(r.index, r.envelope, r.warnings, r.peaks)
+                    store.put(r.index, r.envelope, r.warnings, r.peaks, r.assessment)
                 done += 1
                 if progress is not None:
                     progress(done, n_members, r.envelope.member)
         if store is not None and finished:
-            for index, (env, warns) in zip(
+            for index, (env, warns, assessment) in zip(
                 sorted(finished), store.envelopes(sorted(finished)), strict=True
             ):
                 envelopes[index] = env
                 notes[index] = warns
+                assessed[index] = assessment
             if peaks is not None:
                 for row in store.peak_rows():
                     if row.member_index in finished:
@@ -309,4 +334,5 @@ def run_case(
         workers=workers,
         resumed=len(finished),
         store=options.store,
+        assessments=() if plan is None else tuple(assessed[i] for i in range(n_members)),
     )

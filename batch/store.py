@@ -16,8 +16,10 @@ may query it with any SQLite client, e.g.::
 
 Values are in the run's units with the contract's sign conventions (sagging
 moment positive, V = sum of the upward forces left of the section, reactions
-upward). Envelopes are stored as numpy ``.npz`` blobs written and read with
-``allow_pickle=False``, so a store file from elsewhere cannot run code.
+upward). Envelopes, and each member's rating and screening
+(:class:`batch.assess.MemberAssessment`), are stored as numpy ``.npz`` blobs
+written and read with ``allow_pickle=False``, so a store file from elsewhere
+cannot run code.
 """
 
 from __future__ import annotations
@@ -32,7 +34,9 @@ from pathlib import Path
 import numpy as np
 from numpy.typing import NDArray
 
+from batch.assess import MemberAssessment
 from batch.engine import Extremes, MemberEnvelope
+from batch.rating import MemberRating, MemberScreening
 
 __all__ = ["PEAK_COLUMNS", "CheckpointStore", "PeakRow", "store_path_for"]
 
@@ -53,6 +57,7 @@ CREATE TABLE IF NOT EXISTS vehicle_peaks (
     PRIMARY KEY (member_idx, vehicle_idx)
 );
 CREATE TABLE IF NOT EXISTS vehicles (idx INTEGER PRIMARY KEY, vehicle TEXT NOT NULL);
+CREATE TABLE IF NOT EXISTS assessments (idx INTEGER PRIMARY KEY, blob BLOB NOT NULL);
 CREATE VIEW IF NOT EXISTS vehicle_summary AS
     SELECT m.member AS member, v.vehicle AS vehicle, p.m_max, p.m_min, p.v_max, p.v_min,
            p.r_max, p.r_min
@@ -77,15 +82,42 @@ def store_path_for(target: Path) -> Path:
     return target.with_name(f"{target.stem}.spanfleet.sqlite")
 
 
+def _npz(arrays: dict[str, NDArray[np.generic]]) -> bytes:
+    buf = io.BytesIO()
+    np.savez(buf, allow_pickle=False, **arrays)
+    return buf.getvalue()
+
+
+def _pack_assessment(assessment: MemberAssessment) -> bytes:
+    arrays: dict[str, NDArray[np.generic]] = {}
+    for name, part in (("rating", assessment.rating), ("screening", assessment.screening)):
+        if part is not None:
+            arrays |= {f"{name}.{k}": v for k, v in vars(part).items()}
+    return _npz(arrays)
+
+
+def _unpack_assessment(blob: bytes | None) -> MemberAssessment:
+    if blob is None:
+        return MemberAssessment()
+    with np.load(io.BytesIO(blob), allow_pickle=False) as data:
+        parts: dict[str, dict[str, NDArray[np.generic]]] = {}
+        for key in data.files:
+            name, field = key.split(".")
+            parts.setdefault(name, {})[field] = data[key]
+    rating, screening = parts.get("rating"), parts.get("screening")
+    return MemberAssessment(
+        rating=None if rating is None else MemberRating(**rating),
+        screening=None if screening is None else MemberScreening(**screening),
+    )
+
+
 def _pack(env: MemberEnvelope) -> bytes:
     arrays: dict[str, NDArray[np.generic]] = {name: getattr(env, name) for name in _LAYOUT}
     for name in _EXTREMES:
         ext: Extremes = getattr(env, name)
         for field in ("value", "case", "position", "direction"):
             arrays[f"{name}.{field}"] = getattr(ext, field)
-    buf = io.BytesIO()
-    np.savez(buf, allow_pickle=False, **arrays)
-    return buf.getvalue()
+    return _npz(arrays)
 
 
 def _unpack(member: str, blob: bytes, labels: tuple[str, ...]) -> MemberEnvelope:
@@ -121,7 +153,7 @@ class CheckpointStore:
         self.resumed = row is not None and row[0] == key
         if not self.resumed:
             with self._db:
-                for table in ("members", "vehicle_peaks", "vehicles", "meta"):
+                for table in ("members", "vehicle_peaks", "vehicles", "assessments", "meta"):
                     self._db.execute(f"DELETE FROM {table}")  # fixed table names
                 self._db.execute("INSERT INTO meta VALUES ('run', ?)", (key,))
                 self._db.execute("INSERT INTO meta VALUES ('labels', ?)", (json.dumps(labels),))
@@ -139,8 +171,12 @@ class CheckpointStore:
         envelope: MemberEnvelope,
         warnings: tuple[str, ...],
         peaks: NDArray[np.float64],
+        assessment: MemberAssessment | None = None,
     ) -> None:
-        """Store one finished member, with its per-vehicle peaks (n_vehicles, 6), atomically."""
+        """Store one finished member, with its per-vehicle peaks (n_vehicles, 6), atomically.
+
+        ``assessment`` (its rating and screening) is stored when given.
+        """
         with self._db:
             self._db.execute(
                 "INSERT OR REPLACE INTO members VALUES (?, ?, ?, ?)",
@@ -150,14 +186,27 @@ class CheckpointStore:
                 "INSERT OR REPLACE INTO vehicle_peaks VALUES (?, ?, ?, ?, ?, ?, ?, ?)",
                 [(index, v, *map(float, row)) for v, row in enumerate(peaks)],
             )
+            if assessment is not None:
+                self._db.execute(
+                    "INSERT OR REPLACE INTO assessments VALUES (?, ?)",
+                    (index, _pack_assessment(assessment)),
+                )
 
-    def envelopes(self, indices: Iterable[int]) -> Iterator[tuple[MemberEnvelope, tuple[str, ...]]]:
-        """The stored envelopes and warnings of ``indices``, in that order."""
+    def envelopes(
+        self, indices: Iterable[int]
+    ) -> Iterator[tuple[MemberEnvelope, tuple[str, ...], MemberAssessment]]:
+        """The stored envelopes, warnings and assessments of ``indices``, in that order."""
         for index in indices:
-            member, blob, warnings = self._db.execute(
-                "SELECT member, envelope, warnings FROM members WHERE idx = ?", (index,)
+            member, blob, warnings, assessed = self._db.execute(
+                "SELECT m.member, m.envelope, m.warnings, a.blob FROM members m "
+                "LEFT JOIN assessments a ON a.idx = m.idx WHERE m.idx = ?",
+                (index,),
             ).fetchone()
-            yield _unpack(member, blob, self.labels), tuple(json.loads(warnings))
+            yield (
+                _unpack(member, blob, self.labels),
+                tuple(json.loads(warnings)),
+                _unpack_assessment(assessed),
+            )
 
     def peak_rows(self) -> Iterator[PeakRow]:
         """Every stored per-vehicle summary row, members and vehicles in input order."""
