@@ -7,9 +7,13 @@ Two cases, both as :class:`batch.model.Case`:
 * :data:`KVHA_INVENTORY`, US units (kip, ft): 23 girder lines (simple spans,
   two- to four-span continuous members with unequal spans and stiffnesses,
   and hinged cantilever-and-suspended-span layouts) and 12 vehicles of 2 to
-  9 axles, some with ranged spacings or lane loads.
+  9 axles, some with ranged spacings or lane loads; factored resistances at a
+  few stations of six members (Capacities), among them a deteriorated girder
+  that legal loads must be posted for and a two-girder span that does not
+  carry the heaviest permit; and the KVHA design truck as the screening
+  reference.
 * :data:`KVHA_SI_DEMO`, SI units (kN, m): a few members and vehicles to show
-  the metric path end to end.
+  the metric path end to end, with resistances at a few stations of two members.
 
 :data:`SAMPLE_WORKBOOKS` names the workbook file of each case (written by
 ``scripts/make_workbooks.py`` into ``sample_workbooks/``).
@@ -17,7 +21,7 @@ Two cases, both as :class:`batch.model.Case`:
 
 from __future__ import annotations
 
-from batch.model import Case, Category, Member, Settings, Spacing, Vehicle
+from batch.model import Capacity, Case, Category, Member, Settings, Spacing, Vehicle
 
 __all__ = ["KVHA_INVENTORY", "KVHA_SI_DEMO", "SAMPLE_WORKBOOKS"]
 
@@ -74,6 +78,23 @@ def _vehicle(
         factor=factor,
         category=category,
         description=description,
+    )
+
+
+def _capacities(
+    member: str, *rows: tuple[int, float, float | None, float | None, float | None]
+) -> tuple[Capacity, ...]:
+    """Capacities rows of a member: (span, station, Resistance M+, M-, V) each."""
+    return tuple(
+        Capacity(
+            member=member,
+            span=span,
+            station=station,
+            resistance_m_pos=m_pos,
+            resistance_m_neg=m_neg,
+            resistance_v=v,
+        )
+        for span, station, m_pos, m_neg, v in rows
     )
 
 
@@ -162,11 +183,37 @@ _US_VEHICLES = (
              "KVHA permit 9-axle transformer haul"),
 )  # fmt: skip
 
-#: The main demo inventory, US units.
+# Invented factored resistances (phi Rn: kip-ft, kip), sized so that the fleet shows every
+# outcome: comfortable ratings, thin margins, a design-level shortfall and posting.
+_US_CAPACITIES = (
+    *_capacities("KV-0215 G1", (1, 0.0, None, None, 160.0), (1, 0.5, 2000.0, None, 120.0)),
+    # Osprey Flats causeway, condition poor: legal loads rate below 1 and are posted.
+    *_capacities("KV-0412 G1", (1, 0.0, None, None, 260.0), (1, 0.5, 4450.0, None, None)),
+    # Two-girder span (system factor 0.85): the heaviest permits are not carried.
+    *_capacities("KV-0610 G1", (1, 0.0, None, None, 480.0), (1, 0.5, 23500.0, None, None)),
+    *_capacities(
+        "KV-0705 G2",
+        (1, 0.4, 2400.0, None, 230.0),
+        (1, 1.0, None, 2300.0, 230.0),
+        (2, 0.0, None, 2300.0, 230.0),
+        (2, 0.6, 2400.0, None, 230.0),
+    ),
+    *_capacities("KV-1001 G2", (1, 1.0, None, 7000.0, 300.0), (2, 0.5, 2700.0, None, 150.0)),
+)  # fmt: skip
+
+#: The main demo inventory, US units; KVHA-D1 (design truck and lane) is the screening
+#: reference.
 KVHA_INVENTORY = Case(
-    settings=Settings(units="US", directions="both", stations_per_span=10, impact=0.33),
+    settings=Settings(
+        units="US",
+        directions="both",
+        stations_per_span=10,
+        impact=0.33,
+        reference_vehicle="KVHA-D1",
+    ),
     members=_US_MEMBERS,
     vehicles=_US_VEHICLES,
+    capacities=_US_CAPACITIES,
 )
 
 #: A small metric demo, SI units (kN, m, kN/m).
@@ -190,6 +237,17 @@ KVHA_SI_DEMO = Case(
                  "KVHA metric legal 3-axle truck"),
         _vehicle("KV-SI-P5", (50.0, 120.0, 120.0, 110.0, 110.0), (3.6, 1.3, (6.0, 9.0), 1.3),
                  "permit", "KVHA metric permit 5-axle low loader"),
+    ),
+    # Invented factored resistances (kN-m, kN). KV-M01 G1 is an old, weak girder: the
+    # legal truck is posted (in tonnes).
+    capacities=(
+        *_capacities("KV-M01 G1", (1, 0.0, None, None, 800.0), (1, 0.5, 1500.0, None, None)),
+        *_capacities(
+            "KV-M02 G2",
+            (1, 0.4, 3600.0, None, 600.0),
+            (1, 1.0, None, 4600.0, 1100.0),
+            (2, 0.5, 5200.0, None, 600.0),
+        ),
     ),
 )  # fmt: skip
 
