@@ -28,13 +28,18 @@ import numpy as np
 from batch.engine import Extremes, MemberEnvelope
 
 __all__ = [
+    "ASSESSMENT_SHEETS",
     "CHARTS_SHEET",
     "EFFECTS",
     "ENVELOPES",
     "GOVERNING",
+    "RATINGS_SHEET",
+    "RATING_MATRIX_SHEET",
     "REACTIONS",
     "RESULT_TABLES",
     "RUN_LOG_SHEET",
+    "SCREENING_DETAIL_SHEET",
+    "SCREENING_SHEET",
     "VEHICLE_SUMMARY_COLUMNS",
     "VEHICLE_SUMMARY_SHEET",
     "Effect",
@@ -63,6 +68,13 @@ FORMAT_TEXT = "@"
 RUN_LOG_SHEET = "Run Log"
 CHARTS_SHEET = "Moment Charts"
 VEHICLE_SUMMARY_SHEET = "Vehicle Summary"
+#: Load rating (with a Capacities sheet) and screening (with a Reference vehicle):
+#: see batch/writers/ratings.py.
+RATINGS_SHEET = "Ratings"
+RATING_MATRIX_SHEET = "Rating Matrix"
+SCREENING_SHEET = "Screening"
+SCREENING_DETAIL_SHEET = "Screening Detail"
+ASSESSMENT_SHEETS = (RATINGS_SHEET, RATING_MATRIX_SHEET, SCREENING_SHEET, SCREENING_DETAIL_SHEET)
 
 #: Columns of the Vehicle Summary sheet after Member and Vehicle: the member's
 #: extreme of each effect under that vehicle, over all stations or supports.
@@ -458,6 +470,7 @@ _RESULT_NAMES = {t.sheet.lower() for t in RESULT_TABLES} | {
     CHARTS_SHEET.lower(),
     RUN_LOG_SHEET.lower(),
     VEHICLE_SUMMARY_SHEET.lower(),
+    *(name.lower() for name in ASSESSMENT_SHEETS),
 }
 
 

@@ -19,6 +19,7 @@ from batch.results import (
 from batch.run import RunResult
 from batch.writers.charts import write_moment_charts
 from batch.writers.package import BookProblem, ResultBook, ResultPackage, SourcePackage
+from batch.writers.ratings import write_assessments
 from batch.writers.runlog import InputInfo, write_run_log
 from batch.writers.sheets import MAX_DATA_ROWS, write_table
 from batch.writers.summary import write_vehicle_summary
@@ -64,6 +65,7 @@ def write_results(
             f"{result.store.name if result.store else '(none: the run used --no-store)'}, "
             "view vehicle_summary."
         )
+    remarks += write_assessments(book, result, max_rows)
     charted = write_moment_charts(book, result.envelopes, units, settings.chart_members)
     if charted < result.n_members:
         remarks.append(
