@@ -8,7 +8,7 @@ Two cases, both as :class:`batch.model.Case`:
   two- to four-span continuous members with unequal spans and stiffnesses,
   and hinged cantilever-and-suspended-span layouts) and 12 vehicles of 2 to
   9 axles, some with ranged spacings or lane loads; factored resistances at a
-  few stations of six members (Capacities), among them a deteriorated girder
+  few stations of five members (Capacities), among them a deteriorated girder
   that legal loads must be posted for and a two-girder span that does not
   carry the heaviest permit; and the KVHA design truck as the screening
   reference.

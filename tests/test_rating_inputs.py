@@ -135,3 +135,37 @@ def test_every_rating_setting_is_declared_once():
         assert key in keys
     assert {"ll_factor_legal", "ll_factor_permit", "reference_vehicle"} <= set(keys)
     assert Settings().screening_floor == 0.1
+
+
+def test_capacity_messages_name_the_cell_and_the_fix(make_workbook, tmp_path):
+    path = make_workbook(
+        tmp_path,
+        settings={"Reference vehicle": "KV-T9"},
+        members=[MEMBER | {"Condition factor": 0.7}],
+        extra={
+            "Capacities": [
+                CAPACITY_HEADERS[:4],
+                ["KV-0999 G9", 1, 0.5, 2900],
+                ["KV-0215 G1", 3, 0.5, 2900],
+                ["KV-0215 G1", 1, 0.55, 2900],
+                ["KV-0215 G1", 1, 0.5, None],
+            ],
+        },
+    )
+    rendered = [p.render() for p in read_input(path).problems]
+    assert rendered == [
+        "Settings!B2: Reference vehicle: 'KV-T9' is neither a vehicle of the Vehicles sheet nor "
+        "a built-in load model; give a Vehicle id or a library name such as HL-93, or leave it "
+        "blank for no screening",
+        "Members!E2: Condition factor: 0.7 is below 0.85, the lowest the MBE gives (1.00 good "
+        "or satisfactory, 0.95 fair, 0.85 poor); give a value from 0.85 to 1",
+        "Capacities!A2: Member 'KV-0999 G9' is not on the Members sheet; give the id of a "
+        "member listed there (ids are compared ignoring case and outer spaces)",
+        "Capacities!B3: Span 3: member 'KV-0215 G1' has 1 span; give span 1",
+        "Capacities!C4: Station 0.55 is not one of the stations of the span (0, 1/n, ..., 1 "
+        "with n = 10, the Stations per span setting, within 1e-06); give a station of the "
+        "Envelopes sheet, here 0.5 or 0.6, or change Stations per span",
+        "Capacities!D5: Resistance M+, Resistance M- and Resistance V are all blank, so "
+        "nothing is rated at this station; give at least one factored resistance, or delete "
+        "the row",
+    ]

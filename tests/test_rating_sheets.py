@@ -30,7 +30,10 @@ from batch.rating import posting_load, weight_in_tons
 from batch.readers import read_input
 from batch.results import ASSESSMENT_SHEETS, is_result_sheet_name
 from batch.run import run_case
+from batch.writers import InputInfo, SourcePackage, result_package
+from batch.writers.package import empty_package
 from batch.writers.ratings import RF_BANDS, SCREEN_EXCEEDED_RGB
+from batch.writers.save import atomic_save
 
 SAMPLES = Path(__file__).resolve().parent.parent / "sample_workbooks"
 REL_TOL_EXACT = 1e-12  # the sheets carry float64 numbers unchanged; hand sums round a little
@@ -220,3 +223,21 @@ def test_si_posting_is_in_tonnes(tmp_path: Path) -> None:
 @pytest.mark.parametrize("name", [*ASSESSMENT_SHEETS, "ratings", "RATING MATRIX"])
 def test_rating_sheets_are_result_sheets(name: str) -> None:
     assert is_result_sheet_name(name)
+
+
+def test_a_ratings_table_too_long_for_a_sheet_is_left_to_the_store(tmp_path: Path) -> None:
+    # The spreadsheet row limit (here lowered): the long table is left out with a remark in
+    # the Run Log, while the matrix (one row per member) still fits.
+    case = read_input(SAMPLES / "kvha-inventory.xlsx").case
+    assert case is not None
+    result = run_case(case)
+    info = InputInfo(name="case.json", digest="0" * 64, source="json", output="out.xlsx")
+    path = tmp_path / "out.xlsx"
+    package = result_package(SourcePackage(empty_package(), "out.xlsx"), result, info, max_rows=50)
+    atomic_save(package, path)
+    wb = openpyxl.load_workbook(path)
+    # 5 rated members x 12 vehicles = 60 rows > 50; the matrix needs 5 + 2.
+    assert "Ratings" not in wb.sheetnames and "Rating Matrix" in wb.sheetnames
+    assert "Screening Detail" not in wb.sheetnames and "Screening" in wb.sheetnames
+    log = [str(v) for row in wb["Run Log"].iter_rows(values_only=True) for v in row if v]
+    assert any(text.startswith("Ratings is not written: 60 rows") for text in log)

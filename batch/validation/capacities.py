@@ -108,12 +108,17 @@ def capacity_problems(
         if span is None or not ok((*at, "span")) or n_spans is None:
             continue
         if not 1 <= span <= n_spans:
+            fix = (
+                "give span 1"
+                if n_spans == 1
+                else f"give a span number from 1 to {n_spans}, counted from the member's left end"
+            )
             plural = "s" if n_spans != 1 else ""
             yield (
                 (*at, "span"),
                 "span-not-on-member",
                 f"Span {shown(span)}: member {member['id'].strip()!r} has {n_spans} span{plural}; "
-                f"give a span number from 1 to {n_spans}, counted from the member's left end",
+                f"{fix}",
                 "error",
             )
             continue
