@@ -20,6 +20,7 @@ import zipfile
 from pathlib import Path
 
 import numpy as np
+import pandas as pd
 import pytest
 from defusedxml import ElementTree
 from openpyxl import load_workbook
@@ -162,6 +163,24 @@ def test_envelopes_equal_the_engine_cell_for_cell(written: tuple[Case, Path]) ->
                     assert row[f"{eff.name} vehicle"] == env.labels[ext.case[i]]
                     assert row[f"{eff.name} direction"] in ("left-to-right", "right-to-left")
     assert k == len(rows)
+
+
+def test_pandas_reads_the_engines_numbers_bit_for_bit(written: tuple[Case, Path]) -> None:
+    # A second, independent reader (pandas over openpyxl): numbers are written in Python's
+    # shortest round-trip form, so every float64 reads back exactly.
+    case, path = written
+    frame = pd.read_excel(path, sheet_name="Envelopes")
+    cases = fleet_cases(case.vehicles, case.settings)
+    envs = [
+        member_envelope(m, cases, case.settings.stations_per_span, "both") for m in case.members
+    ]
+    for eff in (e for e in EFFECTS if e.rows == "station"):
+        unit = "kip-ft" if eff.quantity == "moment" else "kip"
+        expected = np.concatenate([eff.extremes(env).value for env in envs])
+        assert np.array_equal(frame[f"{eff.name} ({unit})"].to_numpy(dtype=float), expected)
+    assert np.array_equal(
+        frame["x (ft)"].to_numpy(dtype=float), np.concatenate([e.station_x for e in envs])
+    )
 
 
 def test_single_axle_closed_forms_reach_the_sheets(tmp_path: Path) -> None:

@@ -3,10 +3,12 @@
 The extended properties part may list the workbook's parts for file browsers
 (ECMA-376 Part 1, §22.2.2.12 HeadingPairs and §22.2.2.24 TitlesOfParts): groups
 such as "Worksheets" (the group titles are localised) with a count each, and
-one name per counted part, in group order. Removed result sheets leave their
-group and new ones join the group that holds the kept worksheets. When the
-lists do not have that shape, both are removed: they are optional, and a
-spreadsheet program writes them afresh on its next save.
+one name per counted part, in group order. Every result sheet is a worksheet,
+so only the group that holds the kept worksheets changes: removed result sheets
+leave it and new ones join it (other groups, such as named ranges, are left
+alone even where a name equals a sheet's). When the lists do not have that
+shape, both are removed: they are optional, and a spreadsheet program writes
+them afresh on its next save.
 """
 
 from __future__ import annotations
@@ -67,29 +69,17 @@ def update_sheet_list(
         ),
         None,
     )
-    if target is None and new:
-        return _without_lists(splice, root)
-    size = len(names)
-    for k, group in enumerate(groups):
-        if not group or not all(n.text in sheets for n in group):
-            continue
-        dropped = [n for n in group if n.text in gone]
-        for node in dropped:
-            splice.delete(node)
-        added = new if k == target else ()
-        if added:
-            p = group[-1].prefix
-            splice.insert(
-                group[-1].end, "".join(f"<{p}lpstr>{text(name)}</{p}lpstr>" for name in added)
-            )
-        if dropped or added:
-            number = next(c for c in variants[2 * k + 1].children)
-            splice.replace(
-                number.open_end, number.close_start, str(len(group) - len(dropped) + len(added))
-            )
-        size += len(added) - len(dropped)
-    if size != len(names):
-        splice.set_attrs(titles, {"size": str(size)})
+    if target is None:
+        return _without_lists(splice, root) if new or gone else data
+    group = groups[target]
+    dropped = [n for n in group if n.text in gone]
+    for node in dropped:
+        splice.delete(node)
+    p = group[-1].prefix
+    splice.insert(group[-1].end, "".join(f"<{p}lpstr>{text(name)}</{p}lpstr>" for name in new))
+    number = variants[2 * target + 1].children[0]
+    splice.replace(number.open_end, number.close_start, str(len(group) - len(dropped) + len(new)))
+    splice.set_attrs(titles, {"size": str(len(names) - len(dropped) + len(new))})
     return splice.apply()
 
 

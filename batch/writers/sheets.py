@@ -12,10 +12,6 @@ row, get the highlight: the soft amber fill
 :data:`~batch.writers.styles.HIGHLIGHT_RGB` and bold type. The governing row is
 known before the member's rows are written (:func:`batch.results.governing_row`),
 so rows go out strictly top to bottom.
-
-Also here, for writers that go cell by cell (rows still in order):
-:func:`new_result_sheet`, :func:`write_header_cells`, :func:`write_value` and
-:func:`highlight`.
 """
 
 from __future__ import annotations
@@ -35,12 +31,8 @@ __all__ = [
     "OWNER_MARK",
     "WrittenTable",
     "column_format",
-    "highlight",
-    "new_result_sheet",
     "write_header",
-    "write_header_cells",
     "write_table",
-    "write_value",
 ]
 
 #: Data rows that fit on one sheet below the header.
@@ -60,48 +52,11 @@ def column_format(col: ResultColumn) -> CellFormat:
     return CellFormat(number_format=FORMAT_TEXT if col.text else col.number_format)
 
 
-# ---------------------------------------------------------------- cell by cell
-
-
-def new_result_sheet(book: ResultBook, name: str) -> SheetStream:
-    """Start the result sheet ``name`` (finishing the sheet before it)."""
-    return book.new_sheet(name)
-
-
-def write_header_cells(ws: SheetStream, titles: Sequence[str], widths: Sequence[float]) -> None:
-    """Bold, filled header row; each column at least its width or its title's; row 1 frozen."""
-    ws.header(titles, widths)
-
-
 def write_header(
     ws: SheetStream, columns: Sequence[ResultColumn], unit_labels: dict[str, str]
 ) -> None:
-    """Header row of result columns, titles with units (see :func:`write_header_cells`)."""
+    """Header row of result columns: titles with units, bold on the header fill, frozen."""
     ws.header([col.title(unit_labels) for col in columns], [col.width for col in columns])
-
-
-def write_value(
-    ws: SheetStream,
-    row: int,
-    col: int,
-    value: object,
-    number_format: str = "",
-    text: bool = False,
-    *,
-    bold: bool = False,
-    fill: str | None = None,
-) -> None:
-    """Set one cell (rows in order, top to bottom); strings are always text cells.
-
-    ``fill`` is a hex RGB colour (e.g. ``"FFE3B3"``).
-    """
-    code = FORMAT_TEXT if text or isinstance(value, str) else number_format
-    ws.put(row, col, value, CellFormat(number_format=code, bold=bold, fill=fill))
-
-
-def highlight(ws: SheetStream, row: int, cols: Sequence[int]) -> None:
-    """Mark cells of the row being written as governing values (amber fill, bold)."""
-    ws.restyle(row, cols, highlighted)
 
 
 # ---------------------------------------------------------------- tables

@@ -19,10 +19,10 @@ text. Characters XML 1.0 forbids are dropped, and text past a cell's limit of
 from __future__ import annotations
 
 import math
-from collections.abc import Callable, Mapping, Sequence
+from collections.abc import Mapping, Sequence
 from typing import BinaryIO
 
-from batch.writers.styles import HEADER, CellFormat, StyleSheet
+from batch.writers.styles import HEADER, StyleSheet
 from batch.writers.xmltext import text
 
 __all__ = ["MAX_COLUMNS", "MAX_ROWS", "MAX_TEXT", "SheetStream", "column_letter"]
@@ -64,16 +64,18 @@ def _number(value: object) -> int | float | None:
     return None
 
 
-def _finite(values: Sequence[object]) -> bool:
-    return all(math.isfinite(v) for v in values if v is not None)  # type: ignore[arg-type]
+def _finite(values: Sequence[object], gaps: bool) -> bool:
+    """True when every number of ``values`` is finite (``gaps``: some values are None)."""
+    numbers = [v for v in values if v is not None] if gaps else values
+    return all(map(math.isfinite, numbers))  # type: ignore[arg-type]
 
 
 class SheetStream:
     """One worksheet, written top to bottom to ``fh`` (a binary file, e.g. a zip entry).
 
     Call :meth:`header` (or :meth:`columns` and :meth:`freeze`) before the first
-    row, then :meth:`row`, :meth:`block` or :meth:`put` for the rows in order,
-    then :meth:`close`; set :attr:`autofilter` for a filter over the rows. Cell
+    row, then :meth:`row` or :meth:`block` for the rows in order, then
+    :meth:`close`; set :attr:`autofilter` for a filter over the rows. Cell
     styles are indices from ``styles`` (see :meth:`StyleSheet.xf`). ``selected``
     marks the sheet's tab as selected (for the workbook's active sheet).
     """
@@ -97,8 +99,6 @@ class SheetStream:
         self._size = 0
         self._letters: list[str] = [""]
         self._texts: dict[str, str] = {}
-        self._held_row = 0  # the row :meth:`put` is filling, 0: none
-        self._held: dict[int, tuple[object, CellFormat]] = {}
         self.header_style = styles.xf(HEADER)
 
     # ------------------------------------------------------------ layout
@@ -187,29 +187,23 @@ class SheetStream:
             return f'<c r="{ref}"{s}><v>{number}</v></c>'
         return f'<c r="{ref}"{s} t="inlineStr">{self._inline(str(value))}</c>'
 
-    def _next_row(self, count: int, at: int | None = None) -> int:
+    def _next_row(self, count: int) -> int:
         if self._closed:
             raise ValueError(f"{self.name}: the sheet is already closed")
         if not self._started:
             self._start()
-        first = self.last_row + 1 if at is None else at
-        if first <= self.last_row:
-            raise ValueError(f"{self.name}: row {first} comes after row {self.last_row}")
+        first = self.last_row + 1
         if first + count - 1 > MAX_ROWS:
             raise ValueError(f"{self.name}: more than {MAX_ROWS:,} rows")
         self.last_row = first + count - 1
         return first
 
-    def row(
-        self, values: Sequence[object], styles: Sequence[int] | int = 0, at: int | None = None
-    ) -> int:
-        """Write the next row, or row ``at`` (``None`` values: empty cells); returns its number.
+    def row(self, values: Sequence[object], styles: Sequence[int] | int = 0) -> int:
+        """Write the next row (``None`` values: empty cells); returns its number.
 
         ``styles`` gives one style index per value, or one for all of them.
         """
-        if at is None:
-            self._release()
-        r = self._next_row(1, at)
+        r = self._next_row(1)
         each = [styles] * len(values) if isinstance(styles, int) else styles
         if len(each) != len(values):
             raise ValueError(f"{self.name}: {len(values)} values but {len(each)} styles")
@@ -220,46 +214,6 @@ class SheetStream:
         self.last_column = max(self.last_column, len(values))
         self._emit(f'<row r="{r}">{cells}</row>')
         return r
-
-    def put(self, row: int, col: int, value: object, fmt: CellFormat | None = None) -> None:
-        """Set one cell, for writers that go cell by cell: rows in order, any column order.
-
-        The cells of a row are held until a later row (or :meth:`close`) is
-        reached; an earlier row can no longer be changed.
-        """
-        if row != self._held_row:
-            if row < max(self._held_row, self.last_row + 1):
-                raise ValueError(
-                    f"{self.name}: row {row} was already written; write rows top to bottom"
-                )
-            self._release()
-            self._held_row = row
-        self._held[col] = (value, fmt or CellFormat())
-
-    def restyle(
-        self, row: int, cols: Sequence[int], change: Callable[[CellFormat], CellFormat]
-    ) -> None:
-        """Change the format of held cells of ``row`` (e.g. to highlight them)."""
-        if row != self._held_row:
-            raise ValueError(f"{self.name}: row {row} is not the row being written")
-        for col in cols:
-            value, fmt = self._held.get(col, (None, CellFormat()))
-            self._held[col] = (value, change(fmt))
-
-    def _release(self) -> None:
-        """Write the row :meth:`put` was filling, if any."""
-        if not self._held:
-            self._held_row = 0
-            return
-        width = max(self._held)
-        values: list[object] = [None] * width
-        styles = [0] * width
-        for col, (value, fmt) in self._held.items():
-            values[col - 1] = value
-            styles[col - 1] = self.styles.xf(fmt)
-        row, self._held_row = self._held_row, 0
-        self._held = {}
-        self.row(values, styles, at=row)
 
     def block(
         self,
@@ -278,7 +232,6 @@ class SheetStream:
         n = len(columns[0]) if columns else 0
         if any(len(col) != n for col in columns):
             raise ValueError(f"{self.name}: the columns of a block differ in length")
-        self._release()
         if n == 0:
             return self.last_row + 1
         first = self._next_row(n)
@@ -307,7 +260,7 @@ class SheetStream:
         s = f' s="{style}"' if style else ""
         head = f'<c r="{letter}'
         if kinds <= _NUMBERS:
-            if float in kinds and not _finite(values):
+            if float in kinds and not _finite(values, _NONE in kinds):
                 bad = next(v for v in values if v is not None and not math.isfinite(v))  # type: ignore[arg-type]
                 raise ValueError(f"{self.name}: {bad} in column {letter} is not a number")
             mid = f'"{s}><v>'
@@ -350,7 +303,6 @@ class SheetStream:
         """End the sheet: the autofilter (if :attr:`autofilter`), margins, the drawing if any."""
         if self._closed:
             return
-        self._release()
         if not self._started:
             self._start()
         tail = "</sheetData>"
