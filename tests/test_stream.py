@@ -304,3 +304,34 @@ def test_an_unfamiliar_sheet_list_is_dropped_not_guessed() -> None:
     _, root = parse(out, "app")
     assert root.find("HeadingPairs") is None and root.find("TitlesOfParts") is None
     assert root.find("Application").text == "Microsoft Excel"
+
+
+@pytest.mark.parametrize("name", ["", "   ", "a" * 32, "Load/posting", "x[1]", "why?", "'quoted"])
+def test_a_sheet_name_no_spreadsheet_allows_is_refused(name: str) -> None:
+    # Sheet names: 1-31 characters, none of [ ] : * ? / \, not starting with an apostrophe
+    # (common practice: the spreadsheet programs' own rules).
+    book = ResultBook(
+        SourcePackage(empty_package(), "x.xlsx"), zipfile.ZipFile(io.BytesIO(), "w"), None
+    )
+    with pytest.raises(ValueError, match="not a valid sheet name"):
+        book.new_sheet(name)
+
+
+def test_only_a_sheet_that_might_pass_2_gib_gets_zip64_headers(tmp_path: Path) -> None:
+    # zipfile must decide on zip64 when a streamed entry opens (Python docs, ZipFile.open
+    # force_zip64); small sheets must not carry the extension. Local file header layout and
+    # the zip64 extra field (header id 0x0001): PKWARE APPNOTE.TXT §4.3.7 and §4.5.3.
+    def write(book: ResultBook) -> None:
+        book.new_sheet("Small", rows=10, columns=20).row([1.0])
+        book.new_sheet("Huge", rows=1_048_576, columns=200).row([1.0])
+
+    path = _save(write, tmp_path)
+    data = path.read_bytes()
+    with zipfile.ZipFile(path) as zf:
+        offsets = {i.filename: i.header_offset for i in zf.infolist()}
+    for part, zip64 in (("xl/worksheets/sheet1.xml", False), ("xl/worksheets/sheet2.xml", True)):
+        at = offsets[part]
+        name_len = int.from_bytes(data[at + 26 : at + 28], "little")
+        extra_len = int.from_bytes(data[at + 28 : at + 30], "little")
+        extra = data[at + 30 + name_len : at + 30 + name_len + extra_len]
+        assert (extra[:2] == b"\x01\x00") is zip64, part

@@ -55,7 +55,8 @@ def write_moment_charts(
     charted = list(envelopes[: max(count, 0)])
     if not charted:
         return 0
-    ws = book.new_sheet(CHARTS_SHEET, columns=len(_COLUMNS))
+    rows = 1 + sum(int(env.station_x.size) for env in charted)
+    ws = book.new_sheet(CHARTS_SHEET, rows=rows, columns=len(_COLUMNS))
     write_header(ws, _COLUMNS, unit_labels)
     styles = [book.styles.xf(column_format(col)) for col in _COLUMNS]
     charts = []

@@ -33,18 +33,18 @@ from __future__ import annotations
 
 import io
 import posixpath
+import re
 import shutil
 import zipfile
 import zlib
-from collections.abc import Callable, Iterator
-from contextlib import contextmanager
+from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import BinaryIO
 from urllib.parse import unquote
 
 from batch.results import is_result_sheet_name
 from batch.writers.docprops import update_sheet_list
-from batch.writers.stream import SheetStream
+from batch.writers.stream import MAX_ROWS, SheetStream
 from batch.writers.styles import StyleSheet
 from batch.writers.xmltext import Node, Splice, XmlPartError, attr, parse, text
 
@@ -78,8 +78,11 @@ _ROOT_RELS = "_rels/.rels"
 _CONTENT_TYPES = "[Content_Types].xml"
 #: A part this large (bytes) is written with zip64 headers (zipfile's limit without them).
 _ZIP64_AT = 2**31 - 1
-#: Generous upper bound of one streamed cell's bytes, to know when a sheet needs zip64.
-_CELL_BYTES = 64
+#: Generous bound of one streamed cell's bytes (a number, or a text cell with a longish
+#: id), to know when a sheet might need zip64.
+_CELL_BYTES = 100
+#: Characters a sheet name may not hold (its length is at most 31; spreadsheet limits).
+_BAD_NAME = re.compile(r"[\[\]:*?/\\]")
 _NEEDS_OUT = "open it in a spreadsheet program, save it as .xlsx and run again"
 
 
@@ -340,9 +343,9 @@ class _NewSheet:
 class ResultBook:
     """Where the writers put their sheets: one open sheet at a time, streamed into the package.
 
-    Get a sheet with :meth:`new_sheet` (or the :meth:`sheet` context manager),
-    write it top to bottom, and start the next; a sheet is finished when the
-    next one starts or the book is finished. ``styles`` gives cell style indices.
+    Get a sheet with :meth:`new_sheet`, write it top to bottom, and start the
+    next; a sheet is finished when the next one starts or the book is finished.
+    ``styles`` gives cell style indices.
     """
 
     def __init__(
@@ -390,13 +393,17 @@ class ResultBook:
         """Names of the sheets written so far, in order."""
         return tuple(s.stream.name for s in self.sheets)
 
-    def new_sheet(self, name: str, *, rows: int = 1_048_576, columns: int = 64) -> SheetStream:
+    def new_sheet(self, name: str, *, rows: int = MAX_ROWS, columns: int = 64) -> SheetStream:
         """Start the sheet ``name``, finishing the one before.
 
-        ``rows`` × ``columns`` bound the sheet's size (only to decide whether
-        its part needs zip64 headers). Raises :class:`SheetNameTaken` when a
-        kept sheet has that name in any case.
+        ``rows`` (header included) and ``columns`` bound the sheet's size: only
+        a sheet that might pass 2 GiB of XML is written with zip64 headers, which
+        some programs read less well, so give bounds as tight as you know.
+        Raises :class:`SheetNameTaken` when a kept sheet has that name in any
+        case, ``ValueError`` for a name no sheet may have.
         """
+        if not name.strip() or len(name) > 31 or _BAD_NAME.search(name) or name[0] == "'":
+            raise ValueError(f"{name!r} is not a valid sheet name")
         if name.lower() in self._taken_names:
             raise SheetNameTaken(name)
         self._finish_open()
@@ -409,13 +416,6 @@ class ResultBook:
         self.sheets.append(entry)
         self._open = (entry, fh)
         return stream
-
-    @contextmanager
-    def sheet(self, name: str, **size: int) -> Iterator[SheetStream]:
-        """:meth:`new_sheet` as a context: the sheet is finished at the end of the block."""
-        stream = self.new_sheet(name, **size)
-        yield stream
-        self._finish_open()
 
     def add_drawing(self, stream: SheetStream, drawing: bytes, charts: tuple[bytes, ...]) -> None:
         """Give the open sheet ``stream`` a drawing part holding ``charts``.

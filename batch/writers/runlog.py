@@ -161,8 +161,9 @@ def write_run_log(
     notes: Sequence[str] = (),
 ) -> None:
     """Add the Run Log sheet; ``sheets`` are the result sheets written, ``notes`` about them."""
-    ws = book.new_sheet(RUN_LOG_SHEET, columns=2)
+    rows = list(_rows(result, info, sheets, notes))
+    ws = book.new_sheet(RUN_LOG_SHEET, rows=len(rows) + 1, columns=2)
     ws.header(("Item", "Value"), (30, 100))
     looks = {kind: [book.styles.xf(f) for f in pair] for kind, pair in _LOOKS.items()}
-    for item, value, style in _rows(result, info, sheets, notes):
+    for item, value, style in rows:
         ws.row((item, value), looks[style])

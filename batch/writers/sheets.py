@@ -88,10 +88,12 @@ def write_table(
     }
     sheets: list[str] = []
     on_sheet = total = 0
+    expected = sum(len(columns[0].values(env)) for env in envelopes)
 
     def next_sheet() -> SheetStream:
         name = table.sheet if not sheets else f"{table.sheet} {len(sheets) + 1}"
-        ws = book.new_sheet(name, rows=max_rows + 1, columns=len(columns))
+        rows = min(max_rows, expected - total) + 1
+        ws = book.new_sheet(name, rows=rows, columns=len(columns))
         write_header(ws, columns, unit_labels)
         ws.autofilter = True
         sheets.append(name)

@@ -23,7 +23,8 @@ def write_vehicle_summary(book: ResultBook, result: RunResult, unit_labels: dict
     titles = ["Member", "Vehicle"] + [
         f"{name} ({unit_labels[quantity]})" for name, quantity in VEHICLE_SUMMARY_COLUMNS
     ]
-    ws = book.new_sheet(VEHICLE_SUMMARY_SHEET, columns=len(titles))
+    rows = 1 + result.n_members * result.n_vehicles
+    ws = book.new_sheet(VEHICLE_SUMMARY_SHEET, rows=rows, columns=len(titles))
     ws.header(titles, [16.0, 18.0] + [12.0] * len(VEHICLE_SUMMARY_COLUMNS))
     ws.autofilter = True
     text = book.styles.xf(CellFormat(number_format=FORMAT_TEXT))
