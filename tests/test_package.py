@@ -182,6 +182,20 @@ def test_governing_becomes_active_when_the_active_sheet_was_a_result(
     assert [ws.title for ws in after.worksheets if ws.sheet_view.tabSelected] == ["Governing"]
 
 
+def test_the_first_visible_tab_stays_a_valid_index(engineer_book: Path) -> None:
+    # workbookView firstSheet: index of the first sheet tab shown (ECMA-376 §18.2.30).
+    _run(engineer_book)
+    wb = load_workbook(engineer_book)
+    last = len(wb.sheetnames) - 1
+    wb.active = last  # Run Log
+    wb.views[0].firstSheet = last
+    wb.save(engineer_book)
+    _run(engineer_book)
+    view = load_workbook(engineer_book).views[0]
+    assert view.activeTab == 6  # four kept sheets, then Governing third of the results
+    assert view.firstSheet is None or view.firstSheet <= view.activeTab
+
+
 def _prefixed(path: Path) -> Path:
     """The workbook with its workbook and style parts written with an ``x:`` prefix.
 
