@@ -28,7 +28,7 @@ from openpyxl.workbook.defined_name import DefinedName
 from batch.model import Case, Member, Settings, Vehicle
 from batch.results import is_result_sheet_name
 from batch.run import run_case
-from batch.writers import InputInfo, SourcePackage, result_package
+from batch.writers import BookProblem, InputInfo, SourcePackage, result_package
 from batch.writers.package import OWNER_MARK, empty_package
 from batch.writers.save import atomic_save
 
@@ -285,3 +285,13 @@ def test_a_macro_workbook_copied_to_xlsx_loses_only_its_macro_project(
             and "vbaProject.bin" not in zf.read("xl/_rels/workbook.xml.rels").decode()
         )
     assert "Inspection notes" in load_workbook(copy).sheetnames
+
+
+def test_a_package_holding_a_part_twice_is_refused(engineer_book: Path) -> None:
+    # Part names are unique, compared without case (ECMA-376 Part 2, §9.1.1.2); zip itself
+    # allows a name twice, and readers then disagree on which copy counts.
+    buffer = io.BytesIO(engineer_book.read_bytes())
+    with zipfile.ZipFile(buffer, "a") as zf:
+        zf.writestr("XL/Styles.xml", b"<other/>")
+    with pytest.raises(BookProblem, match=r"holds the part xl/styles\.xml twice"):
+        SourcePackage(buffer.getvalue(), engineer_book.name)

@@ -37,6 +37,7 @@ import re
 import shutil
 import zipfile
 import zlib
+from collections import Counter
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import BinaryIO
@@ -162,6 +163,12 @@ class SourcePackage:
     def _read_structure(self) -> None:
         self.infos = [i for i in self.zip.infolist() if not i.is_dir()]
         self._lookup = {i.filename.lower(): i.filename for i in self.infos}
+        twice = [n for n, k in Counter(i.filename.lower() for i in self.infos).items() if k > 1]
+        if twice:
+            raise BookProblem(
+                f"{self.name}: the workbook holds the part {twice[0]} twice, so it is damaged "
+                "and it is not clear which copy counts; " + _NEEDS_OUT
+            )
         office = [r for r in self.rels("") if _kind(r.type) == "officeDocument" and r.part]
         if not office or office[0].part is None:
             raise KeyError("the package names no workbook part")
