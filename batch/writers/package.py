@@ -18,10 +18,8 @@ package is made from the input package:
   types, the style sheet (our formats appended, :mod:`batch.writers.styles`) and
   the sheet list in ``docProps/app.xml``.
 
-A sheet counts as spanfleet's when it has a result sheet's name
-(:func:`batch.results.is_result_sheet_name`) *and* the sheet-level name
-:data:`OWNER_MARK`; a sheet with a result name but no mark belongs to the
-engineer and stops the run (:class:`BookProblem`).
+Which sheets are an earlier run's, and what only they use, is read by
+:class:`~batch.writers.source.SourcePackage`.
 
 Formula cells of the input keep their cached values byte for byte. When an
 earlier run's sheets are replaced, the workbook is flagged for a full
@@ -31,23 +29,32 @@ results show the new values in a spreadsheet program.
 
 from __future__ import annotations
 
-import io
 import posixpath
 import re
 import shutil
 import zipfile
 import zlib
-from collections import Counter
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import BinaryIO
 from urllib.parse import unquote
 
-from batch.results import is_result_sheet_name
 from batch.writers.docprops import update_sheet_list
+from batch.writers.source import (
+    CONTENT_TYPES,
+    CT_XLSX,
+    NEEDS_OUT,
+    OWNER_MARK,
+    PKG_REL_NS,
+    REL_NS,
+    BookProblem,
+    SourcePackage,
+    empty_package,
+    rels_of,
+)
 from batch.writers.stream import MAX_ROWS, SheetStream
 from batch.writers.styles import StyleSheet
-from batch.writers.xmltext import Node, Splice, XmlPartError, attr, parse, text
+from batch.writers.xmltext import Node, Splice, attr, parse, text
 
 __all__ = [
     "OWNER_MARK",
@@ -59,24 +66,16 @@ __all__ = [
     "empty_package",
 ]
 
-#: Hidden sheet-level defined name that marks a sheet as written by spanfleet.
-OWNER_MARK = "spanfleet_result"
-
 #: zlib level of the new parts (copied parts keep zipfile's default): on this repetitive
 #: XML, level 1 compresses about three times faster than the default 6 and makes the
 #: result sheets only about a sixth larger (measured on Envelopes-like rows).
 SHEET_COMPRESSION = 1
 
-_REL_NS = "http://schemas.openxmlformats.org/officeDocument/2006/relationships"
-_PKG_REL_NS = "http://schemas.openxmlformats.org/package/2006/relationships"
 _CT = "application/vnd.openxmlformats-officedocument."
 CT_WORKSHEET = _CT + "spreadsheetml.worksheet+xml"
 CT_DRAWING = _CT + "drawing+xml"
 CT_CHART = _CT + "drawingml.chart+xml"
 CT_STYLES = _CT + "spreadsheetml.styles+xml"
-CT_XLSX = _CT + "spreadsheetml.sheet.main+xml"
-_ROOT_RELS = "_rels/.rels"
-_CONTENT_TYPES = "[Content_Types].xml"
 #: A part this large (bytes) is written with zip64 headers (zipfile's limit without them).
 _ZIP64_AT = 2**31 - 1
 #: Generous bound of one streamed cell's bytes (a number, or a text cell with a longish
@@ -84,254 +83,15 @@ _ZIP64_AT = 2**31 - 1
 _CELL_BYTES = 100
 #: Characters a sheet name may not hold (its length is at most 31; spreadsheet limits).
 _BAD_NAME = re.compile(r"[\[\]:*?/\\]")
-_NEEDS_OUT = "open it in a spreadsheet program, save it as .xlsx and run again"
-
-
-class BookProblem(Exception):
-    """The workbook cannot receive results as it is; the message says what to do."""
 
 
 class SheetNameTaken(Exception):
     """A sheet of the same name (ignoring case) exists and is not spanfleet's."""
 
 
-def _kind(rel_type: str) -> str:
-    """The last segment of a relationship type (``worksheet``, ``vbaProject`` ...)."""
-    return rel_type.rstrip("/").rpartition("/")[2]
-
-
-def _rels_of(part: str) -> str:
-    folder, name = posixpath.split(part)
-    return posixpath.join(folder, "_rels", f"{name}.rels")
-
-
 def _relative(source: str, target: str) -> str:
     """``target`` as a relationship target relative to the part ``source``."""
     return posixpath.relpath(target, posixpath.dirname(source) or ".")
-
-
-@dataclass(frozen=True)
-class Rel:
-    """One relationship: id, type, the part it points to (None: external) and its element."""
-
-    id: str
-    type: str
-    part: str | None
-    node: Node
-
-
-@dataclass(frozen=True, kw_only=True)
-class SourceSheet:
-    """A sheet of the input: its name, position, part and kind (``worksheet`` ...)."""
-
-    name: str
-    index: int
-    part: str | None
-    kind: str
-    rel: str
-
-
-class SourcePackage:
-    """An input workbook package, read for splicing.
-
-    ``ours`` are the result sheets of an earlier run (to be replaced), ``active``
-    the sheet that was active if it is kept (and ``keep_active``), ``lacks``
-    what a copy will not have (the macro project, when ``keep_vba`` is false:
-    an ``.xlsx`` workbook cannot hold one). Raises :class:`BookProblem`
-    when the package cannot be read or an engineer's sheet has a result name.
-    """
-
-    def __init__(
-        self, data: bytes, name: str, *, keep_vba: bool = True, keep_active: bool = True
-    ) -> None:
-        self.data = data
-        self.name = name
-        self.keep_vba = keep_vba
-        self.keep_active = keep_active
-        try:
-            self.zip = zipfile.ZipFile(io.BytesIO(data))
-            self._read_structure()
-            self._find_ours()
-        except (zipfile.BadZipFile, XmlPartError, KeyError, ValueError, EOFError) as exc:
-            raise BookProblem(
-                f"{name}: the workbook could not be opened to add the results ({exc}); "
-                + _NEEDS_OUT
-            ) from exc
-
-    # ------------------------------------------------------------ reading
-
-    def _read_structure(self) -> None:
-        self.infos = [i for i in self.zip.infolist() if not i.is_dir()]
-        self._lookup = {i.filename.lower(): i.filename for i in self.infos}
-        twice = [n for n, k in Counter(i.filename.lower() for i in self.infos).items() if k > 1]
-        if twice:
-            raise BookProblem(
-                f"{self.name}: the workbook holds the part {twice[0]} twice, so it is damaged "
-                "and it is not clear which copy counts; " + _NEEDS_OUT
-            )
-        office = [r for r in self.rels("") if _kind(r.type) == "officeDocument" and r.part]
-        if not office or office[0].part is None:
-            raise KeyError("the package names no workbook part")
-        self.workbook_part = office[0].part
-        self.workbook_rels = self.rels(self.workbook_part)
-        by_id = {r.id: r for r in self.workbook_rels}
-        self.workbook_xml, self.workbook = parse(self.read(self.workbook_part), self.workbook_part)
-        self.r_prefix = next(
-            (
-                k[6:] + ":"
-                for k, v in self.workbook.attrs.items()
-                if k.startswith("xmlns:") and v == _REL_NS
-            ),
-            None,
-        )
-        sheets_node = self.workbook.find("sheets")
-        if sheets_node is None:
-            raise KeyError("the workbook part lists no sheets")
-        self.sheets: list[SourceSheet] = []
-        for index, node in enumerate(sheets_node.findall("sheet")):
-            rid = next((v for k, v in node.attrs.items() if k.endswith(":id")), "")
-            rel = by_id.get(rid)
-            self.sheets.append(
-                SourceSheet(
-                    name=node.get("name") or "",
-                    index=index,
-                    part=rel.part if rel else None,
-                    kind=_kind(rel.type) if rel else "",
-                    rel=rid,
-                )
-            )
-        self.styles_part = next(
-            (r.part for r in self.workbook_rels if _kind(r.type) == "styles" and r.part), None
-        )
-        # Parse now what a save edits, so a damaged part is refused before any work is done.
-        parse(self.read(_CONTENT_TYPES), _CONTENT_TYPES)
-        if self.styles_part is not None:
-            StyleSheet(self.read(self.styles_part), self.styles_part)
-        self.app_part = self._app_part()
-
-    def _app_part(self) -> str | None:
-        """The extended properties part, if there is one and it can be edited.
-
-        It is optional metadata; a damaged one is copied as it is.
-        """
-        part = next(
-            (r.part for r in self.rels("") if _kind(r.type) == "extended-properties" and r.part),
-            None,
-        )
-        if part is None:
-            return None
-        try:
-            parse(self.read(part), part)
-        except XmlPartError:
-            return None
-        return part
-
-    def exists(self, part: str) -> bool:
-        """True when the package has ``part`` (part names ignore case, OPC §9.1.1.2)."""
-        return part.lower() in self._lookup
-
-    def read(self, part: str) -> bytes:
-        """The bytes of ``part``."""
-        return self.zip.read(self._lookup[part.lower()])
-
-    def rels(self, part: str) -> list[Rel]:
-        """The relationships of ``part`` (``""``: the package's own)."""
-        rels_part = _ROOT_RELS if not part else _rels_of(part)
-        if not self.exists(rels_part):
-            return []
-        _, root = parse(self.read(rels_part), rels_part)
-        out = []
-        for node in root.findall("Relationship"):
-            target = unquote(node.get("Target") or "")
-            if node.get("TargetMode") == "External" or not target:
-                path = None
-            elif target.startswith("/"):
-                path = target.lstrip("/")
-            else:
-                path = posixpath.normpath(posixpath.join(posixpath.dirname(part), target))
-            if path is not None and self.exists(path):
-                path = self._lookup[path.lower()]
-            out.append(Rel(node.get("Id") or "", node.get("Type") or "", path, node))
-        return out
-
-    def _find_ours(self) -> None:
-        marked = set()
-        names = self.workbook.find("definedNames")
-        for node in names.findall("definedName") if names is not None else []:
-            local = node.get("localSheetId")
-            if node.get("name") == OWNER_MARK and local is not None and local.isdigit():
-                marked.add(int(local))
-        ours = []
-        for sheet in self.sheets:
-            if not is_result_sheet_name(sheet.name):
-                continue
-            if sheet.index not in marked:
-                raise BookProblem(
-                    f"{sheet.name}: this sheet has the name of a spanfleet result sheet but was "
-                    "not written by spanfleet, so it will not be replaced; rename it and run again"
-                )
-            ours.append(sheet.name)
-        self.ours = tuple(ours)
-        view = self.workbook.find("bookViews")
-        first_view = view.find("workbookView") if view is not None else None
-        tab = first_view.get("activeTab", "0") if first_view is not None else "0"
-        index = int(tab) if tab and tab.isdigit() else 0
-        active = self.sheets[index].name if index < len(self.sheets) else None
-        self.active = active if active not in self.ours and self.keep_active else None
-        vba = [r for r in self.workbook_rels if _kind(r.type) == "vbaProject"]
-        self.dropped_rels = {r.id for r in vba} if not self.keep_vba else set()
-        self.lacks = ("macros (VBA)",) if vba and not self.keep_vba else ()
-        self.dropped = self._dropped_parts()
-
-    def _dropped_parts(self) -> set[str]:
-        """The parts a splice leaves out: our earlier sheets and what nothing else uses."""
-        blocked = {s.part for s in self.sheets if s.name in self.ours and s.part}
-        blocked |= {r.part for r in self.workbook_rels if r.id in self.dropped_rels and r.part}
-        before = self._reachable(set())
-        after = self._reachable(blocked)
-        dropped = before - after
-        return dropped | {_rels_of(p) for p in dropped if self.exists(_rels_of(p))}
-
-    def _reachable(self, blocked: set[str]) -> set[str]:
-        seen: set[str] = set()
-        todo = [r.part for r in self.rels("") if r.part]
-        while todo:
-            part = todo.pop()
-            if part in seen or part in blocked:
-                continue
-            seen.add(part)
-            todo.extend(r.part for r in self.rels(part) if r.part)
-        return seen
-
-
-def empty_package() -> bytes:
-    """A valid workbook package with no sheets, the base of a results-only workbook."""
-    ns = "http://schemas.openxmlformats.org/spreadsheetml/2006/main"
-    parts = {
-        _CONTENT_TYPES: (
-            '<Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types">'
-            '<Default Extension="rels" '
-            'ContentType="application/vnd.openxmlformats-package.relationships+xml"/>'
-            '<Default Extension="xml" ContentType="application/xml"/>'
-            f'<Override PartName="/xl/workbook.xml" ContentType="{CT_XLSX}"/></Types>'
-        ),
-        _ROOT_RELS: (
-            f'<Relationships xmlns="{_PKG_REL_NS}"><Relationship Id="rId1" '
-            f'Type="{_REL_NS}/officeDocument" Target="xl/workbook.xml"/></Relationships>'
-        ),
-        "xl/workbook.xml": (
-            f'<workbook xmlns="{ns}" xmlns:r="{_REL_NS}"><bookViews><workbookView/></bookViews>'
-            "<sheets/></workbook>"
-        ),
-        "xl/_rels/workbook.xml.rels": f'<Relationships xmlns="{_PKG_REL_NS}"/>',
-    }
-    out = io.BytesIO()
-    with zipfile.ZipFile(out, "w", zipfile.ZIP_DEFLATED) as zf:
-        for name, xml in parts.items():
-            info = zipfile.ZipInfo(name, date_time=(1980, 1, 1, 0, 0, 0))
-            info.compress_type = zipfile.ZIP_DEFLATED
-            zf.writestr(info, '<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n' + xml)
-    return out.getvalue()
 
 
 # ---------------------------------------------------------------- writing
@@ -390,7 +150,7 @@ class ResultBook:
         k = 1
         while True:
             part = posixpath.join(base, folder, f"{stem}{k}.{ext}")
-            if part.lower() not in self._taken and _rels_of(part).lower() not in self._taken:
+            if part.lower() not in self._taken and rels_of(part).lower() not in self._taken:
                 self._taken.add(part.lower())
                 return part
             k += 1
@@ -457,7 +217,7 @@ class ResultBook:
         drawing, charts = entry.drawing
         drawing_part = self._fresh("drawings", "drawing")
         rels = [(1, "drawing", _relative(entry.part, drawing_part))]
-        self._write(_rels_of(entry.part), _rels_xml(rels))
+        self._write(rels_of(entry.part), _rels_xml(rels))
         self._write(drawing_part, drawing)
         chart_rels = []
         for k, chart in enumerate(charts, start=1):
@@ -465,7 +225,7 @@ class ResultBook:
             self._write(chart_part, chart)
             entry.charts_at.append(chart_part)
             chart_rels.append((k, "chart", _relative(drawing_part, chart_part)))
-        self._write(_rels_of(drawing_part), _rels_xml(chart_rels))
+        self._write(rels_of(drawing_part), _rels_xml(chart_rels))
         entry.charts_at.insert(0, drawing_part)
 
     # ------------------------------------------------------------ the edited parts
@@ -486,8 +246,8 @@ class ResultBook:
         )
         self._write(styles_part, self.styles.xml())
         self._write(src.workbook_part, self._workbook_xml())
-        self._write(_rels_of(src.workbook_part), self._workbook_rels(styles_part))
-        self._write(_CONTENT_TYPES, self._content_types(styles_part))
+        self._write(rels_of(src.workbook_part), self._workbook_rels(styles_part))
+        self._write(CONTENT_TYPES, self._content_types(styles_part))
         if src.app_part is not None:
             kept = [s.name for s in src.sheets if s.name not in src.ours and s.kind == "worksheet"]
             self._write(
@@ -509,7 +269,7 @@ class ResultBook:
             else:
                 new_index[sheet.index] = len(new_index)
         r = src.r_prefix or "r:"
-        declare = "" if src.r_prefix else f' xmlns:r="{_REL_NS}"'
+        declare = "" if src.r_prefix else f' xmlns:r="{REL_NS}"'
         sheets_node = root.find("sheets")
         assert sheets_node is not None
         splice.append(
@@ -592,7 +352,7 @@ class ResultBook:
 
     def _workbook_rels(self, styles_part: str) -> bytes:
         src = self.source
-        rels_part = _rels_of(src.workbook_part)
+        rels_part = rels_of(src.workbook_part)
         data = src.read(rels_part) if src.exists(rels_part) else _rels_xml([])
         data, root = parse(data, rels_part)
         splice = Splice(data)
@@ -602,7 +362,7 @@ class ResultBook:
                 splice.delete(node)
         p = root.prefix
         new = [
-            f'<{p}Relationship Id="{e.rel}" Type="{_REL_NS}/worksheet" '
+            f'<{p}Relationship Id="{e.rel}" Type="{REL_NS}/worksheet" '
             f'Target="{attr(_relative(src.workbook_part, e.part))}"/>'
             for e in self.sheets
         ]
@@ -612,7 +372,7 @@ class ResultBook:
             while f"rId{k}" in ids:
                 k += 1
             new.append(
-                f'<{p}Relationship Id="rId{k}" Type="{_REL_NS}/styles" '
+                f'<{p}Relationship Id="rId{k}" Type="{REL_NS}/styles" '
                 f'Target="{attr(_relative(src.workbook_part, styles_part))}"/>'
             )
         splice.append(root, "".join(new))
@@ -620,7 +380,7 @@ class ResultBook:
 
     def _content_types(self, styles_part: str) -> bytes:
         src = self.source
-        data, root = parse(src.read(_CONTENT_TYPES), _CONTENT_TYPES)
+        data, root = parse(src.read(CONTENT_TYPES), CONTENT_TYPES)
         splice = Splice(data)
         dropped = {p.lower() for p in src.dropped}
         for node in root.findall("Override"):
@@ -665,12 +425,12 @@ def _after_sheets(root: Node) -> int:
 
 def _rels_xml(rels: list[tuple[int, str, str]]) -> bytes:
     body = "".join(
-        f'<Relationship Id="rId{k}" Type="{_REL_NS}/{kind}" Target="{attr(target)}"/>'
+        f'<Relationship Id="rId{k}" Type="{REL_NS}/{kind}" Target="{attr(target)}"/>'
         for k, kind, target in rels
     )
     return (
         '<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n'
-        f'<Relationships xmlns="{_PKG_REL_NS}">{body}</Relationships>'
+        f'<Relationships xmlns="{PKG_REL_NS}">{body}</Relationships>'
     ).encode()
 
 
@@ -688,7 +448,7 @@ def _copy(src: SourcePackage, info: zipfile.ZipInfo, out: zipfile.ZipFile) -> No
     except (zipfile.BadZipFile, zlib.error, EOFError, NotImplementedError) as exc:
         raise BookProblem(
             f"{src.name}: its part {info.filename} is damaged ({exc}), so the results were not "
-            f"saved and {src.name} was not changed; " + _NEEDS_OUT
+            f"saved and {src.name} was not changed; " + NEEDS_OUT
         ) from exc
 
 
@@ -719,8 +479,8 @@ class ResultPackage:
             p.lower()
             for p in (
                 src.workbook_part,
-                _rels_of(src.workbook_part),
-                _CONTENT_TYPES,
+                rels_of(src.workbook_part),
+                CONTENT_TYPES,
                 src.app_part or "",
                 src.styles_part or "",
             )
