@@ -263,3 +263,12 @@ def test_damaged_compressed_data(make_workbook, tmp_path):
     path = tmp_path / "inflate.xlsx"
     path.write_bytes(bytes(data))
     assert _one_file_problem(path) == "damaged-zip"
+
+
+def test_a_part_that_unpacks_hundreds_of_times_its_size_is_refused(tmp_path):
+    # Spreadsheet XML compresses about 5-20 times; a zip bomb hundreds of times or more
+    # (common practice for zip-bomb screening). 64 MB of zeros deflate to about 64 kB.
+    parts = {"[Content_Types].xml": b"<Types/>", "xl/worksheets/sheet1.xml": bytes(64 * 2**20)}
+    path = tmp_path / "deflated-zeros.xlsx"
+    path.write_bytes(_zip(parts))
+    assert _one_file_problem(path) == "zip-too-large"

@@ -36,8 +36,14 @@ __all__ = [
 
 #: Largest input file read at all (bytes on disk).
 MAX_FILE_BYTES = 100 * 2**20
-#: Largest total uncompressed size of a workbook's zip members.
-MAX_UNCOMPRESSED_BYTES = 200 * 2**20
+#: Largest total uncompressed size of a workbook's zip members. A workbook that
+#: holds the result sheets of a 10,000-member run unpacks to about 300 MB.
+MAX_UNCOMPRESSED_BYTES = 2**30
+#: A member may unpack to at most this many times its compressed size once it is
+#: larger than ZIP_RATIO_FLOOR: spreadsheet XML compresses about 5-20 times, a zip
+#: bomb hundreds or thousands of times.
+MAX_ZIP_RATIO = 200
+ZIP_RATIO_FLOOR = 16 * 2**20
 #: Most members in a workbook's zip archive.
 MAX_ZIP_MEMBERS = 10_000
 #: Most data rows read from one input sheet (the header row not counted).
@@ -119,6 +125,16 @@ def inspect_zip(data: bytes) -> Problem | None:
                     f"{_mb(MAX_UNCOMPRESSED_BYTES)} spanfleet accepts; remove unused sheets, "
                     "images and formatting, or split the inventory into several workbooks",
                 )
+            for info in infos:
+                if info.file_size > ZIP_RATIO_FLOOR and info.file_size > MAX_ZIP_RATIO * max(
+                    info.compress_size, 1
+                ):
+                    return file_problem(
+                        "zip-too-large",
+                        f"the workbook part {info.filename} would unpack to "
+                        f"{_mb(info.file_size)} from {_mb(info.compress_size)}, far more than a "
+                        f"spreadsheet compresses; it is damaged or hostile: {_SAVE_AS}",
+                    )
             names = {i.filename for i in infos}
             kind = _zip_kind(archive, names)
             if kind:

@@ -145,7 +145,9 @@ def _new_table(
     """A long-form sheet: its header row with units, frozen, with an autofilter."""
     units = case.settings.unit_labels | {"weight": _TON[case.settings.units]}
     titles = [f"{h} ({units[q]})" if q else h for h, q, _ in columns]
-    ws = book.new_sheet(name, columns=len(columns))
+    # At most one row per member and vehicle (twice that is a safe bound).
+    bound = 2 * len(case.members) * len(case.vehicles) + 1
+    ws = book.new_sheet(name, rows=bound, columns=len(columns))
     ws.header(titles, [w for _, _, w in columns])
     ws.autofilter = True
     return ws
@@ -213,7 +215,7 @@ def _matrix_sheet(
 ) -> SheetStream:
     """A matrix sheet with its three header rows: legend, vehicle ids, categories."""
     n = len(case.vehicles)
-    ws = book.new_sheet(name, columns=n + 1)
+    ws = book.new_sheet(name, rows=len(case.members) + _MATRIX_HEADER_ROWS, columns=n + 1)
     ws.columns([18.0] + [max(9.0, min(24.0, len(v.id) * 0.9 + 2)) for v in case.vehicles])
     ws.freeze(_MATRIX_HEADER_ROWS, 1)
     texts = [text for text, _ in legend]
