@@ -181,6 +181,13 @@ _US_VEHICLES = (
     _vehicle("KV-P9", (14.0, 24.0, 24.0, 27.0, 27.0, 27.0, 27.0, 24.0, 24.0),
              (12.0, 4.5, (18.0, 28.0), 5.0, 5.0, 5.0, 16.0, 4.5), "permit",
              "KVHA permit 9-axle transformer haul"),
+    # Standard load models by name (the Library column): the axle columns stay empty.
+    Vehicle(id="HL-93", library="HL-93", category="design",
+            description="AASHTO LRFD design live load, for comparison with KVHA-D1"),
+    Vehicle(id="Type 3S2", library="Type 3S2", category="legal",
+            description="AASHTO legal load, tractor with semitrailer"),
+    Vehicle(id="SU7", library="SU7", category="legal",
+            description="AASHTO specialized hauling vehicle, seven axles"),
 )  # fmt: skip
 
 # Invented factored resistances (phi Rn: kip-ft, kip), sized so that the fleet shows every
@@ -237,6 +244,8 @@ KVHA_SI_DEMO = Case(
                  "KVHA metric legal 3-axle truck"),
         _vehicle("KV-SI-P5", (50.0, 120.0, 120.0, 110.0, 110.0), (3.6, 1.3, (6.0, 9.0), 1.3),
                  "permit", "KVHA metric permit 5-axle low loader"),
+        Vehicle(id="CL-625", library="CL-625", category="design",
+                description="CSA S6 truck and lane load, by name"),
     ),
     # Invented factored resistances (kN-m, kN). KV-M01 G1 is an old, weak girder: the
     # legal truck is posted (in tonnes).

@@ -26,7 +26,7 @@ import pandas as pd
 import pytest
 
 from batch.cli import main
-from batch.rating import posting_load, weight_in_tons
+from batch.rating import gross_weight, posting_load, weight_in_tons
 from batch.readers import read_input
 from batch.results import ASSESSMENT_SHEETS, is_result_sheet_name
 from batch.run import run_case
@@ -143,7 +143,7 @@ def test_ratings_sheet_holds_the_runs_ratings(us_results: tuple[Path, Path]) -> 
             k += 1
             assert (row["Member"], row["Vehicle"]) == (member.id, vehicle.id)
             assert row["RF"] == assessment.rating.rf[v]
-            weight = weight_in_tons(sum(vehicle.axle_loads) * vehicle.factor, "US")
+            weight = weight_in_tons(gross_weight(vehicle, "US"), "US")
             posting = posting_load(row["RF"], weight) if vehicle.category == "legal" else None
             if posting is None:
                 assert np.isnan(row["Posting load (tons)"])
@@ -236,8 +236,10 @@ def test_a_ratings_table_too_long_for_a_sheet_is_left_to_the_store(tmp_path: Pat
     package = result_package(SourcePackage(empty_package(), "out.xlsx"), result, info, max_rows=50)
     atomic_save(package, path)
     wb = openpyxl.load_workbook(path)
-    # 5 rated members x 12 vehicles = 60 rows > 50; the matrix needs 5 + 2.
+    # 5 rated members x 15 vehicles = 75 rows > 50; the matrix needs 5 + 2.
+    rows = len({c.member for c in case.capacities}) * len(case.vehicles)
+    assert rows > 50
     assert "Ratings" not in wb.sheetnames and "Rating Matrix" in wb.sheetnames
     assert "Screening Detail" not in wb.sheetnames and "Screening" in wb.sheetnames
     log = [str(v) for row in wb["Run Log"].iter_rows(values_only=True) for v in row if v]
-    assert any(text.startswith("Ratings is not written: 60 rows") for text in log)
+    assert any(text.startswith(f"Ratings is not written: {rows} rows") for text in log)

@@ -293,6 +293,8 @@ def _library_known(name: str) -> bool:
 def _vehicle(v: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[_Found]:
     name = v.get("library")
     has = {k: k in v or not cx.ok((*at, k)) for k in ("axle_loads", "spacings", "lane_load")}
+    # A lane load of 0 says "no lane load of my own", which a library row may say too.
+    has["lane_load"] = has["lane_load"] and _number(v.get("lane_load")) != 0
     if isinstance(name, str) and cx.ok((*at, "library")):
         yield from _library(name, has, at)
         return
@@ -334,8 +336,9 @@ def _library(name: str, has: dict[str, bool], at: DocPath) -> Iterator[_Found]:
         yield (
             (*at, "lane_load"),
             "library-with-lane-load",
-            f"the library model {name!r} brings its own lane load, so this Lane load would "
-            "be ignored; clear it, or give your own axles instead of a Library name",
+            f"the library model {name!r} sets its own lane loading (if it has one), so this "
+            "Lane load would be ignored; clear it, or give your own axles instead of a "
+            "Library name",
             "error",
         )
     if not _library_known(name):
