@@ -15,11 +15,11 @@ from __future__ import annotations
 
 import datetime as dt
 import io
-import os
-import tempfile
 import zipfile
 from collections.abc import Mapping, Sequence
+from dataclasses import dataclass
 from pathlib import Path
+from typing import BinaryIO
 
 from openpyxl import Workbook
 from openpyxl.cell.cell import Cell
@@ -33,6 +33,7 @@ from openpyxl.writer.excel import ExcelWriter
 from batch.cautions import CAUTIONS, SIGN_CONVENTIONS
 from batch.inputs import INPUT_SHEETS, SETTING_ROWS, SETTINGS, InputColumn, InputSheet
 from batch.model import UNIT_LABELS, UNIT_SYSTEMS, Case, Spacing, UnitSystem
+from batch.writers.save import SaveError, atomic_save
 
 __all__ = [
     "GUIDE_SHEET",
@@ -341,13 +342,24 @@ def _fixed_zip(data: bytes) -> bytes:
     return out.getvalue()
 
 
+@dataclass(frozen=True)
+class _Bytes:
+    """A finished file's bytes, saved by :func:`batch.writers.save.atomic_save`."""
+
+    data: bytes
+
+    def save(self, filename: BinaryIO) -> None:
+        filename.write(self.data)
+
+
 def save_workbook(wb: Workbook, path: Path, *, overwrite: bool = False) -> None:
     """Save ``wb`` to ``path`` deterministically and atomically.
 
     The document properties set on ``wb`` are kept as they are (openpyxl's own
     save would stamp the current time). Raises ``FileExistsError`` when
     ``path`` exists and ``overwrite`` is false, ``FileNotFoundError`` when its
-    folder does not exist, ``ValueError`` when the name does not end in ``.xlsx``.
+    folder does not exist, ``ValueError`` when the name does not end in ``.xlsx``,
+    ``OSError`` (with the reason and what to do) when it cannot be written.
     """
     path = Path(path)
     if path.suffix.lower() != ".xlsx":
@@ -362,17 +374,10 @@ def save_workbook(wb: Workbook, path: Path, *, overwrite: bool = False) -> None:
     buffer = io.BytesIO()
     with zipfile.ZipFile(buffer, "w", zipfile.ZIP_DEFLATED) as archive:
         ExcelWriter(wb, archive).write_data()
-    data = _fixed_zip(buffer.getvalue())
-    fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.stem}-", suffix=".tmp")
     try:
-        with os.fdopen(fd, "wb") as handle:
-            handle.write(data)
-            handle.flush()
-            os.fsync(handle.fileno())
-        os.replace(tmp, path)
-    except BaseException:
-        Path(tmp).unlink(missing_ok=True)
-        raise
+        atomic_save(_Bytes(_fixed_zip(buffer.getvalue())), path)
+    except SaveError as exc:  # its message already says what to do
+        raise OSError(str(exc)) from exc
 
 
 def write_template(path: Path, *, overwrite: bool = False) -> None:
