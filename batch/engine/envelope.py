@@ -25,7 +25,13 @@ import numpy as np
 from numpy.typing import NDArray
 
 from batch.engine.influence import InfluenceLines, influence_lines
-from batch.engine.moving import LEFT_TO_RIGHT, RIGHT_TO_LEFT, Train, fleet_extremes_of
+from batch.engine.moving import (
+    LEFT_TO_RIGHT,
+    RIGHT_TO_LEFT,
+    FleetExtremes,
+    Train,
+    fleet_extremes_of,
+)
 from batch.model import Member
 
 __all__ = [
@@ -140,7 +146,7 @@ def _uniform_effects(
 
 
 @dataclass(frozen=True, kw_only=True)
-class CaseEffects:
+class CaseEffects(FleetExtremes):
     """Factored extremes of every load case on every effect of one member.
 
     Arrays of shape (n_cases, n_effects), effects laid out as in
@@ -154,12 +160,6 @@ class CaseEffects:
     """
 
     lines: InfluenceLines
-    max_value: NDArray[np.float64]
-    max_position: NDArray[np.float64]
-    max_direction: NDArray[np.int8]
-    min_value: NDArray[np.float64]
-    min_position: NDArray[np.float64]
-    min_direction: NDArray[np.int8]
 
 
 def case_effects(
