@@ -23,6 +23,7 @@ the train). The result is the exact worst spacing, not just the range ends.
 
 from __future__ import annotations
 
+import functools
 import itertools
 from dataclasses import dataclass
 
@@ -90,7 +91,7 @@ class _Combo:
 
 
 def _spacings(
-    il: InfluenceLines,
+    length: float,
     n_axles: int,
     spacing_low: NDArray[np.float64] | list[float] | tuple[float, ...],
     spacing_high: NDArray[np.float64] | list[float] | tuple[float, ...] | None,
@@ -105,7 +106,7 @@ def _spacings(
         raise ValueError("a spacing range must not end below its start")
     # Beyond one member length the groups can never both be on the member, so a
     # longer spacing adds nothing that the member length does not already give.
-    return lo, np.maximum(lo, np.minimum(hi, il.length))
+    return lo, np.maximum(lo, np.minimum(hi, length))
 
 
 def _check(loads: NDArray[np.float64], directions: tuple[int, ...]) -> None:
@@ -113,6 +114,38 @@ def _check(loads: NDArray[np.float64], directions: tuple[int, ...]) -> None:
         raise ValueError("axle loads must be finite numbers")
     if not directions or any(d not in (LEFT_TO_RIGHT, RIGHT_TO_LEFT) for d in directions):
         raise ValueError("directions must be one or both of +1 (left to right) and -1")
+
+
+@dataclass(frozen=True)
+class _Prepared:
+    """A checked train: loads, spacing bounds (capped at the member length) and combinations."""
+
+    loads: NDArray[np.float64]
+    lo: NDArray[np.float64]
+    hi: NDArray[np.float64]
+    combos: list[_Combo]
+
+
+@functools.lru_cache(maxsize=8192)
+def _prepared(
+    loads: tuple[float, ...], low: tuple[float, ...], high: tuple[float, ...]
+) -> _Prepared:
+    """The same train prepared once for every member whose length does not cap its ranges."""
+    p = np.ascontiguousarray(loads, dtype=float).reshape(-1)
+    lo, hi = _spacings(np.inf, p.size, low, high)
+    return _Prepared(loads=p, lo=lo, hi=hi, combos=_combos(lo, hi))
+
+
+def _prepare(il: InfluenceLines, train: Train, directions: tuple[int, ...]) -> _Prepared:
+    high = train.spacing_high or train.spacing_low
+    # Cap ranges at the member length (see _spacings) without hiding an inverted range.
+    capped = tuple(
+        max(lo, il.length) if hi > il.length else hi
+        for lo, hi in zip(train.spacing_low, high, strict=False)
+    )
+    ready = _prepared(tuple(train.loads), tuple(train.spacing_low), capped)
+    _check(ready.loads, directions)
+    return ready
 
 
 def _combos(lo: NDArray[np.float64], hi: NDArray[np.float64]) -> list[_Combo]:
@@ -195,7 +228,7 @@ def axle_extremes(
     """
     p = np.ascontiguousarray(loads, dtype=float).reshape(-1)
     _check(p, directions)
-    lo, hi = _spacings(il, p.size, spacing_low, spacing_high)
+    lo, hi = _spacings(il.length, p.size, spacing_low, spacing_high)
     parts = _partitions(il, drop_adverse_axles)
     tol = POSITION_TOL * il.length
     n_eff = il.n_effects
@@ -297,16 +330,15 @@ def fleet_extremes_of(
         True: [],
     }
     for row, t in enumerate(trains):
-        p = np.ascontiguousarray(t.loads, dtype=float).reshape(-1)
-        _check(p, directions)
-        lo, hi = _spacings(il, p.size, t.spacing_low, t.spacing_high or None)
+        ready = _prepare(il, t, directions)
         parts = _partitions(il, t.drop_adverse_axles)
-        for combo in _combos(lo, hi):
+        for combo in ready.combos:
             if not combo.free:
-                rigid[t.drop_adverse_axles].append((row, p, combo.offsets))
+                rigid[t.drop_adverse_axles].append((row, ready.loads, combo.offsets))
                 continue
             for sigma in directions:
-                both = _chain(parts, p, combo, combo.gap_bounds(lo, hi), sigma, tol)
+                gaps = combo.gap_bounds(ready.lo, ready.hi)
+                both = _chain(parts, ready.loads, combo, gaps, sigma, tol)
                 for sense, (value, pos, _) in zip((1.0, -1.0), both, strict=True):
                     out.absorb(row, sense, value, pos, np.full(n_eff, sigma, np.int8))
     sigmas = np.array(directions, dtype=float)
@@ -319,7 +351,18 @@ def fleet_extremes_of(
         high_part, low_part = _partitions(il, drop)
         high = fleet_extremes(*high_part, loads, offsets, start, sigmas, tol)
         low = high if not drop else fleet_extremes(*low_part, loads, offsets, start, sigmas, tol)
-        for k, (row, _, _) in enumerate(jobs):
-            out.absorb(row, 1.0, high[0][k], high[1][k], high[2][k])
-            out.absorb(row, -1.0, low[3][k], low[4][k], low[5][k])
+        rows = np.array([row for row, _, _ in jobs])
+        # A rigid train's only job is its result (the kernel starts from "off the member",
+        # as `out` does); the end-of-range jobs of a ranged train are absorbed one by one.
+        alone = np.bincount(rows, minlength=len(trains))[rows] == 1
+        single = rows[alone]
+        out.max_value[single], out.max_position[single], out.max_direction[single] = (
+            a[alone] for a in high[0:3]
+        )
+        out.min_value[single], out.min_position[single], out.min_direction[single] = (
+            a[alone] for a in low[3:6]
+        )
+        for k in np.flatnonzero(~alone):
+            out.absorb(int(rows[k]), 1.0, high[0][k], high[1][k], high[2][k])
+            out.absorb(int(rows[k]), -1.0, low[3][k], low[4][k], low[5][k])
     return out
