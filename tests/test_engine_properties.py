@@ -30,7 +30,7 @@ from batch.engine.influence import POSITION_TOL, mechanism_parts
 
 #: Exact method: agreement relative to each effect's natural size.
 REL_TOL_EXACT = 1e-9
-EXAMPLES = settings(max_examples=30, deadline=None)
+EXAMPLES = settings(max_examples=30, deadline=None, derandomize=True)
 
 Member = tuple[list[float], list[float], list[float], int]
 #: Where hinges may sit, as fractions of a span (see ``members``).
