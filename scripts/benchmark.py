@@ -29,7 +29,7 @@ from pathlib import Path
 import numpy as np
 
 from batch.engine.envelope import member_influence
-from batch.engine.influence import InfluenceLines
+from batch.engine.influence import InfluenceLines, influence_lines
 from batch.engine.moving import Train, fleet_extremes_of
 from batch.loadcases import fleet_cases
 from batch.model import Vehicle
@@ -111,6 +111,15 @@ def main(argv: list[str] | None = None) -> int:
         fleet_extremes_of(il, trains)
     kernel_us = (time.perf_counter() - start) / (len(ils) * len(trains)) * 1e6
     effects_3 = ils[0].n_effects
+    # The reference case of the scale issue: a 60-80-60 ft member and a three-axle truck
+    # (8, 32, 32 kip at 14 ft), both directions, at the run's stations per span.
+    reference = influence_lines([60.0, 80.0, 60.0], stations_per_span=settings.stations_per_span)
+    truck = [Train(loads=(8.0, 32.0, 32.0), spacing_low=(14.0, 14.0), spacing_high=(14.0, 14.0))]
+    fleet_extremes_of(reference, truck)
+    start = time.perf_counter()
+    for _ in range(200):
+        fleet_extremes_of(reference, truck)
+    reference_us = (time.perf_counter() - start) / 200 * 1e6
 
     # Baseline on a sample of pairs, with the exact extremes of the same pairs.
     rng = np.random.default_rng(args.seed + 1)
@@ -155,6 +164,10 @@ def main(argv: list[str] | None = None) -> int:
     print(f"effects per second   {effects / elapsed:,.0f}  (max and min of every line)")
     print(f"peak memory          {peak_mb:.0f} MB (the spanfleet process)")
     print(f"kernel, three spans  {kernel_us:.0f} us per pair ({effects_3} lines, both directions)")
+    print(
+        f"kernel, 60-80-60 ft  {reference_us:.0f} us per pair with a 3-axle truck "
+        f"({reference.n_effects} lines, both directions)"
+    )
     print(
         f"baseline (0.5 ft)    {base_per_pair * 1e3:.1f} ms per pair on {len(sample)} sampled pairs"
     )
