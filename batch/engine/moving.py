@@ -51,7 +51,37 @@ MAX_RANGES = 4
 
 
 @dataclass(frozen=True, kw_only=True)
-class AxleExtremes:
+class FleetExtremes:
+    """Extremes of axle trains per effect (see :class:`AxleExtremes`).
+
+    For one train the arrays have shape (n_effects,); for many, (n_trains, n_effects).
+    """
+
+    max_value: NDArray[np.float64]
+    max_position: NDArray[np.float64]
+    max_direction: NDArray[np.int8]
+    min_value: NDArray[np.float64]
+    min_position: NDArray[np.float64]
+    min_direction: NDArray[np.int8]
+
+    def absorb(
+        self,
+        row: int,
+        sense: float,
+        value: NDArray[np.float64],
+        position: NDArray[np.float64],
+        direction: NDArray[np.int8],
+    ) -> None:
+        """Keep, in ``row``, whichever of the held and the given extremes is worse."""
+        held = self.max_value if sense > 0 else self.min_value
+        better = sense * value > sense * held[row]
+        held[row, better] = value[better]
+        (self.max_position if sense > 0 else self.min_position)[row, better] = position[better]
+        (self.max_direction if sense > 0 else self.min_direction)[row, better] = direction[better]
+
+
+@dataclass(frozen=True, kw_only=True)
+class AxleExtremes(FleetExtremes):
     """Extremes of the axle train alone (no lane load, no factors), per effect.
 
     ``max_value[e]`` is the largest value of effect e over all positions,
@@ -63,13 +93,7 @@ class AxleExtremes:
     extreme is 0 (no position of the train gives an effect of that sign).
     """
 
-    max_value: NDArray[np.float64]
-    max_position: NDArray[np.float64]
-    max_direction: NDArray[np.int8]
     max_spacing: NDArray[np.float64]
-    min_value: NDArray[np.float64]
-    min_position: NDArray[np.float64]
-    min_direction: NDArray[np.int8]
     min_spacing: NDArray[np.float64]
 
 
@@ -273,33 +297,6 @@ class Train:
     spacing_low: tuple[float, ...] = ()
     spacing_high: tuple[float, ...] = ()
     drop_adverse_axles: bool = False
-
-
-@dataclass(frozen=True, kw_only=True)
-class FleetExtremes:
-    """Extremes of many trains, as in :class:`AxleExtremes`, shape (n_trains, n_effects)."""
-
-    max_value: NDArray[np.float64]
-    max_position: NDArray[np.float64]
-    max_direction: NDArray[np.int8]
-    min_value: NDArray[np.float64]
-    min_position: NDArray[np.float64]
-    min_direction: NDArray[np.int8]
-
-    def absorb(
-        self,
-        row: int,
-        sense: float,
-        value: NDArray[np.float64],
-        position: NDArray[np.float64],
-        direction: NDArray[np.int8],
-    ) -> None:
-        """Keep, in ``row``, whichever of the held and the given extremes is worse."""
-        held = self.max_value if sense > 0 else self.min_value
-        better = sense * value > sense * held[row]
-        held[row, better] = value[better]
-        (self.max_position if sense > 0 else self.min_position)[row, better] = position[better]
-        (self.max_direction if sense > 0 else self.min_direction)[row, better] = direction[better]
 
 
 def fleet_extremes_of(
