@@ -47,6 +47,8 @@ __all__ = [
 
 #: An extreme smaller than this fraction of the case's natural size is round-off, not an effect.
 ZERO_TOL = 1e-10
+#: Two cases whose extremes differ by less than this fraction are tied (the first wins).
+TIE_REL_TOL = 1e-12
 
 DIRECTION_CODES: dict[str, tuple[int, ...]] = {
     "both": (LEFT_TO_RIGHT, RIGHT_TO_LEFT),
@@ -253,7 +255,11 @@ def _governing(
     v = np.concatenate([pad, value[rows]])  # row 0 stands for "no case"
     p = np.concatenate([pad + np.nan, position[rows]])
     d = np.concatenate([pad.astype(np.int8), direction[rows]])
-    best = (sign * v).argmax(axis=0)
+    signed = sign * v
+    # Cases within round-off of the worst are a tie, and the first of them wins, so a
+    # symmetric member names the same vehicle at mirrored stations.
+    top = signed.max(axis=0)
+    best = (signed >= top - TIE_REL_TOL * np.abs(top)).argmax(axis=0)
     cols = np.arange(n_eff)
     case = np.where(best > 0, rows[np.maximum(best - 1, 0)], -1)
     return v[best, cols], case, p[best, cols], d[best, cols]
