@@ -37,11 +37,15 @@ from __future__ import annotations
 import functools
 from dataclasses import dataclass
 from fractions import Fraction
+from typing import TYPE_CHECKING
 
 import numpy as np
 from numpy.typing import NDArray
 
 from batch.engine.exact import null_space, solve
+
+if TYPE_CHECKING:
+    from batch.engine.kernel import SweepPlan
 
 __all__ = ["InfluenceLines", "UnstableMemberError", "influence_lines", "mechanism_parts"]
 
@@ -223,6 +227,20 @@ class InfluenceLines:
                 out_c[e, : len(piece)] = piece
             parts.append((out_b, out_n, out_c))
         return parts[0], parts[1]
+
+    @functools.cached_property
+    def plan(self) -> SweepPlan:
+        """:attr:`reduced`, bundled for the moving-load sweep (see :func:`sweep_plan`)."""
+        from batch.engine.kernel import sweep_plan
+
+        return sweep_plan(*self.reduced)
+
+    @functools.cached_property
+    def clipped_plans(self) -> tuple[SweepPlan, SweepPlan]:
+        """:attr:`clipped` (positive part, negative part), bundled for the sweep."""
+        from batch.engine.kernel import sweep_plan
+
+        return sweep_plan(*self.clipped[0]), sweep_plan(*self.clipped[1])
 
     def areas(self) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
         """Exact integrals of the positive and the negative parts of each line.

@@ -8,112 +8,155 @@ between consecutive such positions. Groups separated by a free (ranged) gap are
 then joined by a dynamic programme over their candidates that keeps the gap
 within its range. See :mod:`batch.engine.moving` for why this is exact.
 
-Everything here is plain loops over small arrays; the caller passes signed
-offsets (``sigma * d_k``) so one code path serves both directions.
+Lines with the same breaks (the moment and the shear at one station, or all
+the lines whose only breaks are the supports and hinges) form a *bundle*: the
+positions where an axle crosses a break are found once per bundle and the
+lines are swept side by side. Everything here is plain loops over whole arrays
+indexed by row (no array views in the loops: numba counts references to views
+with atomic operations, which cost more than the arithmetic). The caller passes
+a direction ``sigma`` and unsigned offsets, so one code path serves both
+directions.
 """
 
 from __future__ import annotations
 
+from typing import NamedTuple
+
 import numba as nb
 import numpy as np
+from numpy.typing import NDArray
 
-__all__ = ["chain_extremes", "cubic_crossings", "fleet_extremes"]
+__all__ = ["SweepPlan", "chain_extremes", "cubic_crossings", "fleet_extremes", "sweep_plan"]
+
+
+class SweepPlan(NamedTuple):
+    """Influence lines laid out for the sweep: bundles of lines with equal breaks.
+
+    ``order[bundle_start[u]:bundle_start[u + 1]]`` are the effect rows of bundle
+    u, ``breaks[u, :counts[u]]`` its breaks (ascending, padded). ``jumps[r, j]``
+    is the change of the Taylor coefficients (value, slope, curvature/2,
+    third derivative/6) of line ``order[r]`` as the load position passes break
+    j of its bundle: the coefficients of the piece entered minus those of the
+    piece left (zero outside the member).
+    """
+
+    order: NDArray[np.int64]
+    bundle_start: NDArray[np.int64]
+    breaks: NDArray[np.float64]
+    counts: NDArray[np.int64]
+    jumps: NDArray[np.float64]
+
+
+def sweep_plan(
+    breaks: NDArray[np.float64], counts: NDArray[np.int64], coef: NDArray[np.float64]
+) -> SweepPlan:
+    """Bundle the lines of a partition (``InfluenceLines.reduced`` layout) for the sweep."""
+    key = np.concatenate([counts[:, None].astype(float), breaks], axis=1)
+    _, first, bundle = np.unique(key, axis=0, return_index=True, return_inverse=True)
+    bundle = bundle.reshape(-1)
+    order = np.argsort(bundle, kind="stable").astype(np.int64)
+    sizes = np.bincount(bundle, minlength=first.size)
+    h = np.diff(breaks, axis=1)[..., None]  # padded pieces have zero length and coefficients
+    c0, c1, c2, c3 = (coef[..., n : n + 1] for n in range(4))
+    value = ((c3 * h + c2) * h + c1) * h + c0
+    slope = (3.0 * c3 * h + 2.0 * c2) * h + c1
+    at_end = np.concatenate([value, slope, 3.0 * c3 * h + c2, c3], axis=-1)
+    jumps = np.zeros((*breaks.shape, 4))
+    jumps[:, :-1] += coef
+    jumps[:, 1:] -= at_end
+    return SweepPlan(
+        order=order,
+        bundle_start=np.concatenate([[0], np.cumsum(sizes)]).astype(np.int64),
+        breaks=np.ascontiguousarray(breaks[first]),
+        counts=np.ascontiguousarray(counts[first]).astype(np.int64),
+        jumps=np.ascontiguousarray(jumps[order]),
+    )
 
 
 @nb.njit(cache=True)
-def _piece_ends(breaks: np.ndarray, counts: np.ndarray, coef: np.ndarray) -> np.ndarray:
-    """Taylor coefficients of every piece about its right end (value, slope, ...)."""
-    ends = np.zeros(coef.shape)
-    for e in range(coef.shape[0]):
-        for j in range(counts[e] - 1):
-            h = breaks[e, j + 1] - breaks[e, j]
-            c0, c1, c2, c3 = coef[e, j, 0], coef[e, j, 1], coef[e, j, 2], coef[e, j, 3]
-            ends[e, j, 0] = ((c3 * h + c2) * h + c1) * h + c0
-            ends[e, j, 1] = (3.0 * c3 * h + 2.0 * c2) * h + c1
-            ends[e, j, 2] = 3.0 * c3 * h + c2
-            ends[e, j, 3] = c3
-    return ends
-
-
-@nb.njit(cache=True)
-def _quad_roots(a0: float, a1: float, a2: float, h: float, out: np.ndarray) -> int:
-    """Roots of a0 + a1 t + a2 t^2 strictly inside (0, h); returns how many were written."""
+def _quad_roots(a0: float, a1: float, a2: float, h: float) -> tuple[int, float, float]:
+    """Roots of a0 + a1 t + a2 t^2 strictly inside (0, h): (how many, first, second)."""
     # Most intervals hold no root: the ends have one sign and the vertex lies outside.
     end = a0 + h * (a1 + h * a2)
     if a0 * end > 0.0:
         twice = 2.0 * a2 * h
         vertex_inside = (0.0 < -a1 < twice) if a2 > 0.0 else (twice < -a1 < 0.0)
         if not vertex_inside:
-            return 0
+            return 0, 0.0, 0.0
     scale = abs(a0) + abs(a1) * h + abs(a2) * h * h
-    count = 0
     if abs(a2) * h * h > 1e-14 * scale:
         disc = a1 * a1 - 4.0 * a2 * a0
         if disc < 0.0:
-            return 0
+            return 0, 0.0, 0.0
         sq = np.sqrt(disc)
         q = -0.5 * (a1 + sq) if a1 >= 0 else -0.5 * (a1 - sq)
-        if q != 0.0:
-            r = q / a2
-            if 0.0 < r < h:
-                out[count] = r
-                count += 1
-            r = a0 / q
-            if 0.0 < r < h:
-                out[count] = r
-                count += 1
-        return count
+        if q == 0.0:
+            return 0, 0.0, 0.0
+        r0 = q / a2
+        r1 = a0 / q
+        in0 = 0.0 < r0 < h
+        in1 = 0.0 < r1 < h
+        if in0 and in1:
+            return 2, r0, r1
+        if in0:
+            return 1, r0, 0.0
+        if in1:
+            return 1, r1, 0.0
+        return 0, 0.0, 0.0
     if a1 != 0.0:
         r = -a0 / a1
         if 0.0 < r < h:
-            out[0] = r
-            count = 1
-    return count
+            return 1, r, 0.0
+    return 0, 0.0, 0.0
 
 
 @nb.njit(cache=True)
-def _group_candidates(
-    b: np.ndarray,
+def _shift(
+    a0: float, a1: float, a2: float, a3: float, d: float
+) -> tuple[float, float, float, float]:
+    """Taylor coefficients of a cubic re-expanded a distance d further on."""
+    return (
+        a0 + d * (a1 + d * (a2 + d * a3)),
+        a1 + d * (2.0 * a2 + 3.0 * d * a3),
+        a2 + 3.0 * d * a3,
+        a3,
+    )
+
+
+@nb.njit(cache=True)
+def _events(
+    breaks: np.ndarray,
+    row: int,
     n: int,
-    c: np.ndarray,
-    ends: np.ndarray,
     loads: np.ndarray,
-    offs: np.ndarray,
-    tol: float,
-    pos: np.ndarray,
-    val: np.ndarray,
+    offsets: np.ndarray,
+    s0: int,
+    s1: int,
+    sigma: float,
     event_q: np.ndarray,
     event_break: np.ndarray,
     event_load: np.ndarray,
-    roots: np.ndarray,
     heads: np.ndarray,
 ) -> int:
-    """Fill pos/val with every candidate of one rigid group; returns the count.
+    """Every axle-on-break position of axles s0:s1 over ``breaks[row, :n]``, in order.
 
-    An *event* is axle k reaching break i, at front position q = b[i] + offs[k].
-    Before the first event every axle is off the member (E = 0). Sweeping the
-    events in order, the cubic E(q) of the current interval is carried along by
-    an exact Taylor shift, and at each event only the crossing axle's piece
-    changes: its old piece's expansion about its right end is removed and its
-    new piece's expansion about its left end is added. The shifted cubic's
-    value at an event is the limit from the left; after the crossings, the
-    limit from the right. ``event_q``, ``event_break``, ``event_load`` (n*K), ``roots`` (2) and
-    ``heads`` (n) are scratch. ``offs`` must be monotone (a train's offsets are).
+    Axle k reaches break i when the front axle is at ``breaks[row, i] + sigma *
+    offsets[k]``. The positions come as n lists (one per break) already sorted,
+    because the offsets are monotone: an n-way merge sorts them. Fills
+    ``event_q`` (front-axle position), ``event_break`` and ``event_load``;
+    returns how many.
     """
-    k_axles = loads.size
+    k_axles = s1 - s0
     total = n * k_axles
-    # Events come as n lists (one per break) already sorted by axle, because the
-    # offsets are monotone: an n-way merge sorts them in O(n * total).
-    ascending = offs[0] <= offs[k_axles - 1]
     for i in range(n):
         heads[i] = 0
     for t in range(total):
-        pick = -1
+        pick = 0
         best = np.inf
         for i in range(n):
             j = heads[i]
             if j < k_axles:
-                q = b[i] + offs[j if ascending else k_axles - 1 - j]
+                q = breaks[row, i] + sigma * offsets[s0 + (j if sigma > 0 else k_axles - 1 - j)]
                 if q < best:
                     best = q
                     pick = i
@@ -121,45 +164,203 @@ def _group_candidates(
         heads[pick] = j + 1
         event_q[t] = best
         event_break[t] = pick
-        event_load[t] = loads[j if ascending else k_axles - 1 - j]
-    a0 = 0.0
-    a1 = 0.0
-    a2 = 0.0
-    a3 = 0.0
+        event_load[t] = loads[s0 + (j if sigma > 0 else k_axles - 1 - j)]
+    return total
+
+
+@nb.njit(cache=True)
+def fleet_extremes(
+    plan: SweepPlan,
+    loads: np.ndarray,
+    offsets: np.ndarray,
+    case_start: np.ndarray,
+    sigmas: np.ndarray,
+    tol: float,
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """Extremes of many rigid axle trains (fixed spacings) in one call.
+
+    Train i has axles ``case_start[i]:case_start[i + 1]`` of ``loads`` with
+    ``offsets`` behind its front axle; every train is swept in each direction
+    of ``sigmas``. Returns, with shape (n_cases, n_effects): the maximum, its
+    front-axle position and direction, then the same for the minimum. The
+    maximum starts from 0 with position NaN and direction 0 (the train off the
+    member), and likewise the minimum.
+
+    Each line is swept in two passes. The first carries the cubic E(q) from
+    one axle-on-break position to the next by an exact Taylor shift, adding
+    each crossing axle's jump, and keeps the largest and smallest one-sided
+    limits. The second visits the cubic of every interval between those
+    positions: by the convex-hull property of its Bernstein form it cannot
+    pass the extremes found unless one of its two inner control points does,
+    and only then are its stationary points solved for.
+    """
+    order, bundle_start, breaks, counts, jumps = plan
+    n_eff = order.size
+    n_cases = case_start.size - 1
+    width = breaks.shape[1]
+    most_lines = 1
+    for u in range(counts.size):
+        most_lines = max(most_lines, bundle_start[u + 1] - bundle_start[u])
+    k_max = 1
+    for i in range(n_cases):
+        k_max = max(k_max, case_start[i + 1] - case_start[i])
+    event_q = np.empty(width * k_max)
+    event_break = np.empty(width * k_max, dtype=np.int64)
+    event_load = np.empty(width * k_max)
+    heads = np.empty(width, dtype=np.int64)
+    span_q = np.empty((width * k_max, 2))  # start and length of each interval
+    span_a = np.empty((most_lines, width * k_max, 4))  # each line's cubic on it
+    a = np.empty((most_lines, 4))
+    top = np.empty((most_lines, 2))  # largest value so far and its position
+    bot = np.empty((most_lines, 2))
+    max_v = np.zeros((n_cases, n_eff))
+    max_p = np.full((n_cases, n_eff), np.nan)
+    max_d = np.zeros((n_cases, n_eff), dtype=np.int8)
+    min_v = np.zeros((n_cases, n_eff))
+    min_p = np.full((n_cases, n_eff), np.nan)
+    min_d = np.zeros((n_cases, n_eff), dtype=np.int8)
+    for i in range(n_cases):
+        s0, s1 = case_start[i], case_start[i + 1]
+        for si in range(sigmas.size):
+            sigma = sigmas[si]
+            for u in range(counts.size):
+                r0 = bundle_start[u]
+                n_lines = bundle_start[u + 1] - r0
+                total = _events(
+                    breaks, u, counts[u], loads, offsets, s0, s1, sigma,
+                    event_q, event_break, event_load, heads,
+                )  # fmt: skip
+                for ln in range(n_lines):
+                    e = order[r0 + ln]
+                    top[ln, 0] = max_v[i, e]
+                    top[ln, 1] = max_p[i, e]
+                    bot[ln, 0] = min_v[i, e]
+                    bot[ln, 1] = min_p[i, e]
+                    for c in range(4):
+                        a[ln, c] = 0.0
+                m = 0
+                idx = 0
+                q_prev = event_q[0]
+                while idx < total:
+                    qg = event_q[idx]
+                    for ln in range(n_lines):
+                        a0, a1, a2, a3 = _shift(a[ln, 0], a[ln, 1], a[ln, 2], a[ln, 3], qg - q_prev)
+                        a[ln, 0] = a0
+                        a[ln, 1] = a1
+                        a[ln, 2] = a2
+                        if a0 > top[ln, 0]:  # limit from the left
+                            top[ln, 0] = a0
+                            top[ln, 1] = qg
+                        if a0 < bot[ln, 0]:
+                            bot[ln, 0] = a0
+                            bot[ln, 1] = qg
+                    while idx < total and event_q[idx] - qg <= tol:
+                        brk = event_break[idx]
+                        p = event_load[idx]
+                        for ln in range(n_lines):
+                            for c in range(4):
+                                a[ln, c] += p * jumps[r0 + ln, brk, c]
+                        idx += 1
+                    for ln in range(n_lines):
+                        a0 = a[ln, 0]
+                        if a0 > top[ln, 0]:  # limit from the right
+                            top[ln, 0] = a0
+                            top[ln, 1] = qg
+                        if a0 < bot[ln, 0]:
+                            bot[ln, 0] = a0
+                            bot[ln, 1] = qg
+                    if idx < total:
+                        span_q[m, 0] = qg
+                        span_q[m, 1] = event_q[idx] - qg
+                        for ln in range(n_lines):
+                            for c in range(4):
+                                span_a[ln, m, c] = a[ln, c]
+                        m += 1
+                    q_prev = qg
+                for ln in range(n_lines):
+                    high = top[ln, 0]
+                    low = bot[ln, 0]
+                    for s in range(m):
+                        h = span_q[s, 1]
+                        a0 = span_a[ln, s, 0]
+                        a1 = span_a[ln, s, 1]
+                        a2 = span_a[ln, s, 2]
+                        inner1 = a0 + a1 * h / 3.0
+                        inner2 = a0 + (2.0 * a1 + a2 * h) * h / 3.0
+                        if max(inner1, inner2) <= high and min(inner1, inner2) >= low:
+                            continue
+                        a3 = span_a[ln, s, 3]
+                        found, t0, t1 = _quad_roots(a1, 2.0 * a2, 3.0 * a3, h)
+                        for r in range(found):
+                            t = t0 if r == 0 else t1
+                            v = ((a3 * t + a2) * t + a1) * t + a0
+                            if v > high:
+                                high = v
+                                top[ln, 1] = span_q[s, 0] + t
+                            if v < low:
+                                low = v
+                                bot[ln, 1] = span_q[s, 0] + t
+                    e = order[r0 + ln]
+                    if high > max_v[i, e]:
+                        max_v[i, e] = high
+                        max_p[i, e] = top[ln, 1]
+                        max_d[i, e] = np.int8(sigma)
+                    if low < min_v[i, e]:
+                        min_v[i, e] = low
+                        min_p[i, e] = bot[ln, 1]
+                        min_d[i, e] = np.int8(sigma)
+    return max_v, max_p, max_d, min_v, min_p, min_d
+
+
+@nb.njit(cache=True)
+def _candidates(
+    jumps: np.ndarray,
+    row: int,
+    event_q: np.ndarray,
+    event_break: np.ndarray,
+    event_load: np.ndarray,
+    total: int,
+    tol: float,
+    g: int,
+    pos: np.ndarray,
+    val: np.ndarray,
+) -> int:
+    """Every candidate of one line for one rigid axle group, into ``pos[g]``/``val[g]``.
+
+    Before the first event every axle is off the member (E = 0). The cubic of
+    each interval is carried to the next event by an exact Taylor shift; its
+    value there is the limit from the left, and after the crossing axles'
+    jumps, the limit from the right. Stationary points inside each interval
+    are candidates too. Returns how many were written, in ascending position.
+    """
+    a0 = a1 = a2 = a3 = 0.0
     count = 0
     idx = 0
-    q_prev = event_q[0]
+    q_prev = event_q[g, 0]
     while idx < total:
-        qg = event_q[idx]
-        d = qg - q_prev
-        a0 += d * (a1 + d * (a2 + d * a3))
-        a1 += d * (2.0 * a2 + 3.0 * d * a3)
-        a2 += 3.0 * d * a3
-        pos[count] = qg
-        val[count] = a0  # limit from the left
-        while idx < total and event_q[idx] - qg <= tol:
-            brk = event_break[idx]
-            p = event_load[idx]
-            if brk >= 1:  # the axle leaves piece brk - 1 at its right end
-                a0 -= p * ends[brk - 1, 0]
-                a1 -= p * ends[brk - 1, 1]
-                a2 -= p * ends[brk - 1, 2]
-                a3 -= p * ends[brk - 1, 3]
-            if brk <= n - 2:  # and enters piece brk at its left end
-                a0 += p * c[brk, 0]
-                a1 += p * c[brk, 1]
-                a2 += p * c[brk, 2]
-                a3 += p * c[brk, 3]
+        qg = event_q[g, idx]
+        a0, a1, a2, a3 = _shift(a0, a1, a2, a3, qg - q_prev)
+        pos[g, count] = qg
+        val[g, count] = a0  # limit from the left
+        while idx < total and event_q[g, idx] - qg <= tol:
+            brk = event_break[g, idx]
+            p = event_load[g, idx]
+            a0 += p * jumps[row, brk, 0]
+            a1 += p * jumps[row, brk, 1]
+            a2 += p * jumps[row, brk, 2]
+            a3 += p * jumps[row, brk, 3]
             idx += 1
-        pos[count + 1] = qg
-        val[count + 1] = a0  # limit from the right
+        pos[g, count + 1] = qg
+        val[g, count + 1] = a0  # limit from the right
         count += 2
         if idx < total:
-            nr = _quad_roots(a1, 2.0 * a2, 3.0 * a3, event_q[idx] - qg, roots)
-            for r in range(nr):
-                t = roots[r]
-                pos[count] = qg + t
-                val[count] = ((a3 * t + a2) * t + a1) * t + a0
+            found, t0, t1 = _quad_roots(a1, 2.0 * a2, 3.0 * a3, event_q[g, idx] - qg)
+            if found == 2 and t1 < t0:
+                t0, t1 = t1, t0
+            for r in range(found):
+                t = t0 if r == 0 else t1
+                pos[g, count] = qg + t
+                val[g, count] = ((a3 * t + a2) * t + a1) * t + a0
                 count += 1
         q_prev = qg
     return count
@@ -167,9 +368,7 @@ def _group_candidates(
 
 @nb.njit(cache=True)
 def chain_extremes(
-    breaks: np.ndarray,
-    counts: np.ndarray,
-    coef: np.ndarray,
+    plan: SweepPlan,
     loads: np.ndarray,
     offsets: np.ndarray,
     group_start: np.ndarray,
@@ -187,14 +386,15 @@ def chain_extremes(
     maximum value, the front axle position giving it and the front-to-front
     distances (E, G-1), then the same three for the minimum.
     """
-    n_eff = breaks.shape[0]
+    order, bundle_start, breaks, counts, jumps = plan
+    n_eff = order.size
     n_groups = group_start.size - 1
     n_gaps = max(n_groups - 1, 0)
     width = breaks.shape[1]
-    max_c = 0
+    k_max = 1
     for g in range(n_groups):
-        kg = group_start[g + 1] - group_start[g]
-        max_c = max(max_c, 4 * width * kg + 2)
+        k_max = max(k_max, group_start[g + 1] - group_start[g])
+    max_c = 4 * width * k_max + 2
     pos = np.empty((n_groups, max_c))
     val = np.empty((n_groups, max_c))
     ncand = np.empty(n_groups, dtype=np.int64)
@@ -202,162 +402,79 @@ def chain_extremes(
     nxt = np.empty(max_c)
     choice = np.zeros((max(n_gaps, 1), max_c), dtype=np.int64)
     window = np.empty(max_c, dtype=np.int64)
-    event_q = np.empty(width * loads.size)
-    event_break = np.empty(width * loads.size, dtype=np.int64)
-    event_load = np.empty(width * loads.size)
-    root_scratch = np.empty(2)
+    event_q = np.empty((n_groups, width * k_max))
+    event_break = np.empty((n_groups, width * k_max), dtype=np.int64)
+    event_load = np.empty((n_groups, width * k_max))
+    n_events = np.empty(n_groups, dtype=np.int64)
     heads = np.empty(width, dtype=np.int64)
-    signed = sigma * offsets
-    ends = _piece_ends(breaks, counts, coef)
     out_v = np.empty((2, n_eff))
     out_p = np.empty((2, n_eff))
     out_d = np.zeros((2, n_eff, n_gaps))
-    for e in range(n_eff):
+    for u in range(counts.size):
         for g in range(n_groups):
-            s0, s1 = group_start[g], group_start[g + 1]
-            ncand[g] = _group_candidates(
-                breaks[e],
-                counts[e],
-                coef[e],
-                ends[e],
-                loads[s0:s1],
-                signed[s0:s1],
-                tol,
-                pos[g],
-                val[g],
-                event_q,
-                event_break,
-                event_load,
-                root_scratch,
-                heads,
-            )
-        for sense_i in range(2):
-            sense = 1.0 if sense_i == 0 else -1.0
-            last = n_groups - 1
-            for j in range(ncand[last]):
-                nxt[j] = sense * val[last, j]
-            for g in range(n_groups - 2, -1, -1):
-                lo = gap_lo[g] - tol
-                hi = gap_hi[g] + tol
-                # Candidates are sorted by position, so the window of feasible
-                # partners slides one way: a monotonic deque gives each window's
-                # best in O(1) amortised (sliding-window maximum).
-                head = 0
-                tail = 0
-                j_next = 0
-                for i in range(ncand[g]):
-                    if sigma > 0:
-                        first = pos[g, i] - hi
-                        last = pos[g, i] - lo
-                    else:
-                        first = pos[g, i] + lo
-                        last = pos[g, i] + hi
-                    while j_next < ncand[g + 1] and pos[g + 1, j_next] <= last:
-                        while tail > head and nxt[window[tail - 1]] <= nxt[j_next]:
-                            tail -= 1
-                        window[tail] = j_next
-                        tail += 1
-                        j_next += 1
-                    while tail > head and pos[g + 1, window[head]] < first:
-                        head += 1
-                    if tail > head:
-                        best[i] = sense * val[g, i] + nxt[window[head]]
-                        choice[g, i] = window[head]
-                    else:
-                        best[i] = -np.inf
-                        choice[g, i] = -1
-                for i in range(ncand[g]):
-                    nxt[i] = best[i]
-            top = -np.inf
-            arg = 0
-            for i in range(ncand[0]):
-                if nxt[i] > top:
-                    top = nxt[i]
-                    arg = i
-            out_v[sense_i, e] = sense * top
-            out_p[sense_i, e] = pos[0, arg]
-            idx = arg
-            for g in range(n_gaps):
-                nidx = choice[g, idx]
-                if nidx < 0:
-                    break
-                out_d[sense_i, e, g] = sigma * (pos[g, idx] - pos[g + 1, nidx])
-                idx = nidx
+            n_events[g] = _events(
+                breaks, u, counts[u], loads, offsets, group_start[g], group_start[g + 1], sigma,
+                event_q[g], event_break[g], event_load[g], heads,
+            )  # fmt: skip
+        for row in range(bundle_start[u], bundle_start[u + 1]):
+            e = order[row]
+            for g in range(n_groups):
+                ncand[g] = _candidates(
+                    jumps, row, event_q, event_break, event_load, n_events[g], tol, g, pos, val,
+                )  # fmt: skip
+            for sense_i in range(2):
+                sense = 1.0 if sense_i == 0 else -1.0
+                last = n_groups - 1
+                for j in range(ncand[last]):
+                    nxt[j] = sense * val[last, j]
+                for g in range(n_groups - 2, -1, -1):
+                    lo = gap_lo[g] - tol
+                    hi = gap_hi[g] + tol
+                    # Candidates are sorted by position, so the window of feasible
+                    # partners slides one way: a monotonic deque gives each window's
+                    # best in O(1) amortised (sliding-window maximum).
+                    head = 0
+                    tail = 0
+                    j_next = 0
+                    for i in range(ncand[g]):
+                        if sigma > 0:
+                            first = pos[g, i] - hi
+                            last = pos[g, i] - lo
+                        else:
+                            first = pos[g, i] + lo
+                            last = pos[g, i] + hi
+                        while j_next < ncand[g + 1] and pos[g + 1, j_next] <= last:
+                            while tail > head and nxt[window[tail - 1]] <= nxt[j_next]:
+                                tail -= 1
+                            window[tail] = j_next
+                            tail += 1
+                            j_next += 1
+                        while tail > head and pos[g + 1, window[head]] < first:
+                            head += 1
+                        if tail > head:
+                            best[i] = sense * val[g, i] + nxt[window[head]]
+                            choice[g, i] = window[head]
+                        else:
+                            best[i] = -np.inf
+                            choice[g, i] = -1
+                    for i in range(ncand[g]):
+                        nxt[i] = best[i]
+                top = -np.inf
+                arg = 0
+                for i in range(ncand[0]):
+                    if nxt[i] > top:
+                        top = nxt[i]
+                        arg = i
+                out_v[sense_i, e] = sense * top
+                out_p[sense_i, e] = pos[0, arg]
+                idx = arg
+                for g in range(n_gaps):
+                    nidx = choice[g, idx]
+                    if nidx < 0:
+                        break
+                    out_d[sense_i, e, g] = sigma * (pos[g, idx] - pos[g + 1, nidx])
+                    idx = nidx
     return out_v[0], out_p[0], out_d[0], out_v[1], out_p[1], out_d[1]
-
-
-@nb.njit(cache=True)
-def fleet_extremes(
-    breaks: np.ndarray,
-    counts: np.ndarray,
-    coef: np.ndarray,
-    loads: np.ndarray,
-    offsets: np.ndarray,
-    case_start: np.ndarray,
-    sigmas: np.ndarray,
-    tol: float,
-) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
-    """Extremes of many rigid axle trains (fixed spacings) in one call.
-
-    Train i has axles ``case_start[i]:case_start[i + 1]`` of ``loads`` with
-    ``offsets`` behind its front axle; every train is swept in each direction
-    of ``sigmas``. Returns, with shape (n_cases, n_effects): the maximum, its
-    front-axle position and direction, then the same for the minimum. The
-    maximum starts from 0 with position NaN and direction 0 (the train off the
-    member), and likewise the minimum.
-    """
-    n_eff = breaks.shape[0]
-    n_cases = case_start.size - 1
-    width = breaks.shape[1]
-    k_max = 1
-    for i in range(n_cases):
-        k_max = max(k_max, case_start[i + 1] - case_start[i])
-    pos = np.empty(4 * width * k_max + 2)
-    val = np.empty(4 * width * k_max + 2)
-    event_q = np.empty(width * k_max)
-    event_break = np.empty(width * k_max, dtype=np.int64)
-    event_load = np.empty(width * k_max)
-    root_scratch = np.empty(2)
-    heads = np.empty(width, dtype=np.int64)
-    ends = _piece_ends(breaks, counts, coef)
-    max_v = np.zeros((n_cases, n_eff))
-    max_p = np.full((n_cases, n_eff), np.nan)
-    max_d = np.zeros((n_cases, n_eff), dtype=np.int8)
-    min_v = np.zeros((n_cases, n_eff))
-    min_p = np.full((n_cases, n_eff), np.nan)
-    min_d = np.zeros((n_cases, n_eff), dtype=np.int8)
-    for i in range(n_cases):
-        s0, s1 = case_start[i], case_start[i + 1]
-        for sigma in sigmas:
-            signed = sigma * offsets[s0:s1]
-            for e in range(n_eff):
-                count = _group_candidates(
-                    breaks[e],
-                    counts[e],
-                    coef[e],
-                    ends[e],
-                    loads[s0:s1],
-                    signed,
-                    tol,
-                    pos,
-                    val,
-                    event_q,
-                    event_break,
-                    event_load,
-                    root_scratch,
-                    heads,
-                )
-                for c in range(count):
-                    v = val[c]
-                    if v > max_v[i, e]:
-                        max_v[i, e] = v
-                        max_p[i, e] = pos[c]
-                        max_d[i, e] = np.int8(sigma)
-                    if v < min_v[i, e]:
-                        min_v[i, e] = v
-                        min_p[i, e] = pos[c]
-                        min_d[i, e] = np.int8(sigma)
-    return max_v, max_p, max_d, min_v, min_p, min_d
 
 
 @nb.njit(cache=True)
@@ -380,17 +497,14 @@ def cubic_crossings(coef: np.ndarray, h: np.ndarray) -> np.ndarray:
     flat = coef.reshape(-1, 4)
     hh = h.reshape(-1)
     out = np.full((flat.shape[0], 3), np.nan)
-    crit = np.empty(2)
     edges = np.empty(4)
     for i in range(flat.shape[0]):
         c0, c1, c2, c3 = flat[i, 0], flat[i, 1], flat[i, 2], flat[i, 3]
         length = hh[i]
-        nc = _quad_roots(c1, 2.0 * c2, 3.0 * c3, length, crit)
-        if nc == 2 and crit[1] < crit[0]:
-            crit[0], crit[1] = crit[1], crit[0]
+        nc, t0, t1 = _quad_roots(c1, 2.0 * c2, 3.0 * c3, length)
         edges[0] = 0.0
-        for r in range(nc):
-            edges[r + 1] = crit[r]
+        edges[1] = min(t0, t1) if nc == 2 else t0
+        edges[2] = max(t0, t1) if nc == 2 else length
         edges[nc + 1] = length
         found = 0
         for part in range(nc + 1):

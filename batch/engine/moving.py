@@ -31,7 +31,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from batch.engine.influence import POSITION_TOL, InfluenceLines
-from batch.engine.kernel import chain_extremes, fleet_extremes
+from batch.engine.kernel import SweepPlan, chain_extremes, fleet_extremes
 
 __all__ = [
     "LEFT_TO_RIGHT",
@@ -204,16 +204,13 @@ def _combos(lo: NDArray[np.float64], hi: NDArray[np.float64]) -> list[_Combo]:
     return out
 
 
-Partition = tuple[NDArray[np.float64], NDArray[np.int64], NDArray[np.float64]]
-
-
-def _partitions(il: InfluenceLines, drop_adverse_axles: bool) -> tuple[Partition, Partition]:
-    """The partitions swept for the maximum and for the minimum."""
-    return il.clipped if drop_adverse_axles else (il.reduced, il.reduced)
+def _plans(il: InfluenceLines, drop_adverse_axles: bool) -> tuple[SweepPlan, SweepPlan]:
+    """The lines swept for the maximum and for the minimum (whole, or their adverse parts)."""
+    return il.clipped_plans if drop_adverse_axles else (il.plan, il.plan)
 
 
 def _chain(
-    parts: tuple[Partition, Partition],
+    plans: tuple[SweepPlan, SweepPlan],
     loads: NDArray[np.float64],
     combo: _Combo,
     gaps: tuple[NDArray[np.float64], NDArray[np.float64]],
@@ -222,11 +219,11 @@ def _chain(
 ) -> tuple[tuple[NDArray[np.float64], ...], tuple[NDArray[np.float64], ...]]:
     """(value, position, distances) of the maximum and of the minimum of one combination.
 
-    One compiled call gives both when the two partitions are the same.
+    One compiled call gives both when the two plans are the same.
     """
     args = (loads, combo.offsets, combo.group_start, gaps[0], gaps[1], float(sigma), tol)
-    high = chain_extremes(*parts[0], *args)
-    low = high if parts[1] is parts[0] else chain_extremes(*parts[1], *args)
+    high = chain_extremes(plans[0], *args)
+    low = high if plans[1] is plans[0] else chain_extremes(plans[1], *args)
     return high[0:3], low[3:6]
 
 
@@ -253,7 +250,7 @@ def axle_extremes(
     p = np.ascontiguousarray(loads, dtype=float).reshape(-1)
     _check(p, directions)
     lo, hi = _spacings(il.length, p.size, spacing_low, spacing_high)
-    parts = _partitions(il, drop_adverse_axles)
+    plans = _plans(il, drop_adverse_axles)
     tol = POSITION_TOL * il.length
     n_eff = il.n_effects
     best = {
@@ -267,7 +264,7 @@ def axle_extremes(
     }
     for sigma in directions:
         for combo in _combos(lo, hi):
-            both = _chain(parts, p, combo, combo.gap_bounds(lo, hi), sigma, tol)
+            both = _chain(plans, p, combo, combo.gap_bounds(lo, hi), sigma, tol)
             for sense, (total, pos, dist) in zip((1.0, -1.0), both, strict=True):
                 value, position, direction, spacing = best[sense]
                 better = sense * total > sense * value
@@ -328,14 +325,14 @@ def fleet_extremes_of(
     }
     for row, t in enumerate(trains):
         ready = _prepare(il, t, directions)
-        parts = _partitions(il, t.drop_adverse_axles)
+        plans = _plans(il, t.drop_adverse_axles)
         for combo in ready.combos:
             if not combo.free:
                 rigid[t.drop_adverse_axles].append((row, ready.loads, combo.offsets))
                 continue
             for sigma in directions:
                 gaps = combo.gap_bounds(ready.lo, ready.hi)
-                both = _chain(parts, ready.loads, combo, gaps, sigma, tol)
+                both = _chain(plans, ready.loads, combo, gaps, sigma, tol)
                 for sense, (value, pos, _) in zip((1.0, -1.0), both, strict=True):
                     out.absorb(row, sense, value, pos, np.full(n_eff, sigma, np.int8))
     sigmas = np.array(directions, dtype=float)
@@ -345,9 +342,9 @@ def fleet_extremes_of(
         loads = np.concatenate([p for _, p, _ in jobs])
         offsets = np.concatenate([o for _, _, o in jobs])
         start = np.concatenate([[0], np.cumsum([p.size for _, p, _ in jobs])]).astype(np.int64)
-        high_part, low_part = _partitions(il, drop)
-        high = fleet_extremes(*high_part, loads, offsets, start, sigmas, tol)
-        low = high if not drop else fleet_extremes(*low_part, loads, offsets, start, sigmas, tol)
+        high_plan, low_plan = _plans(il, drop)
+        high = fleet_extremes(high_plan, loads, offsets, start, sigmas, tol)
+        low = high if not drop else fleet_extremes(low_plan, loads, offsets, start, sigmas, tol)
         rows = np.array([row for row, _, _ in jobs])
         # A rigid train's only job is its result (the kernel starts from "off the member",
         # as `out` does); the end-of-range jobs of a ranged train are absorbed one by one.
