@@ -26,7 +26,26 @@ import numba as nb
 import numpy as np
 from numpy.typing import NDArray
 
-__all__ = ["SweepPlan", "chain_extremes", "cubic_crossings", "fleet_extremes", "sweep_plan"]
+__all__ = [
+    "Extremes",
+    "SweepPlan",
+    "chain_extremes",
+    "chain_fleet",
+    "cubic_crossings",
+    "fleet_extremes",
+    "sweep_plan",
+]
+
+#: Extremes kept per row and effect: maximum, its front-axle position and
+#: direction, then the same three for the minimum.
+Extremes = tuple[
+    NDArray[np.float64],
+    NDArray[np.float64],
+    NDArray[np.int8],
+    NDArray[np.float64],
+    NDArray[np.float64],
+    NDArray[np.int8],
+]
 
 
 class SweepPlan(NamedTuple):
@@ -174,17 +193,21 @@ def fleet_extremes(
     loads: np.ndarray,
     offsets: np.ndarray,
     case_start: np.ndarray,
+    case_row: np.ndarray,
     sigmas: np.ndarray,
     tol: float,
-) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
-    """Extremes of many rigid axle trains (fixed spacings) in one call.
+    keep: tuple[bool, bool],
+    out: Extremes,
+) -> None:
+    """Extremes of many rigid axle trains (fixed spacings) in one call, kept in ``out``.
 
     Train i has axles ``case_start[i]:case_start[i + 1]`` of ``loads`` with
     ``offsets`` behind its front axle; every train is swept in each direction
-    of ``sigmas``. Returns, with shape (n_cases, n_effects): the maximum, its
-    front-axle position and direction, then the same for the minimum. The
-    maximum starts from 0 with position NaN and direction 0 (the train off the
-    member), and likewise the minimum.
+    of ``sigmas``. Row ``case_row[i]`` of ``out`` (arrays of shape (rows,
+    n_effects)) keeps whichever is worse, the extreme held or the train's:
+    the maximum, its front-axle position and direction, then the same for the
+    minimum, each only if ``keep`` says so (maximum, minimum). Rows start from
+    0 with position NaN and direction 0 (the train off the member).
 
     Each line is swept in two passes. The first carries the cubic E(q) from
     one axle-on-break position to the next by an exact Taylor shift, adding
@@ -195,7 +218,6 @@ def fleet_extremes(
     and only then are its stationary points solved for.
     """
     order, bundle_start, breaks, counts, jumps = plan
-    n_eff = order.size
     n_cases = case_start.size - 1
     width = breaks.shape[1]
     most_lines = 1
@@ -213,14 +235,10 @@ def fleet_extremes(
     a = np.empty((most_lines, 4))
     top = np.empty((most_lines, 2))  # largest value so far and its position
     bot = np.empty((most_lines, 2))
-    max_v = np.zeros((n_cases, n_eff))
-    max_p = np.full((n_cases, n_eff), np.nan)
-    max_d = np.zeros((n_cases, n_eff), dtype=np.int8)
-    min_v = np.zeros((n_cases, n_eff))
-    min_p = np.full((n_cases, n_eff), np.nan)
-    min_d = np.zeros((n_cases, n_eff), dtype=np.int8)
-    for i in range(n_cases):
-        s0, s1 = case_start[i], case_start[i + 1]
+    max_v, max_p, max_d, min_v, min_p, min_d = out
+    for case in range(n_cases):
+        s0, s1 = case_start[case], case_start[case + 1]
+        i = case_row[case]
         for si in range(sigmas.size):
             sigma = sigmas[si]
             for u in range(counts.size):
@@ -301,15 +319,14 @@ def fleet_extremes(
                                 low = v
                                 bot[ln, 1] = span_q[s, 0] + t
                     e = order[r0 + ln]
-                    if high > max_v[i, e]:
+                    if keep[0] and high > max_v[i, e]:
                         max_v[i, e] = high
                         max_p[i, e] = top[ln, 1]
                         max_d[i, e] = np.int8(sigma)
-                    if low < min_v[i, e]:
+                    if keep[1] and low < min_v[i, e]:
                         min_v[i, e] = low
                         min_p[i, e] = bot[ln, 1]
                         min_d[i, e] = np.int8(sigma)
-    return max_v, max_p, max_d, min_v, min_p, min_d
 
 
 @nb.njit(cache=True)
@@ -475,6 +492,51 @@ def chain_extremes(
                     out_d[sense_i, e, g] = sigma * (pos[g, idx] - pos[g + 1, nidx])
                     idx = nidx
     return out_v[0], out_p[0], out_d[0], out_v[1], out_p[1], out_d[1]
+
+
+@nb.njit(cache=True)
+def chain_fleet(
+    plan: SweepPlan,
+    loads: np.ndarray,
+    offsets: np.ndarray,
+    job_start: np.ndarray,
+    job_row: np.ndarray,
+    group_start: np.ndarray,
+    gap_lo: np.ndarray,
+    gap_hi: np.ndarray,
+    sigmas: np.ndarray,
+    tol: float,
+    keep: tuple[bool, bool],
+    out: Extremes,
+) -> None:
+    """:func:`chain_extremes` of many chains in one call, kept in ``out`` as :func:`fleet_extremes`.
+
+    Chain j has axles ``job_start[j]:job_start[j + 1]``; ``group_start[j]``
+    (padded with -1) delimits its groups relative to its first axle, and
+    ``gap_lo[j]``/``gap_hi[j]`` bound its front-to-front distances.
+    """
+    max_v, max_p, max_d, min_v, min_p, min_d = out
+    for job in range(job_row.size):
+        a0, a1 = job_start[job], job_start[job + 1]
+        n_groups = 0
+        while n_groups + 1 < group_start.shape[1] and group_start[job, n_groups + 1] >= 0:
+            n_groups += 1
+        i = job_row[job]
+        for si in range(sigmas.size):
+            sigma = sigmas[si]
+            high, high_p, _, low, low_p, _ = chain_extremes(
+                plan, loads[a0:a1], offsets[a0:a1], group_start[job, : n_groups + 1],
+                gap_lo[job, : n_groups - 1], gap_hi[job, : n_groups - 1], sigma, tol,
+            )  # fmt: skip
+            for e in range(high.size):
+                if keep[0] and high[e] > max_v[i, e]:
+                    max_v[i, e] = high[e]
+                    max_p[i, e] = high_p[e]
+                    max_d[i, e] = np.int8(sigma)
+                if keep[1] and low[e] < min_v[i, e]:
+                    min_v[i, e] = low[e]
+                    min_p[i, e] = low_p[e]
+                    min_d[i, e] = np.int8(sigma)
 
 
 @nb.njit(cache=True)

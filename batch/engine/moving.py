@@ -31,7 +31,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from batch.engine.influence import POSITION_TOL, InfluenceLines
-from batch.engine.kernel import SweepPlan, chain_extremes, fleet_extremes
+from batch.engine.kernel import SweepPlan, chain_extremes, chain_fleet, fleet_extremes
 
 __all__ = [
     "LEFT_TO_RIGHT",
@@ -319,44 +319,71 @@ def fleet_extremes_of(
         min_direction=np.zeros(shape, np.int8),
     )
     tol = POSITION_TOL * il.length
-    rigid: dict[bool, list[tuple[int, NDArray[np.float64], NDArray[np.float64]]]] = {
-        False: [],
-        True: [],
-    }
+    kept = (
+        out.max_value,
+        out.max_position,
+        out.max_direction,
+        out.min_value,
+        out.min_position,
+        out.min_direction,
+    )
+    rigid: dict[bool, list[tuple[int, NDArray[np.float64], NDArray[np.float64]]]] = {}
+    chains: dict[bool, list[_Link]] = {}
     for row, t in enumerate(trains):
         ready = _prepare(il, t, directions)
-        plans = _plans(il, t.drop_adverse_axles)
         for combo in ready.combos:
-            if not combo.free:
-                rigid[t.drop_adverse_axles].append((row, ready.loads, combo.offsets))
-                continue
-            for sigma in directions:
-                gaps = combo.gap_bounds(ready.lo, ready.hi)
-                both = _chain(plans, ready.loads, combo, gaps, sigma, tol)
-                for sense, (value, pos, _) in zip((1.0, -1.0), both, strict=True):
-                    out.absorb(row, sense, value, pos, np.full(n_eff, sigma, np.int8))
-    sigmas = np.array(directions, dtype=float)
+            if combo.free:
+                lo, hi = combo.gap_bounds(ready.lo, ready.hi)
+                link = (row, ready.loads, combo, lo, hi)
+                chains.setdefault(t.drop_adverse_axles, []).append(link)
+            else:
+                rigid.setdefault(t.drop_adverse_axles, []).append((row, ready.loads, combo.offsets))
+    sigmas = np.array(directions, dtype=float)  # checked by _prepare
+    # Rigid trains first, then the free-gap chains of ranged ones; ties keep the first.
     for drop, jobs in rigid.items():
-        if not jobs:
-            continue
-        loads = np.concatenate([p for _, p, _ in jobs])
-        offsets = np.concatenate([o for _, _, o in jobs])
-        start = np.concatenate([[0], np.cumsum([p.size for _, p, _ in jobs])]).astype(np.int64)
-        high_plan, low_plan = _plans(il, drop)
-        high = fleet_extremes(high_plan, loads, offsets, start, sigmas, tol)
-        low = high if not drop else fleet_extremes(low_plan, loads, offsets, start, sigmas, tol)
-        rows = np.array([row for row, _, _ in jobs])
-        # A rigid train's only job is its result (the kernel starts from "off the member",
-        # as `out` does); the end-of-range jobs of a ranged train are absorbed one by one.
-        alone = np.bincount(rows, minlength=len(trains))[rows] == 1
-        single = rows[alone]
-        out.max_value[single], out.max_position[single], out.max_direction[single] = (
-            a[alone] for a in high[0:3]
+        start = np.cumsum([0] + [p.size for _, p, _ in jobs], dtype=np.int64)
+        args = (
+            np.concatenate([p for _, p, _ in jobs]),
+            np.concatenate([o for _, _, o in jobs]),
+            start,
+            np.array([row for row, _, _ in jobs], dtype=np.int64),
+            sigmas,
+            tol,
         )
-        out.min_value[single], out.min_position[single], out.min_direction[single] = (
-            a[alone] for a in low[3:6]
+        for plan, keep in _kept(il, drop):
+            fleet_extremes(plan, *args, keep, kept)
+    for drop, links in chains.items():
+        width = max(c.group_start.size for _, _, c, _, _ in links)
+        groups = np.full((len(links), width), -1, dtype=np.int64)
+        gap_lo = np.zeros((len(links), width - 2))
+        gap_hi = np.zeros((len(links), width - 2))
+        for j, (_, _, combo, lo, hi) in enumerate(links):
+            groups[j, : combo.group_start.size] = combo.group_start
+            gap_lo[j, : lo.size] = lo
+            gap_hi[j, : hi.size] = hi
+        args = (
+            np.concatenate([p for _, p, _, _, _ in links]),
+            np.concatenate([c.offsets for _, _, c, _, _ in links]),
+            np.cumsum([0] + [p.size for _, p, _, _, _ in links], dtype=np.int64),
+            np.array([row for row, _, _, _, _ in links], dtype=np.int64),
+            groups,
+            gap_lo,
+            gap_hi,
+            sigmas,
+            tol,
         )
-        for k in np.flatnonzero(~alone):
-            out.absorb(int(rows[k]), 1.0, high[0][k], high[1][k], high[2][k])
-            out.absorb(int(rows[k]), -1.0, low[3][k], low[4][k], low[5][k])
+        for plan, keep in _kept(il, drop):
+            chain_fleet(plan, *args, keep, kept)
     return out
+
+
+#: A chain job: output row, axle loads, the way its spacings are fixed, and its gap bounds.
+_Link = tuple[int, NDArray[np.float64], _Combo, NDArray[np.float64], NDArray[np.float64]]
+
+
+def _kept(il: InfluenceLines, drop: bool) -> list[tuple[SweepPlan, tuple[bool, bool]]]:
+    """The plans to sweep and which extreme each gives (maximum, minimum)."""
+    high, low = _plans(il, drop)
+    if high is low:
+        return [(high, (True, True))]
+    return [(high, (True, False)), (low, (False, True))]
