@@ -303,8 +303,9 @@ def fleet_extremes(
                         a0 = span_a[ln, s, 0]
                         a1 = span_a[ln, s, 1]
                         a2 = span_a[ln, s, 2]
-                        inner1 = a0 + a1 * h / 3.0
-                        inner2 = a0 + (2.0 * a1 + a2 * h) * h / 3.0
+                        third = h * (1.0 / 3.0)
+                        inner1 = a0 + a1 * third
+                        inner2 = a0 + (2.0 * a1 + a2 * h) * third
                         if max(inner1, inner2) <= high and min(inner1, inner2) >= low:
                             continue
                         a3 = span_a[ln, s, 3]
