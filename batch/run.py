@@ -25,7 +25,7 @@ import multiprocessing
 import os
 import time
 import warnings
-from collections.abc import Callable, Iterator
+from collections.abc import Callable, Iterator, Sequence
 from concurrent.futures import FIRST_COMPLETED, Future, ProcessPoolExecutor, wait
 from dataclasses import dataclass, field
 from datetime import datetime, timezone
@@ -112,12 +112,13 @@ class RunResult:
     they fit on one sheet, else None (they are in the store). ``resumed`` counts
     the members taken from the store of an interrupted run. ``assessments``
     holds each member's rating and screening, in member order (empty when the
-    case asks for neither).
+    case asks for neither). With a store, ``envelopes`` and ``assessments`` are
+    read from it as they are iterated (:class:`~batch.store.StoredMembers`).
     """
 
     case: Case
     load_cases: tuple[LoadCase, ...]
-    envelopes: tuple[MemberEnvelope, ...]
+    envelopes: Sequence[MemberEnvelope]
     warnings: tuple[str, ...]
     started: datetime
     seconds: float
@@ -125,7 +126,7 @@ class RunResult:
     workers: int = 1
     resumed: int = 0
     store: Path | None = None
-    assessments: tuple[MemberAssessment, ...] = ()
+    assessments: Sequence[MemberAssessment] = ()
 
     @property
     def n_members(self) -> int:
@@ -282,6 +283,9 @@ def run_case(
         else None
     )
     try:
+        # Without a store every result stays in memory; with one, each finished member
+        # goes to the store and the results are read back from it as they are written
+        # out, so memory stays flat however many members there are.
         envelopes: dict[int, MemberEnvelope] = {}
         notes: dict[int, tuple[str, ...]] = {}
         assessed: dict[int, MemberAssessment] = {}
@@ -299,24 +303,28 @@ def run_case(
         source = _cluster(chunks, options.cluster) if options.cluster else _local(chunks, workers)
         for results in source:
             for r in results:
-                envelopes[r.index] = r.envelope
-                notes[r.index] = r.warnings
-                assessed[r.index] = r.assessment
-                if peaks is not None:
-                    peaks[r.index] = r.peaks
                 if store is not None:
                     store.put(r.index, r.envelope, r.warnings, r.peaks, r.assessment)
+                else:
+                    envelopes[r.index] = r.envelope
+                    notes[r.index] = r.warnings
+                    assessed[r.index] = r.assessment
+                if peaks is not None:
+                    peaks[r.index] = r.peaks
                 done += 1
                 if progress is not None:
                     progress(done, n_members, r.envelope.member)
-        if store is not None and finished:
-            for index, (env, warns, assessment) in zip(
-                sorted(finished), store.envelopes(sorted(finished)), strict=True
-            ):
-                envelopes[index] = env
-                notes[index] = warns
-                assessed[index] = assessment
-            if peaks is not None:
+        if store is None:
+            kept_envelopes: Sequence[MemberEnvelope] = tuple(envelopes[i] for i in range(n_members))
+            kept_assessments: Sequence[MemberAssessment] = tuple(
+                assessed[i] for i in range(n_members)
+            )
+            all_notes = tuple(w for i in range(n_members) for w in notes[i])
+        else:
+            kept_envelopes = store.stored_envelopes(n_members)
+            kept_assessments = store.stored_assessments(n_members)
+            all_notes = tuple(store.warnings())
+            if peaks is not None and finished:
                 for row in store.peak_rows():
                     if row.member_index in finished:
                         peaks[row.member_index, row.vehicle_index] = row.values
@@ -326,13 +334,13 @@ def run_case(
     return RunResult(
         case=case,
         load_cases=cases,
-        envelopes=tuple(envelopes[i] for i in range(n_members)),
-        warnings=tuple(w for i in range(n_members) for w in notes[i]),
+        envelopes=kept_envelopes,
+        warnings=all_notes,
         started=started,
         seconds=time.perf_counter() - clock,
         peaks=peaks,
         workers=workers,
         resumed=len(finished),
         store=options.store,
-        assessments=() if plan is None else tuple(assessed[i] for i in range(n_members)),
+        assessments=() if plan is None else kept_assessments,
     )

@@ -27,9 +27,10 @@ from __future__ import annotations
 import io
 import json
 import sqlite3
-from collections.abc import Iterable, Iterator
+from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass
 from pathlib import Path
+from typing import TypeVar, overload
 
 import numpy as np
 from numpy.typing import NDArray
@@ -38,7 +39,7 @@ from batch.assess import MemberAssessment
 from batch.engine import Extremes, MemberEnvelope
 from batch.rating import MemberRating, MemberScreening
 
-__all__ = ["PEAK_COLUMNS", "CheckpointStore", "PeakRow", "store_path_for"]
+__all__ = ["PEAK_COLUMNS", "CheckpointStore", "PeakRow", "StoredMembers", "store_path_for"]
 
 #: Columns of the per-vehicle summary, in order (see the module docstring).
 PEAK_COLUMNS: tuple[str, ...] = ("m_max", "m_min", "v_max", "v_min", "r_max", "r_min")
@@ -133,6 +134,60 @@ def _unpack(member: str, blob: bytes, labels: tuple[str, ...]) -> MemberEnvelope
     return MemberEnvelope(member=member, labels=labels, **parts)
 
 
+T = TypeVar("T")
+
+
+class StoredMembers(Sequence[T]):
+    """One kind of per-member result of a finished run, read from its store as needed.
+
+    A sequence in member order that holds nothing in memory: iterating streams
+    the members from the store file (one query, read as it goes), indexing reads
+    one. It keeps a run's memory flat however many members the inventory has.
+    ``column`` is one of the store's blob columns (``m.envelope`` or ``a.blob``),
+    ``decode`` turns (member id, blob) into the result.
+    """
+
+    def __init__(
+        self, path: Path, size: int, column: str, decode: Callable[[str, bytes | None], T]
+    ) -> None:
+        self._path = path
+        self._size = size
+        self._column = column
+        self._decode = decode
+
+    def __len__(self) -> int:
+        return self._size
+
+    def _rows(self, where: str, args: tuple[int, ...]) -> Iterator[T]:
+        db = sqlite3.connect(f"file:{self._path}?mode=ro", uri=True, timeout=30.0)
+        try:
+            query = (
+                f"SELECT m.member, {self._column} FROM members m "  # fixed column names
+                f"LEFT JOIN assessments a ON a.idx = m.idx {where} ORDER BY m.idx"
+            )
+            for member, blob in db.execute(query, args):
+                yield self._decode(member, blob)
+        finally:
+            db.close()
+
+    def __iter__(self) -> Iterator[T]:
+        return self._rows("", ())
+
+    @overload
+    def __getitem__(self, index: int) -> T: ...
+
+    @overload
+    def __getitem__(self, index: slice) -> list[T]: ...
+
+    def __getitem__(self, index: int | slice) -> T | list[T]:
+        if isinstance(index, slice):
+            return [self[i] for i in range(*index.indices(self._size))]
+        i = index + self._size if index < 0 else index
+        if not 0 <= i < self._size:
+            raise IndexError(index)
+        return next(self._rows("WHERE m.idx = ?", (i,)))
+
+
 class CheckpointStore:
     """Finished members of one run, by member index (see the module docstring).
 
@@ -192,21 +247,21 @@ class CheckpointStore:
                     (index, _pack_assessment(assessment)),
                 )
 
-    def envelopes(
-        self, indices: Iterable[int]
-    ) -> Iterator[tuple[MemberEnvelope, tuple[str, ...], MemberAssessment]]:
-        """The stored envelopes, warnings and assessments of ``indices``, in that order."""
-        for index in indices:
-            member, blob, warnings, assessed = self._db.execute(
-                "SELECT m.member, m.envelope, m.warnings, a.blob FROM members m "
-                "LEFT JOIN assessments a ON a.idx = m.idx WHERE m.idx = ?",
-                (index,),
-            ).fetchone()
-            yield (
-                _unpack(member, blob, self.labels),
-                tuple(json.loads(warnings)),
-                _unpack_assessment(assessed),
-            )
+    def stored_envelopes(self, size: int) -> StoredMembers[MemberEnvelope]:
+        """Members 0..size-1's envelopes, read from the store file as they are needed."""
+        labels = self.labels
+        return StoredMembers(
+            self.path, size, "m.envelope", lambda member, blob: _unpack(member, blob, labels)
+        )
+
+    def stored_assessments(self, size: int) -> StoredMembers[MemberAssessment]:
+        """Members 0..size-1's ratings and screenings, read as they are needed."""
+        return StoredMembers(self.path, size, "a.blob", lambda _, blob: _unpack_assessment(blob))
+
+    def warnings(self) -> list[str]:
+        """Every stored member's warnings, in member order."""
+        rows = self._db.execute("SELECT warnings FROM members ORDER BY idx")
+        return [w for (text,) in rows for w in json.loads(text)]
 
     def peak_rows(self) -> Iterator[PeakRow]:
         """Every stored per-vehicle summary row, members and vehicles in input order."""

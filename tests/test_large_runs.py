@@ -99,6 +99,22 @@ def test_the_vehicle_summary_is_each_vehicles_own_envelope() -> None:
             np.testing.assert_allclose(result.peaks[m, v], expected, rtol=1e-12, atol=1e-12)
 
 
+def test_a_run_with_a_store_reads_back_exactly_what_a_run_in_memory_keeps(tmp_path: Path) -> None:
+    # The tool's promise: with a store, results are read back from it (memory stays
+    # flat) and nothing changes; the stored sequence behaves as a sequence.
+    case = _small_case(members=5, vehicles=3, seed=8)
+    kept = run_case(case)
+    stored = run_case(case, options=RunOptions(store=tmp_path / "s.sqlite", key="k"))
+    assert isinstance(kept.envelopes, tuple) and not isinstance(stored.envelopes, tuple)
+    _same(kept, stored)
+    assert len(stored.envelopes) == len(case.members)
+    assert stored.envelopes[-1].member == case.members[-1].id
+    assert [e.member for e in stored.envelopes[1:3]] == [m.id for m in case.members[1:3]]
+    with pytest.raises(IndexError):
+        stored.envelopes[len(case.members)]
+    assert stored.warnings == kept.warnings
+
+
 def test_a_store_resumes_only_the_same_input(tmp_path: Path) -> None:
     case = _small_case(members=6, vehicles=3, seed=4)
     store = tmp_path / "book.spanfleet.sqlite"
