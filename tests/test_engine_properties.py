@@ -312,3 +312,30 @@ def test_equilibrium_of_the_unit_load(member: Member, fractions: list[float]) ->
         a, b = il.station_x[s], il.station_x[s + 1]
         outside = (x < a) | (x > b)
         _assert_same(m[s + 1, outside] - m[s, outside], v[s, outside] * (b - a), il.length)
+
+
+# --- the sweep's representation -----------------------------------------------------------
+
+
+@EXAMPLES
+@given(member=members(), fractions=st.lists(st.floats(0.001, 0.999), min_size=1, max_size=20))
+def test_the_sweep_plan_rebuilds_every_line(member: Member, fractions: list[float]) -> None:
+    # A piecewise cubic is the sum, over its breaks b <= x, of the jump of its Taylor
+    # coefficients at b as a polynomial in (x - b) (truncated powers; common practice).
+    # The kernel sweeps lines in that form, bundled by shared breaks; summed back here
+    # they must give the influence lines themselves, for the whole lines and their parts.
+    il = _lines(member)
+    x = np.asarray(fractions) * il.length
+    whole = il.evaluate(x)
+    high, low = il.clipped_plans
+    parts = ((il.plan, whole), (high, np.maximum(whole, 0.0)), (low, np.minimum(whole, 0.0)))
+    for plan, expected in parts:
+        rebuilt = np.zeros_like(expected)
+        for u in range(plan.counts.size):
+            breaks = plan.breaks[u, : plan.counts[u]]
+            for r in range(plan.bundle_start[u], plan.bundle_start[u + 1]):
+                t = x[None, :] - breaks[:, None]
+                jump = plan.jumps[r, : breaks.size]
+                terms = sum(jump[:, [c]] * t**c for c in range(4))
+                rebuilt[plan.order[r]] = np.where(t >= 0.0, terms, 0.0).sum(axis=0)
+        _assert_same(rebuilt, expected, il.effect_scale[:, None])
