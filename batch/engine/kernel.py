@@ -20,6 +20,7 @@ directions.
 
 from __future__ import annotations
 
+import functools
 from typing import NamedTuple
 
 import numba as nb
@@ -57,6 +58,12 @@ class SweepPlan(NamedTuple):
     third derivative/6) of line ``order[r]`` as the load position passes break
     j of its bundle: the coefficients of the piece entered minus those of the
     piece left (zero outside the member).
+
+    ``shared[0]`` are the breaks every bundle has (the supports, ends and
+    hinges), at ``shared_at[u]`` among bundle u's breaks; its other breaks are
+    ``extra[u, :n_extra[u]]``, at ``extra_at[u]``. The positions where axles
+    cross the shared breaks are sorted once per train and direction, and only
+    a bundle's own few are merged in.
     """
 
     order: NDArray[np.int64]
@@ -64,6 +71,11 @@ class SweepPlan(NamedTuple):
     breaks: NDArray[np.float64]
     counts: NDArray[np.int64]
     jumps: NDArray[np.float64]
+    shared: NDArray[np.float64]
+    shared_at: NDArray[np.int64]
+    extra: NDArray[np.float64]
+    extra_at: NDArray[np.int64]
+    n_extra: NDArray[np.int64]
 
 
 def sweep_plan(
@@ -83,12 +95,29 @@ def sweep_plan(
     jumps = np.zeros((*breaks.shape, 4))
     jumps[:, :-1] += coef
     jumps[:, 1:] -= at_end
+    rows = [breaks[e, : counts[e]] for e in first]
+    shared = functools.reduce(np.intersect1d, rows)
+    width = max(1, max(row.size for row in rows) - shared.size)
+    shared_at = np.array([np.searchsorted(row, shared) for row in rows], dtype=np.int64)
+    extra = np.zeros((len(rows), width))
+    extra_at = np.zeros((len(rows), width), dtype=np.int64)
+    n_extra = np.zeros(len(rows), dtype=np.int64)
+    for u, row in enumerate(rows):
+        own = np.flatnonzero(~np.isin(row, shared))
+        n_extra[u] = own.size
+        extra[u, : own.size] = row[own]
+        extra_at[u, : own.size] = own
     return SweepPlan(
         order=order,
         bundle_start=np.concatenate([[0], np.cumsum(sizes)]).astype(np.int64),
         breaks=np.ascontiguousarray(breaks[first]),
         counts=np.ascontiguousarray(counts[first]).astype(np.int64),
         jumps=np.ascontiguousarray(jumps[order]),
+        shared=shared[None, :],
+        shared_at=shared_at.reshape(len(rows), shared.size),
+        extra=extra,
+        extra_at=extra_at,
+        n_extra=n_extra,
     )
 
 
@@ -188,6 +217,38 @@ def _events(
 
 
 @nb.njit(cache=True)
+def _merge(
+    plan: SweepPlan,
+    u: int,
+    shared: tuple[np.ndarray, np.ndarray, np.ndarray, int],
+    extra: tuple[np.ndarray, np.ndarray, np.ndarray, int],
+    event_q: np.ndarray,
+    event_break: np.ndarray,
+    event_load: np.ndarray,
+) -> int:
+    """Bundle u's events: the shared breaks' (sorted once) merged with its own extra ones.
+
+    Each event's break becomes its index among the bundle's breaks. Returns how many.
+    """
+    sq, sb, sl, n_s = shared
+    xq, xb, xl, n_x = extra
+    i = 0
+    k = 0
+    for t in range(n_s + n_x):
+        if k >= n_x or (i < n_s and sq[i] <= xq[k]):
+            event_q[t] = sq[i]
+            event_break[t] = plan.shared_at[u, sb[i]]
+            event_load[t] = sl[i]
+            i += 1
+        else:
+            event_q[t] = xq[k]
+            event_break[t] = plan.extra_at[u, xb[k]]
+            event_load[t] = xl[k]
+            k += 1
+    return n_s + n_x
+
+
+@nb.njit(cache=True)
 def fleet_extremes(
     plan: SweepPlan,
     loads: np.ndarray,
@@ -217,7 +278,7 @@ def fleet_extremes(
     pass the extremes found unless one of its two inner control points does,
     and only then are its stationary points solved for.
     """
-    order, bundle_start, breaks, counts, jumps = plan
+    order, bundle_start, breaks, counts, jumps = plan[:5]
     n_cases = case_start.size - 1
     width = breaks.shape[1]
     most_lines = 1
@@ -229,6 +290,12 @@ def fleet_extremes(
     event_q = np.empty(width * k_max)
     event_break = np.empty(width * k_max, dtype=np.int64)
     event_load = np.empty(width * k_max)
+    shared_q = np.empty(width * k_max)
+    shared_break = np.empty(width * k_max, dtype=np.int64)
+    shared_load = np.empty(width * k_max)
+    extra_q = np.empty(width * k_max)
+    extra_break = np.empty(width * k_max, dtype=np.int64)
+    extra_load = np.empty(width * k_max)
     heads = np.empty(width, dtype=np.int64)
     span_q = np.empty((width * k_max, 2))  # start and length of each interval
     span_a = np.empty((most_lines, width * k_max, 4))  # each line's cubic on it
@@ -241,13 +308,20 @@ def fleet_extremes(
         i = case_row[case]
         for si in range(sigmas.size):
             sigma = sigmas[si]
+            n_shared = _events(
+                plan.shared, 0, plan.shared.shape[1], loads, offsets, s0, s1, sigma,
+                shared_q, shared_break, shared_load, heads,
+            )  # fmt: skip
+            shared = (shared_q, shared_break, shared_load, n_shared)
             for u in range(counts.size):
                 r0 = bundle_start[u]
                 n_lines = bundle_start[u + 1] - r0
-                total = _events(
-                    breaks, u, counts[u], loads, offsets, s0, s1, sigma,
-                    event_q, event_break, event_load, heads,
+                n_own = _events(
+                    plan.extra, u, plan.n_extra[u], loads, offsets, s0, s1, sigma,
+                    extra_q, extra_break, extra_load, heads,
                 )  # fmt: skip
+                own = (extra_q, extra_break, extra_load, n_own)
+                total = _merge(plan, u, shared, own, event_q, event_break, event_load)
                 for ln in range(n_lines):
                     e = order[r0 + ln]
                     top[ln, 0] = max_v[i, e]
@@ -404,7 +478,7 @@ def chain_extremes(
     maximum value, the front axle position giving it and the front-to-front
     distances (E, G-1), then the same three for the minimum.
     """
-    order, bundle_start, breaks, counts, jumps = plan
+    order, bundle_start, breaks, counts, jumps = plan[:5]
     n_eff = order.size
     n_groups = group_start.size - 1
     n_gaps = max(n_groups - 1, 0)
