@@ -133,9 +133,12 @@ def _spacings(
     return lo, np.maximum(lo, np.minimum(hi, length))
 
 
-def _check(loads: NDArray[np.float64], directions: tuple[int, ...]) -> None:
+def _check_loads(loads: NDArray[np.float64]) -> None:
     if not np.all(np.isfinite(loads)):
         raise ValueError("axle loads must be finite numbers")
+
+
+def _check_directions(directions: tuple[int, ...]) -> None:
     if not directions or any(d not in (LEFT_TO_RIGHT, RIGHT_TO_LEFT) for d in directions):
         raise ValueError("directions must be one or both of +1 (left to right) and -1")
 
@@ -156,20 +159,20 @@ def _prepared(
 ) -> _Prepared:
     """The same train prepared once for every member whose length does not cap its ranges."""
     p = np.ascontiguousarray(loads, dtype=float).reshape(-1)
+    _check_loads(p)
     lo, hi = _spacings(np.inf, p.size, low, high)
     return _Prepared(loads=p, lo=lo, hi=hi, combos=_combos(lo, hi))
 
 
-def _prepare(il: InfluenceLines, train: Train, directions: tuple[int, ...]) -> _Prepared:
+def _prepare(il: InfluenceLines, train: Train) -> _Prepared:
     high = train.spacing_high or train.spacing_low
-    # Cap ranges at the member length (see _spacings) without hiding an inverted range.
-    capped = tuple(
-        max(lo, il.length) if hi > il.length else hi
-        for lo, hi in zip(train.spacing_low, high, strict=False)
-    )
-    ready = _prepared(tuple(train.loads), tuple(train.spacing_low), capped)
-    _check(ready.loads, directions)
-    return ready
+    if max(high, default=0.0) > il.length:
+        # Cap ranges at the member length (see _spacings) without hiding an inverted range.
+        high = tuple(
+            max(lo, il.length) if hi > il.length else hi
+            for lo, hi in zip(train.spacing_low, high, strict=False)
+        )
+    return _prepared(tuple(train.loads), tuple(train.spacing_low), tuple(high))
 
 
 def _combos(lo: NDArray[np.float64], hi: NDArray[np.float64]) -> list[_Combo]:
@@ -248,7 +251,8 @@ def axle_extremes(
     spacing used for each gap.
     """
     p = np.ascontiguousarray(loads, dtype=float).reshape(-1)
-    _check(p, directions)
+    _check_loads(p)
+    _check_directions(directions)
     lo, hi = _spacings(il.length, p.size, spacing_low, spacing_high)
     plans = _plans(il, drop_adverse_axles)
     tol = POSITION_TOL * il.length
@@ -308,6 +312,7 @@ def fleet_extremes_of(
     only the ways that leave a spacing free go one by one through the group
     join. Units as in :func:`axle_extremes`.
     """
+    _check_directions(directions)
     n_eff = il.n_effects
     shape = (len(trains), n_eff)
     out = FleetExtremes(
@@ -330,7 +335,7 @@ def fleet_extremes_of(
     rigid: dict[bool, list[tuple[int, NDArray[np.float64], NDArray[np.float64]]]] = {}
     chains: dict[bool, list[_Link]] = {}
     for row, t in enumerate(trains):
-        ready = _prepare(il, t, directions)
+        ready = _prepare(il, t)
         for combo in ready.combos:
             if combo.free:
                 lo, hi = combo.gap_bounds(ready.lo, ready.hi)
@@ -338,7 +343,7 @@ def fleet_extremes_of(
                 chains.setdefault(t.drop_adverse_axles, []).append(link)
             else:
                 rigid.setdefault(t.drop_adverse_axles, []).append((row, ready.loads, combo.offsets))
-    sigmas = np.array(directions, dtype=float)  # checked by _prepare
+    sigmas = np.array(directions, dtype=float)
     # Rigid trains first, then the free-gap chains of ranged ones; ties keep the first.
     for drop, jobs in rigid.items():
         start = np.cumsum([0] + [p.size for _, p, _ in jobs], dtype=np.int64)
