@@ -405,7 +405,7 @@ def fleet_extremes(
 
 
 @nb.njit(cache=True)
-def _candidates(
+def _carry(
     jumps: np.ndarray,
     row: int,
     event_q: np.ndarray,
@@ -414,47 +414,105 @@ def _candidates(
     total: int,
     tol: float,
     g: int,
-    pos: np.ndarray,
-    val: np.ndarray,
-) -> int:
-    """Every candidate of one line for one rigid axle group, into ``pos[g]``/``val[g]``.
+    at_q: np.ndarray,
+    at_v: np.ndarray,
+    span_a: np.ndarray,
+) -> tuple[int, float, float]:
+    """One line under one rigid axle group: its value at every event and its cubic between.
 
     Before the first event every axle is off the member (E = 0). The cubic of
     each interval is carried to the next event by an exact Taylor shift; its
     value there is the limit from the left, and after the crossing axles'
-    jumps, the limit from the right. Stationary points inside each interval
-    are candidates too. Returns how many were written, in ascending position.
+    jumps, the limit from the right. Writes, per event position k of group g,
+    ``at_q[g, k]``, both limits ``at_v[g, k]`` and the cubic that starts there
+    ``span_a[g, k]`` (its length is ``at_q[g, k + 1] - at_q[g, k]``). Returns
+    the number of positions and bounds above and below every value the group
+    can give (the limits and the Bernstein control points of every interval).
     """
     a0 = a1 = a2 = a3 = 0.0
-    count = 0
+    high = 0.0
+    low = 0.0
+    k = 0
     idx = 0
-    q_prev = event_q[g, 0]
+    q_prev = event_q[0]
     while idx < total:
-        qg = event_q[g, idx]
+        qg = event_q[idx]
         a0, a1, a2, a3 = _shift(a0, a1, a2, a3, qg - q_prev)
-        pos[g, count] = qg
-        val[g, count] = a0  # limit from the left
-        while idx < total and event_q[g, idx] - qg <= tol:
-            brk = event_break[g, idx]
-            p = event_load[g, idx]
+        at_q[g, k] = qg
+        at_v[g, k, 0] = a0  # limit from the left
+        while idx < total and event_q[idx] - qg <= tol:
+            brk = event_break[idx]
+            p = event_load[idx]
             a0 += p * jumps[row, brk, 0]
             a1 += p * jumps[row, brk, 1]
             a2 += p * jumps[row, brk, 2]
             a3 += p * jumps[row, brk, 3]
             idx += 1
-        pos[g, count + 1] = qg
-        val[g, count + 1] = a0  # limit from the right
-        count += 2
+        at_v[g, k, 1] = a0  # limit from the right
+        span_a[g, k, 0] = a0
+        span_a[g, k, 1] = a1
+        span_a[g, k, 2] = a2
+        span_a[g, k, 3] = a3
+        high = max(high, at_v[g, k, 0], a0)
+        low = min(low, at_v[g, k, 0], a0)
         if idx < total:
-            found, t0, t1 = _quad_roots(a1, 2.0 * a2, 3.0 * a3, event_q[g, idx] - qg)
-            if found == 2 and t1 < t0:
-                t0, t1 = t1, t0
-            for r in range(found):
-                t = t0 if r == 0 else t1
-                pos[g, count] = qg + t
-                val[g, count] = ((a3 * t + a2) * t + a1) * t + a0
-                count += 1
+            third = (event_q[idx] - qg) * (1.0 / 3.0)
+            inner1 = a0 + a1 * third
+            inner2 = a0 + (2.0 * a1 + 3.0 * a2 * third) * third
+            high = max(high, inner1, inner2)
+            low = min(low, inner1, inner2)
+        k += 1
         q_prev = qg
+    return k, high, low
+
+
+@nb.njit(cache=True)
+def _promising(
+    at_q: np.ndarray,
+    at_v: np.ndarray,
+    span_a: np.ndarray,
+    n_at: int,
+    g: int,
+    sense: float,
+    floor: float,
+    pos: np.ndarray,
+    val: np.ndarray,
+) -> int:
+    """Group g's candidates whose ``sense * value`` passes ``floor``, in position order.
+
+    Candidates are the better limit at each event position and the stationary
+    points of each interval's cubic, solved only where a Bernstein control
+    point passes the floor. Values are written multiplied by ``sense``.
+    """
+    count = 0
+    for k in range(n_at):
+        v = max(sense * at_v[g, k, 0], sense * at_v[g, k, 1])
+        if v > floor:
+            pos[g, count] = at_q[g, k]
+            val[g, count] = v
+            count += 1
+        if k + 1 >= n_at:
+            break
+        h = at_q[g, k + 1] - at_q[g, k]
+        a0 = span_a[g, k, 0]
+        a1 = span_a[g, k, 1]
+        a2 = span_a[g, k, 2]
+        third = h * (1.0 / 3.0)
+        inner1 = sense * (a0 + a1 * third)
+        inner2 = sense * (a0 + (2.0 * a1 + a2 * h) * third)
+        if max(inner1, inner2) <= floor:
+            continue
+        a3 = span_a[g, k, 3]
+        found, t0, t1 = _quad_roots(a1, 2.0 * a2, 3.0 * a3, h)
+        if found == 2 and t1 < t0:
+            t0, t1 = t1, t0
+        for r in range(found):
+            t = t0 if r == 0 else t1
+            v = sense * (((a3 * t + a2) * t + a1) * t + a0)
+            if v > floor:
+                pos[g, count] = at_q[g, k] + t
+                val[g, count] = v
+                count += 1
     return count
 
 
@@ -468,6 +526,8 @@ def chain_extremes(
     gap_hi: np.ndarray,
     sigma: float,
     tol: float,
+    held_max: np.ndarray,
+    held_min: np.ndarray,
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
     """Largest and smallest effect of a chain of rigid axle groups, per influence line.
 
@@ -477,6 +537,11 @@ def chain_extremes(
     (distances that include group g's own length). Returns, per effect, the
     maximum value, the front axle position giving it and the front-to-front
     distances (E, G-1), then the same three for the minimum.
+
+    Only values that pass ``held_max`` (or fall below ``held_min``), the extremes
+    already known per effect, are sought: a candidate of one group whose value
+    plus the other groups' upper bounds cannot pass them is dropped before the
+    join, and where none can, the result is -inf (or +inf) with position NaN.
     """
     order, bundle_start, breaks, counts, jumps = plan[:5]
     n_eff = order.size
@@ -486,7 +551,12 @@ def chain_extremes(
     k_max = 1
     for g in range(n_groups):
         k_max = max(k_max, group_start[g + 1] - group_start[g])
-    max_c = 4 * width * k_max + 2
+    max_c = 3 * width * k_max + 2
+    at_q = np.empty((n_groups, max_c))
+    at_v = np.empty((n_groups, max_c, 2))
+    span_a = np.empty((n_groups, max_c, 4))
+    n_at = np.empty(n_groups, dtype=np.int64)
+    bound = np.empty((n_groups, 2))
     pos = np.empty((n_groups, max_c))
     val = np.empty((n_groups, max_c))
     ncand = np.empty(n_groups, dtype=np.int64)
@@ -500,7 +570,7 @@ def chain_extremes(
     n_events = np.empty(n_groups, dtype=np.int64)
     heads = np.empty(width, dtype=np.int64)
     out_v = np.empty((2, n_eff))
-    out_p = np.empty((2, n_eff))
+    out_p = np.full((2, n_eff), np.nan)
     out_d = np.zeros((2, n_eff, n_gaps))
     for u in range(counts.size):
         for g in range(n_groups):
@@ -511,14 +581,27 @@ def chain_extremes(
         for row in range(bundle_start[u], bundle_start[u + 1]):
             e = order[row]
             for g in range(n_groups):
-                ncand[g] = _candidates(
-                    jumps, row, event_q, event_break, event_load, n_events[g], tol, g, pos, val,
+                n_at[g], bound[g, 0], bound[g, 1] = _carry(
+                    jumps, row, event_q[g], event_break[g], event_load[g], n_events[g], tol,
+                    g, at_q, at_v, span_a,
                 )  # fmt: skip
             for sense_i in range(2):
                 sense = 1.0 if sense_i == 0 else -1.0
+                out_v[sense_i, e] = -sense * np.inf
+                # In the sense's own terms (maximise sense * value): what must be passed,
+                # and the most all the groups together could give.
+                held = sense * (held_max[e] if sense_i == 0 else held_min[e])
+                reach = 0.0
+                for g in range(n_groups):
+                    reach += sense * bound[g, sense_i]
+                if reach <= held:
+                    continue
+                for g in range(n_groups):
+                    floor = held - (reach - sense * bound[g, sense_i])
+                    ncand[g] = _promising(at_q, at_v, span_a, n_at[g], g, sense, floor, pos, val)
                 last = n_groups - 1
                 for j in range(ncand[last]):
-                    nxt[j] = sense * val[last, j]
+                    nxt[j] = val[last, j]
                 for g in range(n_groups - 2, -1, -1):
                     lo = gap_lo[g] - tol
                     hi = gap_hi[g] + tol
@@ -544,7 +627,7 @@ def chain_extremes(
                         while tail > head and pos[g + 1, window[head]] < first:
                             head += 1
                         if tail > head:
-                            best[i] = sense * val[g, i] + nxt[window[head]]
+                            best[i] = val[g, i] + nxt[window[head]]
                             choice[g, i] = window[head]
                         else:
                             best[i] = -np.inf
@@ -552,18 +635,18 @@ def chain_extremes(
                     for i in range(ncand[g]):
                         nxt[i] = best[i]
                 top = -np.inf
-                arg = 0
+                arg = -1
                 for i in range(ncand[0]):
                     if nxt[i] > top:
                         top = nxt[i]
                         arg = i
+                if arg < 0:
+                    continue
                 out_v[sense_i, e] = sense * top
                 out_p[sense_i, e] = pos[0, arg]
                 idx = arg
                 for g in range(n_gaps):
                     nidx = choice[g, idx]
-                    if nidx < 0:
-                        break
                     out_d[sense_i, e, g] = sigma * (pos[g, idx] - pos[g + 1, nidx])
                     idx = nidx
     return out_v[0], out_p[0], out_d[0], out_v[1], out_p[1], out_d[1]
@@ -602,6 +685,7 @@ def chain_fleet(
             high, high_p, _, low, low_p, _ = chain_extremes(
                 plan, loads[a0:a1], offsets[a0:a1], group_start[job, : n_groups + 1],
                 gap_lo[job, : n_groups - 1], gap_hi[job, : n_groups - 1], sigma, tol,
+                max_v[i], min_v[i],
             )  # fmt: skip
             for e in range(high.size):
                 if keep[0] and high[e] > max_v[i, e]:

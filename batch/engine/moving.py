@@ -219,12 +219,15 @@ def _chain(
     gaps: tuple[NDArray[np.float64], NDArray[np.float64]],
     sigma: int,
     tol: float,
+    held: tuple[NDArray[np.float64], NDArray[np.float64]],
 ) -> tuple[tuple[NDArray[np.float64], ...], tuple[NDArray[np.float64], ...]]:
     """(value, position, distances) of the maximum and of the minimum of one combination.
 
-    One compiled call gives both when the two plans are the same.
+    Only values passing the ``held`` maxima and minima are sought (see
+    :func:`chain_extremes`). One compiled call gives both when the two plans
+    are the same.
     """
-    args = (loads, combo.offsets, combo.group_start, gaps[0], gaps[1], float(sigma), tol)
+    args = (loads, combo.offsets, combo.group_start, gaps[0], gaps[1], float(sigma), tol, *held)
     high = chain_extremes(plans[0], *args)
     low = high if plans[1] is plans[0] else chain_extremes(plans[1], *args)
     return high[0:3], low[3:6]
@@ -268,7 +271,8 @@ def axle_extremes(
     }
     for sigma in directions:
         for combo in _combos(lo, hi):
-            both = _chain(plans, p, combo, combo.gap_bounds(lo, hi), sigma, tol)
+            held = (best[1.0][0], best[-1.0][0])
+            both = _chain(plans, p, combo, combo.gap_bounds(lo, hi), sigma, tol, held)
             for sense, (total, pos, dist) in zip((1.0, -1.0), both, strict=True):
                 value, position, direction, spacing = best[sense]
                 better = sense * total > sense * value
