@@ -27,6 +27,7 @@ from hypothesis import strategies as st
 
 from batch.engine import AxleExtremes, InfluenceLines, axle_extremes, influence_lines
 from batch.engine.influence import POSITION_TOL, mechanism_parts
+from batch.engine.kernel import chain_extremes
 
 #: Exact method: agreement relative to each effect's natural size.
 REL_TOL_EXACT = 1e-9
@@ -339,3 +340,46 @@ def test_the_sweep_plan_rebuilds_every_line(member: Member, fractions: list[floa
                 terms = sum(jump[:, [c]] * t**c for c in range(4))
                 rebuilt[plan.order[r]] = np.where(t >= 0.0, terms, 0.0).sum(axis=0)
         _assert_same(rebuilt, expected, il.effect_scale[:, None])
+
+
+@EXAMPLES
+@given(
+    member=members(),
+    loads=st.lists(st.integers(2, 40).map(float), min_size=2, max_size=5),
+    data=st.data(),
+)
+def test_seeking_only_what_passes_the_held_extremes_changes_nothing_else(
+    member: Member, loads: list[float], data: st.DataObject
+) -> None:
+    # Branch and bound (common practice): the join of a ranged train's groups drops what
+    # cannot pass the extremes already held. For any held level, the result must be the
+    # unbounded search's own wherever that passes the level, and nothing elsewhere.
+    il = _lines(member)
+    cut = data.draw(st.integers(1, len(loads) - 1))
+    offsets = np.concatenate(
+        [
+            [0.0],
+            np.cumsum(
+                data.draw(st.lists(spacing, min_size=len(loads) - 1, max_size=len(loads) - 1))
+            ),
+        ]
+    )
+    offsets[cut:] -= offsets[cut]
+    own = offsets[cut - 1] + data.draw(spacing)
+    gap = (np.array([own]), np.array([own + data.draw(spacing)]))
+    sigma = float(data.draw(st.sampled_from([1, -1])))
+    tol = POSITION_TOL * il.length
+    groups = np.array([0, cut, len(loads)], dtype=np.int64)
+    args = (il.plan, np.array(loads), offsets, groups, *gap, sigma, tol)
+    free = chain_extremes(*args, np.full(il.n_effects, -np.inf), np.full(il.n_effects, np.inf))
+    level = data.draw(st.sampled_from([0.0, 0.5, 0.9, 0.999, 1.0, 1.2]))
+    # (-inf where no two candidates of the groups fit the range: the range ends cover it)
+    held = tuple(level * np.where(np.isfinite(v), v, 0.0) for v in (free[0], free[3]))
+    bounded = chain_extremes(*args, *held)
+    for k, (unbounded, limit, sense) in enumerate(
+        ((free[0], held[0], 1.0), (free[3], held[1], -1.0))
+    ):
+        got = bounded[3 * k]
+        passes = sense * unbounded > sense * limit
+        _assert_same(got[passes], unbounded[passes], (il.effect_scale * sum(loads))[passes])
+        assert np.all(sense * got[~passes] <= sense * limit[~passes])
