@@ -261,7 +261,7 @@ def _run_key(report: InputReport) -> str:
 
 def _cmd_run(args: argparse.Namespace) -> int:
     from batch.run import RunError, RunOptions, run_case
-    from batch.store import store_path_for
+    from batch.store import StoreError, store_path_for
     from batch.writers import BookProblem, InputInfo, result_package
     from batch.writers.save import SaveError, atomic_save
 
@@ -295,7 +295,7 @@ def _cmd_run(args: argparse.Namespace) -> int:
     )
     try:
         result = run_case(report.case, _progress(args.quiet), options)
-    except RunError as exc:
+    except (RunError, StoreError) as exc:
         raise Refused(f"{exc}. {src.name} was not changed.") from exc
     info = InputInfo(
         name=src.name,
@@ -304,11 +304,16 @@ def _cmd_run(args: argparse.Namespace) -> int:
         output=target.name,
         warnings=tuple(w.render() for w in report.warnings),
     )
-    package = result_package(source, result, info)
+    try:
+        package = result_package(source, result, info)
+    except StoreError as exc:
+        raise Refused(f"{exc}. {src.name} was not changed.") from exc
     try:
         atomic_save(package, target, expect_sha256=report.digest if in_place else None)
     except (SaveError, BookProblem) as exc:
         raise Refused(str(exc)) from exc
+    except StoreError as exc:  # results are read back from the store as they are saved
+        raise Refused(f"{exc}. {src.name} was not changed.") from exc
     for text in result.warnings:
         _warn(text)
     if not args.quiet:

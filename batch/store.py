@@ -24,6 +24,7 @@ cannot run code.
 
 from __future__ import annotations
 
+import contextlib
 import io
 import json
 import sqlite3
@@ -39,13 +40,19 @@ from batch.assess import MemberAssessment
 from batch.engine import Extremes, MemberEnvelope
 from batch.rating import MemberRating, MemberScreening
 
-__all__ = ["PEAK_COLUMNS", "CheckpointStore", "PeakRow", "StoredMembers", "store_path_for"]
+__all__ = [
+    "PEAK_COLUMNS",
+    "CheckpointStore",
+    "PeakRow",
+    "StoreError",
+    "StoredMembers",
+    "store_path_for",
+]
 
 #: Columns of the per-vehicle summary, in order (see the module docstring).
 PEAK_COLUMNS: tuple[str, ...] = ("m_max", "m_min", "v_max", "v_min", "r_max", "r_min")
 
 _EXTREMES = ("m_max", "m_min", "v_max", "v_min", "r_max", "r_min")
-_LAYOUT = ("station_span", "station_fraction", "station_x", "support_x")
 
 _SCHEMA = """
 CREATE TABLE IF NOT EXISTS meta (key TEXT PRIMARY KEY, value TEXT NOT NULL);
@@ -65,6 +72,25 @@ CREATE VIEW IF NOT EXISTS vehicle_summary AS
     FROM vehicle_peaks p JOIN members m ON m.idx = p.member_idx
     JOIN vehicles v ON v.idx = p.vehicle_idx;
 """
+
+
+class StoreError(Exception):
+    """The checkpoint store cannot be used; the message says what is wrong and what to do."""
+
+
+@contextlib.contextmanager
+def _guarded(path: Path) -> Iterator[None]:
+    """Turn SQLite's errors (a damaged or foreign file, a full disk, a lock) into StoreError.
+
+    A stored blob that does not decode (ValueError) is a damaged store too.
+    """
+    try:
+        yield
+    except (sqlite3.Error, ValueError) as exc:
+        raise StoreError(
+            f"{path.name}: the checkpoint store could not be used ({exc}); delete it to start "
+            "afresh, or run with --no-store"
+        ) from exc
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -112,26 +138,63 @@ def _unpack_assessment(blob: bytes | None) -> MemberAssessment:
     )
 
 
+#: Each envelope array in the order it is stored, with its stored type: first the
+#: layout, then per effect family and sense value, case and position; the one-byte
+#: directions last (so every wider array stays aligned).
+_ARRAYS: tuple[tuple[str, str, type[np.generic]], ...] = (
+    ("", "station_span", np.int64),
+    ("", "station_fraction", np.float64),
+    ("", "station_x", np.float64),
+    ("", "support_x", np.float64),
+    *(
+        (name, field, kind)
+        for name in _EXTREMES
+        for field, kind in (("value", np.float64), ("case", np.int64), ("position", np.float64))
+    ),
+    *((name, "direction", np.int8) for name in _EXTREMES),
+)
+
+
 def _pack(env: MemberEnvelope) -> bytes:
-    arrays: dict[str, NDArray[np.generic]] = {name: getattr(env, name) for name in _LAYOUT}
-    for name in _EXTREMES:
-        ext: Extremes = getattr(env, name)
-        for field in ("value", "case", "position", "direction"):
-            arrays[f"{name}.{field}"] = getattr(ext, field)
-    return _npz(arrays)
+    """An envelope as raw little-endian arrays behind a count of stations and supports.
+
+    Decoding is a handful of ``np.frombuffer`` views, fast enough to stream
+    every member back to the writer for each result sheet.
+    """
+    parts = [np.array([env.station_x.size, env.support_x.size], "<i8").tobytes()]
+    for name, field, kind in _ARRAYS:
+        array = getattr(getattr(env, name), field) if name else getattr(env, field)
+        parts.append(np.ascontiguousarray(array, np.dtype(kind).newbyteorder("<")).tobytes())
+    return b"".join(parts)
 
 
 def _unpack(member: str, blob: bytes, labels: tuple[str, ...]) -> MemberEnvelope:
-    with np.load(io.BytesIO(blob), allow_pickle=False) as data:
-        parts = {name: data[name] for name in _LAYOUT}
-        for name in _EXTREMES:
-            parts[name] = Extremes(
-                value=data[f"{name}.value"],
-                case=data[f"{name}.case"],
-                position=data[f"{name}.position"],
-                direction=data[f"{name}.direction"],
+    n_stations, n_supports = (int(n) for n in np.frombuffer(blob, "<i8", 2))
+    offset = 16
+    arrays: dict[tuple[str, str], NDArray[np.generic]] = {}
+    for name, field, kind in _ARRAYS:
+        count = n_supports if name.startswith("r_") or field == "support_x" else n_stations
+        dtype = np.dtype(kind).newbyteorder("<")
+        if offset + count * dtype.itemsize > len(blob):
+            raise ValueError(f"member {member!r}'s stored results are cut short")
+        arrays[name, field] = np.frombuffer(blob, dtype, count, offset)
+        offset += count * dtype.itemsize
+    if offset != len(blob):
+        raise ValueError(f"member {member!r}'s stored results do not have the expected size")
+    return MemberEnvelope(
+        member=member,
+        labels=labels,
+        **{field: arrays["", field] for _, field, _ in _ARRAYS[:4]},
+        **{
+            name: Extremes(
+                value=arrays[name, "value"],
+                case=arrays[name, "case"],
+                position=arrays[name, "position"],
+                direction=arrays[name, "direction"],
             )
-    return MemberEnvelope(member=member, labels=labels, **parts)
+            for name in _EXTREMES
+        },
+    )
 
 
 T = TypeVar("T")
@@ -159,16 +222,17 @@ class StoredMembers(Sequence[T]):
         return self._size
 
     def _rows(self, where: str, args: tuple[int, ...]) -> Iterator[T]:
-        db = sqlite3.connect(f"file:{self._path}?mode=ro", uri=True, timeout=30.0)
-        try:
-            query = (
-                f"SELECT m.member, {self._column} FROM members m "  # fixed column names
-                f"LEFT JOIN assessments a ON a.idx = m.idx {where} ORDER BY m.idx"
-            )
-            for member, blob in db.execute(query, args):
-                yield self._decode(member, blob)
-        finally:
-            db.close()
+        query = (
+            f"SELECT m.member, {self._column} FROM members m "  # fixed column names
+            f"LEFT JOIN assessments a ON a.idx = m.idx {where} ORDER BY m.idx"
+        )
+        with _guarded(self._path):
+            db = sqlite3.connect(f"file:{self._path}?mode=ro", uri=True, timeout=30.0)
+            try:
+                for member, blob in db.execute(query, args):
+                    yield self._decode(member, blob)
+            finally:
+                db.close()
 
     def __iter__(self) -> Iterator[T]:
         return self._rows("", ())
@@ -202,6 +266,15 @@ class CheckpointStore:
         self.path = path
         self.labels = labels
         self._db = sqlite3.connect(path, timeout=30.0)
+        try:
+            with _guarded(path):
+                self._open(key, vehicles)
+        except StoreError:
+            self._db.close()
+            raise
+
+    def _open(self, key: str, vehicles: tuple[str, ...]) -> None:
+        labels = self.labels
         self._db.execute("PRAGMA journal_mode=WAL")
         self._db.executescript(_SCHEMA)
         row = self._db.execute("SELECT value FROM meta WHERE key = 'run'").fetchone()
@@ -218,7 +291,8 @@ class CheckpointStore:
 
     def finished(self) -> set[int]:
         """Indices of the members already stored."""
-        return {idx for (idx,) in self._db.execute("SELECT idx FROM members")}
+        with _guarded(self.path):
+            return {idx for (idx,) in self._db.execute("SELECT idx FROM members")}
 
     def put(
         self,
@@ -232,7 +306,7 @@ class CheckpointStore:
 
         ``assessment`` (its rating and screening) is stored when given.
         """
-        with self._db:
+        with _guarded(self.path), self._db:
             self._db.execute(
                 "INSERT OR REPLACE INTO members VALUES (?, ?, ?, ?)",
                 (index, envelope.member, _pack(envelope), json.dumps(warnings)),
@@ -260,8 +334,9 @@ class CheckpointStore:
 
     def warnings(self) -> list[str]:
         """Every stored member's warnings, in member order."""
-        rows = self._db.execute("SELECT warnings FROM members ORDER BY idx")
-        return [w for (text,) in rows for w in json.loads(text)]
+        with _guarded(self.path):
+            rows = self._db.execute("SELECT warnings FROM members ORDER BY idx")
+            return [w for (text,) in rows for w in json.loads(text)]
 
     def peak_rows(self) -> Iterator[PeakRow]:
         """Every stored per-vehicle summary row, members and vehicles in input order."""
@@ -271,14 +346,15 @@ class CheckpointStore:
             "FROM vehicle_peaks p JOIN members m ON m.idx = p.member_idx "
             "JOIN vehicles v ON v.idx = p.vehicle_idx ORDER BY p.member_idx, p.vehicle_idx"
         )
-        for mi, vi, member, vehicle, *values in self._db.execute(query):
-            yield PeakRow(
-                member_index=mi,
-                vehicle_index=vi,
-                member=member,
-                vehicle=vehicle,
-                values=tuple(values),
-            )
+        with _guarded(self.path):
+            for mi, vi, member, vehicle, *values in self._db.execute(query):
+                yield PeakRow(
+                    member_index=mi,
+                    vehicle_index=vi,
+                    member=member,
+                    vehicle=vehicle,
+                    values=tuple(values),
+                )
 
     def close(self) -> None:
         """Close the database (the file stays for resuming and for queries)."""

@@ -11,6 +11,7 @@ from __future__ import annotations
 import io
 import json
 import os
+import sqlite3
 import zipfile
 from pathlib import Path
 
@@ -353,3 +354,35 @@ def test_a_formula_input_keeps_its_cached_value_so_a_second_run_reads_it(
     assert report.case is not None
     assert report.case.members[0].spans == (60.0,)
     assert load_workbook(path)["Members"]["B2"].value == "=30+30"
+
+
+def test_a_damaged_checkpoint_store_is_refused_with_the_fix(book: Path, capsys) -> None:
+    # A file in the store's place that is not a database: say so, name it, give the way out.
+    before = book.read_bytes()
+    store = book.with_name(f"{book.stem}.spanfleet.sqlite")
+    store.write_bytes(b"not a database, whatever the name says" * 100)
+    assert main(["run", str(book), "-q"]) == EXIT_PROBLEMS
+    err = capsys.readouterr().err
+    assert f"{store.name}: the checkpoint store could not be used" in err
+    assert "delete it to start afresh, or run with --no-store" in err
+    assert f"{book.name} was not changed" in err
+    assert book.read_bytes() == before
+    assert main(["run", str(book), "-q", "--no-store"]) == EXIT_OK
+
+
+def test_stored_results_that_do_not_decode_are_refused_with_the_fix(book: Path, capsys) -> None:
+    # A store cut short (a copy broken in transit, say): refuse it rather than write
+    # results read from it; a fresh run after deleting it succeeds.
+    out = book.with_name("results.xlsx")
+    assert main(["run", str(book), "--out", str(out), "-q"]) == EXIT_OK
+    store = out.with_name("results.spanfleet.sqlite")
+    with sqlite3.connect(store) as db:
+        db.execute("UPDATE members SET envelope = substr(envelope, 1, 40)")
+    db.close()
+    out.unlink()
+    assert main(["run", str(book), "--out", str(out), "-q"]) == EXIT_PROBLEMS
+    err = capsys.readouterr().err
+    assert "the checkpoint store could not be used" in err and "cut short" in err
+    assert not out.exists()
+    store.unlink()
+    assert main(["run", str(book), "--out", str(out), "-q"]) == EXIT_OK
