@@ -354,6 +354,8 @@ def fleet_extremes(
                                 a[ln, c] += p * jumps[r0 + ln, brk, c]
                         idx += 1
                     for ln in range(n_lines):
+                        # (written out as above: a helper taking the arrays, called here
+                        # for every line and event, made the whole sweep four times slower)
                         a0 = a[ln, 0]
                         if a0 > top[ln, 0]:  # limit from the right
                             top[ln, 0] = a0

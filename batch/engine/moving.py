@@ -64,21 +64,6 @@ class FleetExtremes:
     min_position: NDArray[np.float64]
     min_direction: NDArray[np.int8]
 
-    def absorb(
-        self,
-        row: int,
-        sense: float,
-        value: NDArray[np.float64],
-        position: NDArray[np.float64],
-        direction: NDArray[np.int8],
-    ) -> None:
-        """Keep, in ``row``, whichever of the held and the given extremes is worse."""
-        held = self.max_value if sense > 0 else self.min_value
-        better = sense * value > sense * held[row]
-        held[row, better] = value[better]
-        (self.max_position if sense > 0 else self.min_position)[row, better] = position[better]
-        (self.max_direction if sense > 0 else self.min_direction)[row, better] = direction[better]
-
 
 @dataclass(frozen=True, kw_only=True)
 class AxleExtremes(FleetExtremes):
