@@ -2,11 +2,14 @@
 
 For each influence line (on its own minimal partition, see
 ``InfluenceLines.reduced``) and each rigid group of axles, every candidate
-front-axle position is evaluated exactly: each position where some axle sits
-on a break (both one-sided limits), and each stationary point of the cubic
-between consecutive such positions. Groups separated by a free (ranged) gap are
-then joined by a dynamic programme over their candidates that keeps the gap
-within its range. See :mod:`batch.engine.moving` for why this is exact.
+front-axle position is considered: each position where some axle sits on a
+break (both one-sided limits), and each stationary point of the cubic between
+consecutive such positions. Candidates are evaluated exactly, except those a
+bound proves cannot pass the extremes already found (the Bernstein hull of an
+interval's cubic; see :func:`fleet_extremes` and :func:`chain_extremes`).
+Groups separated by a free (ranged) gap are then joined by a dynamic programme
+over their candidates that keeps the gap within its range. See
+:mod:`batch.engine.moving` for why this is exact.
 
 Lines with the same breaks (the moment and the shear at one station, or all
 the lines whose only breaks are the supports and hinges) form a *bundle*: the
@@ -436,15 +439,15 @@ def _carry(
     low = 0.0
     k = 0
     idx = 0
-    q_prev = event_q[0]
+    q_prev = event_q[g, 0]
     while idx < total:
-        qg = event_q[idx]
+        qg = event_q[g, idx]
         a0, a1, a2, a3 = _shift(a0, a1, a2, a3, qg - q_prev)
         at_q[g, k] = qg
         at_v[g, k, 0] = a0  # limit from the left
-        while idx < total and event_q[idx] - qg <= tol:
-            brk = event_break[idx]
-            p = event_load[idx]
+        while idx < total and event_q[g, idx] - qg <= tol:
+            brk = event_break[g, idx]
+            p = event_load[g, idx]
             a0 += p * jumps[row, brk, 0]
             a1 += p * jumps[row, brk, 1]
             a2 += p * jumps[row, brk, 2]
@@ -458,7 +461,7 @@ def _carry(
         high = max(high, at_v[g, k, 0], a0)
         low = min(low, at_v[g, k, 0], a0)
         if idx < total:
-            third = (event_q[idx] - qg) * (1.0 / 3.0)
+            third = (event_q[g, idx] - qg) * (1.0 / 3.0)
             inner1 = a0 + a1 * third
             inner2 = a0 + (2.0 * a1 + 3.0 * a2 * third) * third
             high = max(high, inner1, inner2)
@@ -584,7 +587,7 @@ def chain_extremes(
             e = order[row]
             for g in range(n_groups):
                 n_at[g], bound[g, 0], bound[g, 1] = _carry(
-                    jumps, row, event_q[g], event_break[g], event_load[g], n_events[g], tol,
+                    jumps, row, event_q, event_break, event_load, n_events[g], tol,
                     g, at_q, at_v, span_a,
                 )  # fmt: skip
             for sense_i in range(2):
