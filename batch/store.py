@@ -227,7 +227,9 @@ class StoredMembers(Sequence[T]):
             f"LEFT JOIN assessments a ON a.idx = m.idx {where} ORDER BY m.idx"
         )
         with _guarded(self._path):
-            db = sqlite3.connect(f"file:{self._path}?mode=ro", uri=True, timeout=30.0)
+            # (read-write, though it only reads: the last connection to close then tidies
+            # away SQLite's -wal and -shm files, which a read-only one cannot)
+            db = sqlite3.connect(self._path, timeout=30.0)
             try:
                 for member, blob in db.execute(query, args):
                     yield self._decode(member, blob)

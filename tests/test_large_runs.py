@@ -113,6 +113,8 @@ def test_a_run_with_a_store_reads_back_exactly_what_a_run_in_memory_keeps(tmp_pa
     with pytest.raises(IndexError):
         stored.envelopes[len(case.members)]
     assert stored.warnings == kept.warnings
+    # Reading it back leaves only the store beside the workbook (no SQLite -wal or -shm).
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["s.sqlite"]
 
 
 def test_a_store_resumes_only_the_same_input(tmp_path: Path) -> None:
