@@ -327,9 +327,11 @@ def fleet_extremes(
                 total = _merge(plan, u, shared, own, event_q, event_break, event_load)
                 for ln in range(n_lines):
                     e = order[r0 + ln]
-                    top[ln, 0] = max_v[i, e]
+                    # An extreme not kept is held at infinity: nothing passes it, so no
+                    # interval is solved for it.
+                    top[ln, 0] = max_v[i, e] if keep[0] else np.inf
                     top[ln, 1] = max_p[i, e]
-                    bot[ln, 0] = min_v[i, e]
+                    bot[ln, 0] = min_v[i, e] if keep[1] else -np.inf
                     bot[ln, 1] = min_p[i, e]
                     for c in range(4):
                         a[ln, c] = 0.0
@@ -679,6 +681,9 @@ def chain_fleet(
     ``gap_lo[j]``/``gap_hi[j]`` bound its front-to-front distances.
     """
     max_v, max_p, max_d, min_v, min_p, min_d = out
+    # An extreme not kept is held at infinity, so the join never seeks it.
+    never_above = np.full(max_v.shape[1], np.inf)
+    never_below = np.full(max_v.shape[1], -np.inf)
     for job in range(job_row.size):
         a0, a1 = job_start[job], job_start[job + 1]
         n_groups = 0
@@ -690,7 +695,7 @@ def chain_fleet(
             high, high_p, _, low, low_p, _ = chain_extremes(
                 plan, loads[a0:a1], offsets[a0:a1], group_start[job, : n_groups + 1],
                 gap_lo[job, : n_groups - 1], gap_hi[job, : n_groups - 1], sigma, tol,
-                max_v[i], min_v[i],
+                max_v[i] if keep[0] else never_above, min_v[i] if keep[1] else never_below,
             )  # fmt: skip
             for e in range(high.size):
                 if keep[0] and high[e] > max_v[i, e]:
