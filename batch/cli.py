@@ -293,10 +293,6 @@ def _cmd_run(args: argparse.Namespace) -> int:
         store=None if args.no_store else store_path_for(target),
         key=_run_key(report),
     )
-    try:
-        result = run_case(report.case, _progress(args.quiet), options)
-    except (RunError, StoreError) as exc:
-        raise Refused(f"{exc}. {src.name} was not changed.") from exc
     info = InputInfo(
         name=src.name,
         digest=report.digest,
@@ -305,15 +301,14 @@ def _cmd_run(args: argparse.Namespace) -> int:
         warnings=tuple(w.render() for w in report.warnings),
     )
     try:
+        result = run_case(report.case, _progress(args.quiet), options)
+        # With a store, results are read back from it as the workbook is saved.
         package = result_package(source, result, info)
-    except StoreError as exc:
-        raise Refused(f"{exc}. {src.name} was not changed.") from exc
-    try:
         atomic_save(package, target, expect_sha256=report.digest if in_place else None)
+    except (RunError, StoreError) as exc:
+        raise Refused(f"{exc}. {src.name} was not changed.") from exc
     except (SaveError, BookProblem) as exc:
         raise Refused(str(exc)) from exc
-    except StoreError as exc:  # results are read back from the store as they are saved
-        raise Refused(f"{exc}. {src.name} was not changed.") from exc
     for text in result.warnings:
         _warn(text)
     if not args.quiet:
