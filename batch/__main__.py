@@ -1,5 +1,5 @@
 """``python -m batch``: the ``spanfleet`` command."""
 
-from batch.cli import main
+from batch.command.cli import main
 
 raise SystemExit(main())

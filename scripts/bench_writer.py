@@ -27,13 +27,13 @@ import tempfile
 import time
 from pathlib import Path
 
+from batch.demo.synthetic import synthetic_case
 from batch.model import Settings
-from batch.results import ENVELOPES, GOVERNING, REACTIONS
-from batch.run import run_case
-from batch.synthetic import synthetic_case
-from batch.template import write_case_workbook
-from batch.writers import InputInfo, SourcePackage, result_package
-from batch.writers.save import atomic_save
+from batch.running.executor import run_case
+from batch.writing import InputInfo, SourcePackage, result_package
+from batch.writing.columns import ENVELOPES, GOVERNING, REACTIONS
+from batch.writing.package.save import atomic_save
+from batch.writing.template import write_case_workbook
 
 DISTINCT = 40  # members actually analysed; the rest repeat them
 

@@ -32,13 +32,13 @@ from pathlib import Path
 
 import numpy as np
 
+from batch.demo.synthetic import synthetic_case
 from batch.engine.envelope import member_influence
 from batch.engine.influence import InfluenceLines, influence_lines
 from batch.engine.moving import Train, fleet_extremes_of
-from batch.loadcases import fleet_cases
+from batch.loads.fleet import fleet_cases
 from batch.model import Case, Vehicle
-from batch.synthetic import synthetic_case
-from batch.template import write_case_workbook
+from batch.writing.template import write_case_workbook
 
 STEP = 0.5  # ft, the baseline's front-axle step
 RANGE_STEP = 1.0  # ft, the baseline's step through a ranged spacing

@@ -10,8 +10,8 @@ from __future__ import annotations
 import sys
 from pathlib import Path
 
-from batch.samples import SAMPLE_WORKBOOKS
-from batch.template import write_case_workbook, write_template
+from batch.demo.kvha import SAMPLE_WORKBOOKS
+from batch.writing.template import write_case_workbook, write_template
 
 ROOT = Path(__file__).resolve().parent.parent
 TEMPLATE = ROOT / "templates" / "spanfleet-template.xlsx"

@@ -62,8 +62,8 @@ def assert_same_workbook(fresh: Path, committed: Path) -> None:
 
 
 def read_input_or_skip() -> Callable[[Path], Any]:
-    """The workbook reader ``batch.readers.read_input``, or skip while it is not built."""
-    readers = pytest.importorskip("batch.readers", reason="batch.readers is not built yet")
+    """The workbook reader ``batch.validating.read_input``, or skip while it is not built."""
+    readers = pytest.importorskip("batch.validating", reason="batch.validating is not built yet")
     if not hasattr(readers, "read_input"):
-        pytest.skip("batch.readers.read_input is not built yet")
+        pytest.skip("batch.validating.read_input is not built yet")
     return readers.read_input

@@ -14,7 +14,7 @@ import datetime as dt
 
 import pytest
 
-from batch.readers.cells import Note, read_cell
+from batch.reading.cells import Note, read_cell
 
 RANGE = {"low": 14, "high": 30}
 

@@ -23,9 +23,10 @@ import pandas as pd
 import pytest
 
 from batch.engine import member_envelope
-from batch.loadcases import fleet_cases
-from batch.readers import read_input
-from batch.results import EFFECTS, direction_text
+from batch.engine.effects import EFFECTS
+from batch.loads.fleet import fleet_cases
+from batch.validating import read_input
+from batch.writing.columns import direction_text
 
 SAMPLES = Path(__file__).resolve().parent.parent / "sample_workbooks"
 REL_TOL_EXACT = 1e-9  # the sheets carry the engine's float64 numbers unchanged

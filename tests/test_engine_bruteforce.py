@@ -28,7 +28,7 @@ from numpy.typing import NDArray
 from scipy.optimize import minimize_scalar
 
 from batch.engine import AxleExtremes, InfluenceLines, axle_extremes, influence_lines
-from batch.engine.influence import POSITION_TOL, mechanism_parts
+from batch.model.layout import POSITION_TOL, mechanism_parts
 
 #: Exact method against polished search: agreement relative to the natural size.
 REL_TOL_EXACT = 1e-9

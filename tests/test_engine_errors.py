@@ -30,15 +30,11 @@ import re
 import numpy as np
 import pytest
 
-from batch.engine import (
-    LoadCase,
-    UnstableMemberError,
-    axle_extremes,
-    influence_lines,
-    member_envelope,
-)
-from batch.engine.moving import MAX_RANGES, Train, fleet_extremes_of
+from batch.engine import UnstableMemberError, axle_extremes, influence_lines, member_envelope
+from batch.engine.moving import Train, fleet_extremes_of
+from batch.loads.cases import LoadCase
 from batch.model import Member
+from batch.model.case import MAX_RANGES
 
 #: Exact statics against the engine, relative to the effect's natural size.
 REL_TOL_EXACT = 1e-9

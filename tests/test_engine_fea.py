@@ -24,7 +24,7 @@ import pytest
 from numpy.typing import NDArray
 
 from batch.engine import InfluenceLines, influence_lines
-from batch.engine.influence import mechanism_parts
+from batch.model.layout import mechanism_parts
 
 Pynite = pytest.importorskip("Pynite")
 

@@ -26,8 +26,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from batch.engine import AxleExtremes, InfluenceLines, axle_extremes, influence_lines
-from batch.engine.influence import POSITION_TOL, mechanism_parts
 from batch.engine.kernel import chain_extremes
+from batch.model.layout import POSITION_TOL, mechanism_parts
 
 #: Exact method: agreement relative to each effect's natural size.
 REL_TOL_EXACT = 1e-9

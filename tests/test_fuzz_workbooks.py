@@ -48,9 +48,9 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from batch.cli import EXIT_OK, EXIT_PROBLEMS, main
-from batch.inputs import INPUT_SHEETS
-from batch.writers.save import TEMP_PREFIX
+from batch.command.cli import EXIT_OK, EXIT_PROBLEMS, main
+from batch.model.columns import INPUT_SHEETS
+from batch.writing.package.save import TEMP_PREFIX
 
 #: Distinct mutation programs the fuzz run must try (issue 7: "at least 500 ways per run").
 MIN_DISTINCT_CASES = 500

@@ -24,7 +24,8 @@ from pathlib import Path
 import openpyxl.xml
 import pytest
 
-from batch.readers import read_input, safety, workbook
+from batch.reading import safety, workbook
+from batch.validating import read_input
 
 OLE2_SIGNATURE = bytes.fromhex("D0CF11E0A1B11AE1")
 

@@ -31,8 +31,8 @@ from pathlib import Path
 import openpyxl
 import pytest
 
-from batch.readers import read_input
-from batch.writers.save import TEMP_PREFIX
+from batch.validating import read_input
+from batch.writing.package.save import TEMP_PREFIX
 
 #: Kills that must land while the run is still going (issue 7: "at least 20 times").
 KILLS = 20

@@ -23,15 +23,15 @@ import numpy as np
 import pandas as pd
 import pytest
 
-import batch.run
-from batch import cli
+import batch.running.executor
+from batch.command import cli
+from batch.demo.synthetic import synthetic_case
 from batch.engine import member_envelope
-from batch.loadcases import fleet_cases
+from batch.loads.fleet import fleet_cases
 from batch.model import Case, Settings
-from batch.run import RunOptions, run_case
-from batch.store import store_path_for
-from batch.synthetic import synthetic_case
-from batch.template import write_case_workbook
+from batch.running.executor import RunOptions, run_case
+from batch.running.store import store_path_for
+from batch.writing.template import write_case_workbook
 
 EXTREMES = ("m_max", "m_min", "v_max", "v_min", "r_max", "r_min")
 
@@ -40,7 +40,7 @@ def _small_case(members: int = 12, vehicles: int = 6, seed: int = 11) -> Case:
     return synthetic_case(members, vehicles, seed, Settings(stations_per_span=4))
 
 
-def _same(a: batch.run.RunResult, b: batch.run.RunResult) -> None:
+def _same(a: batch.running.executor.RunResult, b: batch.running.executor.RunResult) -> None:
     assert [e.member for e in a.envelopes] == [e.member for e in b.envelopes]
     for ea, eb in zip(a.envelopes, b.envelopes, strict=True):
         for name in EXTREMES:
@@ -56,7 +56,7 @@ def _same(a: batch.run.RunResult, b: batch.run.RunResult) -> None:
 def test_worker_processes_give_the_serial_results_bit_for_bit(monkeypatch) -> None:
     case = _small_case()
     serial = run_case(case, options=RunOptions(jobs=1))
-    monkeypatch.setattr(batch.run, "PARALLEL_MIN_PAIRS", 0)
+    monkeypatch.setattr(batch.running.executor, "PARALLEL_MIN_PAIRS", 0)
     parallel = run_case(case, options=RunOptions(jobs=2))
     assert parallel.workers == 2
     _same(serial, parallel)

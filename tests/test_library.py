@@ -14,12 +14,12 @@ from fractions import Fraction
 
 import pytest
 
-from batch import library
 from batch.engine import member_envelope
-from batch.library.models import part
-from batch.library.units import KN_PER_KIP, M_PER_FT, conversion
-from batch.loadcases import fleet_cases
+from batch.loads import library
+from batch.loads.fleet import fleet_cases
+from batch.loads.library.models import part
 from batch.model import Member, Settings, Vehicle
+from batch.model.units import KN_PER_KIP, M_PER_FT, conversion
 
 REL_TOL_EXACT = 1e-12  # exact data, exact arithmetic
 REL_TOL_ENGINE = 1e-9  # the same effects computed in two unit systems

@@ -26,8 +26,8 @@ import math
 import numpy as np
 import pytest
 
-from batch import library
 from batch.engine import member_envelope
+from batch.loads import library
 from batch.model import Member
 
 IM = 0.33

@@ -16,8 +16,8 @@ from fractions import Fraction
 
 import pytest
 
-from batch import library
 from batch.engine import member_envelope
+from batch.loads import library
 from batch.model import Member
 
 HALF_UNIT_1DP = 0.05  # a value printed with one decimal

@@ -37,8 +37,8 @@ from pathlib import Path
 import openpyxl
 import pytest
 
-from batch.cli import EXIT_OK, main
-from batch.readers import read_input
+from batch.command.cli import EXIT_OK, main
+from batch.validating import read_input
 
 SOFFICE = shutil.which("soffice") or shutil.which("libreoffice")
 

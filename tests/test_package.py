@@ -26,11 +26,11 @@ from openpyxl.chart import LineChart, Reference
 from openpyxl.workbook.defined_name import DefinedName
 
 from batch.model import Case, Member, Settings, Vehicle
-from batch.results import is_result_sheet_name
-from batch.run import run_case
-from batch.writers import BookProblem, InputInfo, SourcePackage, result_package
-from batch.writers.package import OWNER_MARK, empty_package
-from batch.writers.save import atomic_save
+from batch.running.executor import run_case
+from batch.writing import BookProblem, InputInfo, SourcePackage, result_package
+from batch.writing.columns import is_result_sheet_name
+from batch.writing.package.save import atomic_save
+from batch.writing.package.splice import OWNER_MARK, empty_package
 
 CASE = Case(
     settings=Settings(stations_per_span=2, chart_members=2),

@@ -27,12 +27,13 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from batch.engine import LoadCase, case_effects, influence_lines
+from batch.engine import case_effects, influence_lines
+from batch.loads.cases import LoadCase
+from batch.loads.factors import MIN_CAPACITY_FACTOR
 from batch.model import Capacity, Member
-from batch.rating import (
-    MIN_CAPACITY_FACTOR,
+from batch.model.layout import station_row
+from batch.rating.lrfr import (
     RATED_EFFECTS,
-    SCREEN_EFFECTS,
     RatingFactors,
     capacity_factor,
     dead_load_effects,
@@ -40,11 +41,10 @@ from batch.rating import (
     rate_member,
     rating_factor,
     rating_flag,
-    screen_member,
-    station_row,
     vehicle_effects,
     weight_in_tons,
 )
+from batch.rating.screening import SCREEN_EFFECTS, screen_member
 
 REL_TOL_EXACT = 1e-12  # a few roundings of float64 arithmetic
 REL_TOL_FIXTURE = 5e-4  # the fixture's RFs are quoted to three decimals

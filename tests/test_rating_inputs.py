@@ -14,10 +14,10 @@ import json
 
 import pytest
 
-from batch.inputs import SETTING_ROWS
 from batch.model import Capacity, Settings
-from batch.readers import read_input
-from batch.template import case_workbook
+from batch.model.columns import SETTING_ROWS
+from batch.validating import read_input
+from batch.writing.template import case_workbook
 
 MEMBER = {"Member": "KV-0215 G1", "Spans": "48", "DC load": 1.02, "DW load": 0.16}
 CAPACITY_HEADERS = [

@@ -3,9 +3,9 @@
 The laws checked are the tool's own promises (issue "Overnight scale" and the
 rating issue): a member is rated and screened in the worker that computed its
 envelope, so serial, parallel and resumed runs must agree exactly; and the run's
-rating of a member is the pure rating of :mod:`batch.rating` applied to the
+rating of a member is the pure rating of :mod:`batch.rating.lrfr` applied to the
 engine's effects of that member (checked here against the published LRFR
-equation through :func:`batch.rating.rating_factor`, MBE 6A.4.2.1, from memory).
+equation through :func:`batch.rating.lrfr.rating_factor`, MBE 6A.4.2.1, from memory).
 """
 
 from __future__ import annotations
@@ -15,15 +15,15 @@ import dataclasses
 import numpy as np
 import pytest
 
-import batch.run
-from batch.assess import MemberAssessment
+import batch.running.executor
+from batch.demo.synthetic import synthetic_case
 from batch.engine import member_envelope
 from batch.engine.envelope import member_influence
-from batch.loadcases import fleet_cases
+from batch.loads.fleet import fleet_cases
 from batch.model import Capacity, Case, Settings
-from batch.rating import RATED_EFFECTS, RatingFactors, dead_load_effects, rating_factor
-from batch.run import RunOptions, RunResult, run_case
-from batch.synthetic import synthetic_case
+from batch.rating.assess import MemberAssessment
+from batch.rating.lrfr import RATED_EFFECTS, RatingFactors, dead_load_effects, rating_factor
+from batch.running.executor import RunOptions, RunResult, run_case
 
 REL_TOL_EXACT = 1e-12
 
@@ -78,7 +78,7 @@ def test_no_assessments_without_capacities_or_reference() -> None:
 def test_worker_processes_rate_bit_for_bit_like_one_process(monkeypatch) -> None:
     case = _rated_case()
     serial = run_case(case, options=RunOptions(jobs=1))
-    monkeypatch.setattr(batch.run, "PARALLEL_MIN_PAIRS", 0)
+    monkeypatch.setattr(batch.running.executor, "PARALLEL_MIN_PAIRS", 0)
     parallel = run_case(case, options=RunOptions(jobs=2))
     assert parallel.workers == 2
     _same_assessments(serial, parallel)
@@ -94,7 +94,7 @@ def test_a_resumed_run_gives_back_the_stored_ratings(tmp_path) -> None:
 
 
 def test_the_run_rates_by_the_general_equation() -> None:
-    # Independent of batch.rating.rate_member: each vehicle's envelope from the engine,
+    # Independent of batch.rating.lrfr.rate_member: each vehicle's envelope from the engine,
     # dead loads from the exact influence areas, and the general equation element-wise.
     case = _rated_case(reference="")
     result = run_case(case)

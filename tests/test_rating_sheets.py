@@ -25,15 +25,15 @@ import openpyxl
 import pandas as pd
 import pytest
 
-from batch.cli import main
-from batch.rating import gross_weight, posting_load, weight_in_tons
-from batch.readers import read_input
-from batch.results import ASSESSMENT_SHEETS, is_result_sheet_name
-from batch.run import run_case
-from batch.writers import InputInfo, SourcePackage, result_package
-from batch.writers.package import empty_package
-from batch.writers.ratings import RF_BANDS, SCREEN_EXCEEDED_RGB
-from batch.writers.save import atomic_save
+from batch.command.cli import main
+from batch.rating.lrfr import gross_weight, posting_load, weight_in_tons
+from batch.running.executor import run_case
+from batch.validating import read_input
+from batch.writing import InputInfo, SourcePackage, result_package
+from batch.writing.columns import ASSESSMENT_SHEETS, is_result_sheet_name
+from batch.writing.package.save import atomic_save
+from batch.writing.package.splice import empty_package
+from batch.writing.ratings import RF_BANDS, SCREEN_EXCEEDED_RGB
 
 SAMPLES = Path(__file__).resolve().parent.parent / "sample_workbooks"
 REL_TOL_EXACT = 1e-12  # the sheets carry float64 numbers unchanged; hand sums round a little

@@ -17,7 +17,7 @@ import zipfile
 from pathlib import Path
 
 from batch.model import Case, Member, Settings, Spacing, Vehicle
-from batch.readers import read_input
+from batch.validating import read_input
 
 KVHA_MEMBERS = [
     {

@@ -25,24 +25,17 @@ import pytest
 from defusedxml import ElementTree
 from openpyxl import load_workbook
 
-from batch.cautions import CAUTIONS
 from batch.engine import member_envelope
-from batch.loadcases import fleet_cases
+from batch.engine.effects import EFFECTS, effect_named, governing_row
+from batch.loads.fleet import fleet_cases
 from batch.model import Case, Member, Settings, Spacing, Vehicle
-from batch.results import (
-    EFFECTS,
-    ENVELOPES,
-    GOVERNING,
-    REACTIONS,
-    effect_named,
-    governing_row,
-    is_result_sheet_name,
-)
-from batch.run import run_case
-from batch.writers import InputInfo, SourcePackage, result_package
-from batch.writers.package import empty_package
-from batch.writers.save import atomic_save
-from batch.writers.sheets import HIGHLIGHT_RGB, OWNER_MARK
+from batch.running.executor import run_case
+from batch.writing import InputInfo, SourcePackage, result_package
+from batch.writing.cautions import CAUTIONS
+from batch.writing.columns import ENVELOPES, GOVERNING, REACTIONS, is_result_sheet_name
+from batch.writing.package.save import atomic_save
+from batch.writing.package.splice import empty_package
+from batch.writing.tables import HIGHLIGHT_RGB, OWNER_MARK
 
 REL_TOL_EXACT = 1e-9  # the sheets carry the engine's float64 numbers unchanged
 REL_TOL_CLOSED_FORM = 1e-9  # exact engine against an exact closed form

@@ -9,13 +9,14 @@ import openpyxl
 import pytest
 from generated_workbooks import assert_same_workbook, read_input_or_skip
 
+from batch.demo.kvha import KVHA_INVENTORY, KVHA_SI_DEMO, SAMPLE_WORKBOOKS
 from batch.engine import member_envelope
-from batch.engine.influence import influence_lines, mechanism_parts
-from batch.inputs import MEMBERS, VEHICLES
-from batch.loadcases import fleet_cases
+from batch.engine.influence import influence_lines
+from batch.loads.fleet import fleet_cases
 from batch.model import Case, Member, Settings
-from batch.samples import KVHA_INVENTORY, KVHA_SI_DEMO, SAMPLE_WORKBOOKS
-from batch.template import write_case_workbook
+from batch.model.columns import MEMBERS, VEHICLES
+from batch.model.layout import mechanism_parts
+from batch.writing.template import write_case_workbook
 
 SAMPLES_DIR = Path(__file__).resolve().parent.parent / "sample_workbooks"
 REL_TOL_EXACT = 1e-9

@@ -34,9 +34,9 @@ from openpyxl.workbook.defined_name import DefinedName
 from openpyxl.worksheet.datavalidation import DataValidation
 
 from batch.model import Case, Member, Settings, Vehicle
-from batch.run import run_case
-from batch.writers import BookProblem, InputInfo, SourcePackage, result_package
-from batch.writers.save import TEMP_PREFIX, SaveError, atomic_save, open_elsewhere
+from batch.running.executor import run_case
+from batch.writing import BookProblem, InputInfo, SourcePackage, result_package
+from batch.writing.package.save import TEMP_PREFIX, SaveError, atomic_save, open_elsewhere
 
 CASE = Case(
     settings=Settings(stations_per_span=4),

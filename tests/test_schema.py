@@ -14,9 +14,9 @@ from pathlib import Path
 import pytest
 from jsonschema import Draft202012Validator
 
-from batch.inputs import MEMBERS, SETTING_ROWS, VEHICLES
 from batch.model import CATEGORIES, DIRECTIONS, UNIT_SYSTEMS, Settings
-from batch.validation.schema import input_schema
+from batch.model.columns import MEMBERS, SETTING_ROWS, VEHICLES
+from batch.validating.schema import input_schema
 
 REPO_SCHEMA = Path(__file__).resolve().parents[1] / "schemas" / "spanfleet-input.schema.json"
 
@@ -103,7 +103,7 @@ def test_spacing_is_a_number_or_a_range():
 def test_inlined_references_check_the_same_rules():
     # The validator inlines $ref for speed; it must find exactly what the schema as
     # written finds (checked here with the jsonschema library on the original).
-    from batch.validation.schema import _validator
+    from batch.validating.schema import _validator
 
     as_written = Draft202012Validator(input_schema())
     documents = [

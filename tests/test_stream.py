@@ -26,11 +26,11 @@ import pandas as pd
 import pytest
 from openpyxl import load_workbook
 
-from batch.writers.docprops import update_sheet_list
-from batch.writers.package import ResultBook, ResultPackage, SourcePackage, empty_package
-from batch.writers.stream import MAX_TEXT, SheetStream, column_letter
-from batch.writers.styles import HIGHLIGHT_RGB, CellFormat, StyleSheet, highlighted
-from batch.writers.xmltext import Splice, XmlPartError, parse
+from batch.writing.package.docprops import update_sheet_list
+from batch.writing.package.splice import ResultBook, ResultPackage, SourcePackage, empty_package
+from batch.writing.package.stream import MAX_TEXT, SheetStream, column_letter
+from batch.writing.package.styles import HIGHLIGHT_RGB, CellFormat, StyleSheet, highlighted
+from batch.writing.package.xmltext import Splice, XmlPartError, parse
 
 NUMBERS = [0.1, 1 / 3, -0.0, 5e-324, 1e-300, 1.7976931348623157e308, -2.5, 2**53 + 1, 0, -7]
 

@@ -14,9 +14,9 @@ import openpyxl
 import pytest
 from generated_workbooks import assert_same_workbook, read_input_or_skip
 
-from batch.inputs import INPUT_SHEETS, MEMBERS, SETTING_ROWS, VEHICLES, header_key
 from batch.model import UNIT_LABELS
-from batch.template import GUIDE_SHEET, write_template
+from batch.model.columns import INPUT_SHEETS, MEMBERS, SETTING_ROWS, VEHICLES, header_key
+from batch.writing.template import GUIDE_SHEET, write_template
 
 COMMITTED = Path(__file__).resolve().parent.parent / "templates" / "spanfleet-template.xlsx"
 

@@ -29,8 +29,8 @@ from pathlib import Path
 import openpyxl
 import pytest
 
-from batch.readers import read_input
-from batch.validation.problems import JSON_SHEET, Problem
+from batch.reading.problems import JSON_SHEET, Problem
+from batch.validating import read_input
 
 M = {"Member": "KV-0101 G1", "Spans": 60}
 MC = M | {"DC load": 1.1}  # a member with a dead load, as rating needs

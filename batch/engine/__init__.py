@@ -1,4 +1,4 @@
-"""The numerical engine: exact influence lines and moving-load extremes.
+"""Stage 5, the engine: exact influence lines and moving-load extremes.
 
 Pure numpy/scipy; it knows nothing of workbooks. See :mod:`batch.engine.influence`
 for the method and sign conventions.
@@ -7,7 +7,6 @@ for the method and sign conventions.
 from batch.engine.envelope import (
     CaseEffects,
     Extremes,
-    LoadCase,
     MemberEnvelope,
     case_effects,
     envelope_of,
@@ -21,7 +20,6 @@ __all__ = [
     "CaseEffects",
     "Extremes",
     "InfluenceLines",
-    "LoadCase",
     "MemberEnvelope",
     "UnstableMemberError",
     "axle_extremes",

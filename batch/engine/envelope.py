@@ -32,12 +32,12 @@ from batch.engine.moving import (
     Train,
     fleet_extremes_of,
 )
+from batch.loads.cases import LoadCase
 from batch.model import Member
 
 __all__ = [
     "CaseEffects",
     "Extremes",
-    "LoadCase",
     "MemberEnvelope",
     "case_effects",
     "envelope_of",
@@ -55,34 +55,6 @@ DIRECTION_CODES: dict[str, tuple[int, ...]] = {
     "left-to-right": (LEFT_TO_RIGHT,),
     "right-to-left": (RIGHT_TO_LEFT,),
 }
-
-#: Where a load case applies. ``interior-hogging`` is the HL-93 rule for two trucks:
-#: hogging moment between points of contraflexure under uniform load, and interior reactions.
-SCOPES = ("all", "interior-hogging")
-
-
-@dataclass(frozen=True, kw_only=True)
-class LoadCase:
-    """One train of axles (and lane load) moved across the member.
-
-    ``axle_loads`` front axle first (force); ``spacing_low``/``spacing_high``
-    bound each gap (length); ``lane_load`` force per length; ``impact`` the
-    dynamic load allowance on axles (fraction); ``factor`` multiplies all.
-    ``scope`` limits the effects the case may govern (see :data:`SCOPES`);
-    ``drop_adverse_axles`` leaves out axles that would lessen an effect
-    (AASHTO LRFD 3.6.1.3.1). ``vehicle`` indexes the fleet vehicle it belongs to.
-    """
-
-    label: str
-    axle_loads: tuple[float, ...]
-    spacing_low: tuple[float, ...] = ()
-    spacing_high: tuple[float, ...] = ()
-    lane_load: float = 0.0
-    impact: float = 0.0
-    factor: float = 1.0
-    scope: str = "all"
-    drop_adverse_axles: bool = False
-    vehicle: int = 0  # index of the fleet vehicle this case belongs to
 
 
 @dataclass(frozen=True, kw_only=True)

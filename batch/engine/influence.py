@@ -42,15 +42,13 @@ from typing import TYPE_CHECKING
 import numpy as np
 from numpy.typing import NDArray
 
-from batch.engine.exact import null_space, solve
+from batch.model.exact import solve
+from batch.model.layout import POSITION_TOL, mechanism_parts
 
 if TYPE_CHECKING:
     from batch.engine.kernel import SweepPlan
 
-__all__ = ["InfluenceLines", "UnstableMemberError", "influence_lines", "mechanism_parts"]
-
-#: Two positions closer than this fraction of the member length are the same point.
-POSITION_TOL = 1e-10
+__all__ = ["InfluenceLines", "UnstableMemberError", "influence_lines"]
 
 #: Above this condition number (of the diagonally scaled stiffness matrix) the
 #: double-precision solve could lose more than about six of its sixteen digits,
@@ -272,43 +270,6 @@ class InfluenceLines:
         positive = np.where(part > 0, part, 0.0).sum(axis=(1, 2))
         negative = np.where(part < 0, part, 0.0).sum(axis=(1, 2))
         return positive, negative
-
-
-def mechanism_parts(
-    spans: tuple[float, ...] | list[float], hinges: tuple[float, ...] | list[float]
-) -> list[tuple[float, float]]:
-    """Parts of a member that can move as a rigid-body mechanism.
-
-    The member between consecutive hinges (and its ends) is a set of rigid
-    segments, each with a vertical translation and a rotation; every support
-    fixes the deflection at its point and every hinge joins the deflections of
-    its two segments. The member is stable when only the zero motion satisfies
-    these constraints. Returns the (start, end) of every segment that can move;
-    an empty list means the member is stable.
-    """
-    supports = np.concatenate([[0.0], np.cumsum(spans)])
-    length = float(supports[-1])
-    tol = POSITION_TOL * length
-    cuts = np.concatenate([[0.0], np.sort(np.asarray(hinges, dtype=float)), [length]])
-    n_seg = cuts.size - 1
-    zero = Fraction(0)
-    rows: list[list[Fraction]] = []
-    # Exact arithmetic: hinges very close together must not look like a mechanism.
-    for xs in supports:
-        for s in range(n_seg):
-            if cuts[s] - tol <= xs <= cuts[s + 1] + tol:
-                row = [zero] * (2 * n_seg)
-                row[2 * s], row[2 * s + 1] = Fraction(1), Fraction(xs) - Fraction(cuts[s])
-                rows.append(row)
-    for s in range(1, n_seg):
-        row = [zero] * (2 * n_seg)
-        row[2 * (s - 1)] = Fraction(1)
-        row[2 * (s - 1) + 1] = Fraction(cuts[s]) - Fraction(cuts[s - 1])
-        row[2 * s] = Fraction(-1)
-        rows.append(row)
-    free = null_space(rows, 2 * n_seg)
-    moving = {s for x in free for s in range(n_seg) if x[2 * s] != 0 or x[2 * s + 1] != 0}
-    return [(float(cuts[s]), float(cuts[s + 1])) for s in sorted(moving)]
 
 
 def _station_positions(

@@ -30,8 +30,10 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from batch.engine.influence import POSITION_TOL, InfluenceLines
+from batch.engine.influence import InfluenceLines
 from batch.engine.kernel import SweepPlan, chain_extremes, chain_fleet, fleet_extremes
+from batch.model.case import MAX_RANGES
+from batch.model.layout import POSITION_TOL
 
 __all__ = [
     "LEFT_TO_RIGHT",
@@ -45,9 +47,6 @@ __all__ = [
 
 LEFT_TO_RIGHT = 1
 RIGHT_TO_LEFT = -1
-
-#: Most spacing ranges in one vehicle (3**n combinations are swept).
-MAX_RANGES = 4
 
 
 @dataclass(frozen=True, kw_only=True)

@@ -1,0 +1,1 @@
+"""Stage 9, the command: ``spanfleet`` (also ``python -m batch``), a thin layer over the stages."""

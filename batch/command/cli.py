@@ -1,0 +1,437 @@
+"""The ``spanfleet`` command (also ``python -m batch``).
+
+Commands::
+
+    spanfleet run BOOK.xlsx                  results written back into BOOK.xlsx
+    spanfleet run BOOK.xlsx --out OUT.xlsx   BOOK.xlsx untouched; input sheets + results to OUT
+    spanfleet run case.json --out OUT.xlsx   JSON input (--out required)
+    spanfleet check BOOK.xlsx [--json]       validate only; every problem printed
+    spanfleet template NEW.xlsx              a blank, documented input workbook
+    spanfleet library [--units SI]           the built-in load models
+
+Exit status: 0 success; 1 the input has problems, or the results could not be
+saved (each problem printed as ``Sheet!Cell: message``); 2 usage error; 3 an
+internal error (please report it); 130 interrupted. A run that fails never
+changes the input workbook. Set ``SPANFLEET_DEBUG=1`` to see the traceback of an
+internal error.
+"""
+
+from __future__ import annotations
+
+import argparse
+import hashlib
+import json
+import os
+import sys
+import time
+import traceback
+from collections.abc import Sequence
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+import batch
+
+if TYPE_CHECKING:
+    from batch.reading.problems import InputReport
+    from batch.running.executor import ProgressFn
+    from batch.writing import SourcePackage
+
+__all__ = ["EXIT_INTERNAL", "EXIT_OK", "EXIT_PROBLEMS", "EXIT_USAGE", "main"]
+
+EXIT_OK = 0
+EXIT_PROBLEMS = 1
+EXIT_USAGE = 2
+EXIT_INTERNAL = 3
+EXIT_INTERRUPTED = 130
+
+WORKBOOK_SUFFIXES = (".xlsx", ".xlsm")
+
+
+class Refused(Exception):
+    """The command cannot go on; the message says what is wrong and what to do (exit 1)."""
+
+
+class Usage(Exception):
+    """The command line asks for something impossible (exit 2)."""
+
+
+def _say(text: str) -> None:
+    print(text, file=sys.stderr)
+
+
+def _warn(text: str) -> None:
+    _say(f"warning: {text}")
+
+
+def _positive_int(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        value = 0
+    if value < 1:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a whole number of at least 1")
+    return value
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser of the ``spanfleet`` command."""
+    parser = argparse.ArgumentParser(
+        prog="spanfleet",
+        description="Live-load envelopes of a vehicle fleet over an inventory of girder lines.",
+        epilog="Exit status: 0 success, 1 input problems, 2 usage error, 3 internal error.",
+    )
+    parser.add_argument("--version", action="version", version=f"spanfleet {batch.__version__}")
+    sub = parser.add_subparsers(dest="command", required=True, metavar="COMMAND")
+
+    run = sub.add_parser("run", help="compute the envelopes and write the result sheets")
+    run.add_argument("book", type=Path, help="input workbook (.xlsx, .xlsm) or JSON document")
+    run.add_argument(
+        "--out",
+        type=Path,
+        help="write the input sheets and the results to this workbook instead "
+        "(the input is left untouched); required for JSON input",
+    )
+    run.add_argument("-q", "--quiet", action="store_true", help="print problems and warnings only")
+    run.add_argument(
+        "--jobs",
+        type=_positive_int,
+        default=None,
+        metavar="N",
+        help="worker processes (default: all local cores; small runs use one)",
+    )
+    run.add_argument(
+        "--cluster",
+        metavar="ADDRESS",
+        help="run the members on an existing Dask cluster (e.g. tcp://10.0.0.5:8786); "
+        "needs the 'cluster' extra",
+    )
+    run.add_argument(
+        "--no-store",
+        action="store_true",
+        help="keep no checkpoint store beside the workbook (no resume, no per-vehicle store)",
+    )
+
+    check = sub.add_parser("check", help="validate the input only; print every problem")
+    check.add_argument("book", type=Path, help="input workbook or JSON document")
+    check.add_argument("--json", action="store_true", help="print the report as JSON")
+
+    template = sub.add_parser("template", help="write a blank, documented input workbook")
+    template.add_argument("new", type=Path, help="name of the new workbook (.xlsx)")
+
+    library = sub.add_parser("library", help="list the built-in load models")
+    library.add_argument("--units", choices=("US", "SI"), default="US", help="weights in kip or kN")
+    return parser
+
+
+# ---------------------------------------------------------------- reading
+
+
+def _require_file(path: Path) -> None:
+    if not path.exists():
+        raise Refused(f"{path}: no such file; check the name and the folder")
+    if path.is_dir():
+        raise Refused(f"{path}: is a folder; give the input workbook or JSON file")
+
+
+def _read(path: Path) -> InputReport:
+    from batch.validating import read_input
+
+    return read_input(path)
+
+
+def _report_problems(report: InputReport, name: str) -> int:
+    for w in report.warnings:
+        _warn(w.render())
+    if report.ok:
+        return EXIT_OK
+    for p in report.problems:
+        _say(p.render())
+    count = len(report.problems)
+    _say(f"{name}: {count} problem{'s' if count != 1 else ''} found; fix them and run again.")
+    return EXIT_PROBLEMS
+
+
+# ---------------------------------------------------------------- run
+
+
+def _target(src: Path, out: Path | None) -> tuple[Path, bool]:
+    """Where results go, and whether that is the input itself (an in-place run)."""
+    if out is None:
+        return src.resolve(), True
+    if out.is_dir():
+        raise Refused(f"{out}: is a folder; give --out a workbook file name ending in .xlsx")
+    same = out.exists() and os.path.samefile(src, out)
+    return (src.resolve() if same else out.absolute()), same
+
+
+def _check_names(src: Path, target: Path, is_json: bool, has_out: bool) -> None:
+    if is_json and not has_out:
+        raise Usage("a JSON input needs --out RESULTS.xlsx for the results")
+    suffix = target.suffix.lower()
+    if suffix not in WORKBOOK_SUFFIXES:
+        raise Usage(f"{target.name}: results go to a workbook; give a name ending in .xlsx")
+    if suffix == ".xlsm" and src.suffix.lower() != ".xlsm":
+        raise Usage(f"{target.name}: .xlsm is for workbooks with macros; use .xlsx")
+
+
+def _open_input(src: Path, report: InputReport, keep_vba: bool) -> SourcePackage:
+    """The input workbook's package, ready to receive the results."""
+    from batch.writing import BookProblem, SourcePackage
+
+    data = src.read_bytes()
+    if hashlib.sha256(data).hexdigest() != report.digest:
+        raise Refused(
+            f"{src.name}: the file changed while spanfleet was reading it; "
+            "save it in your spreadsheet program, close it and run again"
+        )
+    try:
+        return SourcePackage(data, src.name, keep_vba=keep_vba)
+    except BookProblem as exc:
+        raise Refused(str(exc)) from exc
+
+
+def _json_source(report: InputReport) -> SourcePackage:
+    """For JSON input: the case as input sheets of a new workbook, ready for results."""
+    import io
+
+    from batch.model.columns import SETTING_ROWS
+    from batch.writing import SourcePackage
+    from batch.writing.template import case_rows, input_workbook
+
+    case = report.case
+    assert case is not None
+    settings = {row.key: getattr(case.settings, row.key) for row in SETTING_ROWS}
+    wb = input_workbook(units=case.settings.units, settings=settings, rows=case_rows(case))
+    for ws in wb.worksheets:
+        ws.sheet_view.tabSelected = False  # the results' Governing sheet will be the active one
+    buffer = io.BytesIO()
+    wb.save(buffer)
+    return SourcePackage(buffer.getvalue(), "(JSON input)", keep_active=False)
+
+
+def _guard_in_place(target: Path) -> None:
+    from batch.writing.package.save import open_elsewhere
+
+    lock = open_elsewhere(target)
+    if lock is not None:
+        raise Refused(
+            f"{target.name}: seems to be open in a spreadsheet program (lock file {lock.name}); "
+            f"close it and run again (delete the lock file if no program has it open), or use "
+            f"--out. {target.name} was not changed."
+        )
+
+
+def _progress(quiet: bool) -> ProgressFn | None:
+    """A one-line progress display on a terminal: members done, rate, time left.
+
+    Nothing when quiet or when standard error is not a terminal (a log file).
+    """
+    if quiet or not sys.stderr.isatty():
+        return None
+    start = time.monotonic()
+
+    def show(done: int, total: int, member: str) -> None:
+        spent = time.monotonic() - start
+        rate = done / spent if spent > 0 else 0.0
+        left = (total - done) / rate if rate > 0 else 0.0
+        end = "\n" if done == total else ""
+        print(
+            f"\r  {done}/{total} members, {rate:.1f}/s, about {_duration(left)} left; "
+            f"last {member[:30]:<30}",
+            end=end,
+            file=sys.stderr,
+        )
+
+    return show
+
+
+def _duration(seconds: float) -> str:
+    if seconds < 90:
+        return f"{seconds:.0f} s"
+    if seconds < 5400:
+        return f"{seconds / 60:.0f} min"
+    return f"{seconds / 3600:.1f} h"
+
+
+def _run_key(report: InputReport) -> str:
+    """Identifies the validated input and the program version, for the checkpoint store."""
+    text = json.dumps(report.document, sort_keys=True, default=str)
+    return hashlib.sha256(f"{batch.__version__}\n{text}".encode()).hexdigest()
+
+
+def _cmd_run(args: argparse.Namespace) -> int:
+    from batch.running.executor import RunError, RunOptions, run_case
+    from batch.running.store import StoreError, store_path_for
+    from batch.writing import BookProblem, InputInfo, result_package
+    from batch.writing.package.save import SaveError, atomic_save
+
+    src: Path = args.book
+    _require_file(src)
+    is_json = src.suffix.lower() == ".json"
+    target, in_place = _target(src, args.out)
+    _check_names(src, target, is_json, args.out is not None)
+    report = _read(src)
+    if (status := _report_problems(report, src.name)) != EXIT_OK:
+        _say(f"{src.name} was not changed.")
+        return status
+    assert report.case is not None
+    if is_json:
+        source = _json_source(report)
+    else:
+        keep_vba = src.suffix.lower() == ".xlsm" and target.suffix.lower() == ".xlsm"
+        source = _open_input(src, report, keep_vba)
+        if in_place:
+            _guard_in_place(target)
+        for what in source.lacks:
+            _warn(
+                f"{target.name} will lack {what}: an .xlsx workbook cannot hold them; "
+                "give --out a name ending in .xlsm to keep them"
+            )
+    options = RunOptions(
+        jobs=args.jobs,
+        cluster=args.cluster,
+        store=None if args.no_store else store_path_for(target),
+        key=_run_key(report),
+    )
+    info = InputInfo(
+        name=src.name,
+        digest=report.digest,
+        source=report.source,
+        output=target.name,
+        warnings=tuple(w.render() for w in report.warnings),
+    )
+    try:
+        result = run_case(report.case, _progress(args.quiet), options)
+        # With a store, results are read back from it as the workbook is saved.
+        package = result_package(source, result, info)
+        atomic_save(package, target, expect_sha256=report.digest if in_place else None)
+    except (RunError, StoreError) as exc:
+        raise Refused(f"{exc}. {src.name} was not changed.") from exc
+    except (SaveError, BookProblem) as exc:
+        raise Refused(str(exc)) from exc
+    for text in result.warnings:
+        _warn(text)
+    if not args.quiet:
+        print(
+            f"{target.name}: wrote {', '.join(package.sheets)} ({result.n_members} members, "
+            f"{result.n_vehicles} vehicles, {result.n_load_cases} load cases, "
+            f"{result.seconds:.1f} s)"
+        )
+    return EXIT_OK
+
+
+# ---------------------------------------------------------------- other commands
+
+
+def _cmd_check(args: argparse.Namespace) -> int:
+    src: Path = args.book
+    _require_file(src)
+    report = _read(src)
+    status = EXIT_OK if report.ok else EXIT_PROBLEMS
+    if args.json:
+        print(json.dumps({"file": str(src), **report.to_dict()}, indent=2))
+        return status
+    for p in report.problems:
+        print(p.render())
+    for w in report.warnings:
+        print(f"warning: {w.render()}")
+    if report.ok and report.case is not None:
+        case = report.case
+        if src.suffix.lower() in WORKBOOK_SUFFIXES:
+            _check_writeback(src, report)
+        print(
+            f"{src.name}: no problems found ({len(case.members)} members, "
+            f"{len(case.vehicles)} vehicles)."
+        )
+    else:
+        print(f"{src.name}: {len(report.problems)} problem(s) found.")
+    return status
+
+
+def _check_writeback(src: Path, report: InputReport) -> None:
+    """Say in advance when a run would refuse to write into this workbook."""
+    try:
+        _open_input(src, report, keep_vba=src.suffix.lower() == ".xlsm")
+    except Refused as exc:
+        print(f"warning: {exc}")
+
+
+def _cmd_template(args: argparse.Namespace) -> int:
+    from batch.writing.template import write_template
+
+    path: Path = args.new
+    try:
+        write_template(path)
+    except FileExistsError:
+        raise Refused(
+            f"{path}: already exists; give a new file name (spanfleet never replaces an "
+            "existing workbook with a blank template)"
+        ) from None
+    except ValueError as exc:
+        raise Usage(str(exc)) from exc
+    except OSError as exc:
+        raise Refused(f"{path}: could not write the template: {exc.strerror or exc}") from exc
+    print(f"{path.name}: blank input workbook written; fill it in, then: spanfleet run {path}")
+    return EXIT_OK
+
+
+def _cmd_library(args: argparse.Namespace) -> int:
+    from batch.loads import library
+
+    describe = getattr(library, "describe", None)
+    rows = list(describe(args.units)) if describe is not None else []
+    if not rows:
+        print("No built-in load models in this version; give every vehicle's axles.")
+        return EXIT_OK
+    unit = "kip" if args.units == "US" else "kN"
+    header = ("Library name", "Axles", f"Weight ({unit})", "Source")
+    table = [header, *((str(r[0]), str(r[1]), f"{float(r[2]):.1f}", str(r[3])) for r in rows)]
+    widths = [max(len(row[k]) for row in table) for k in range(3)]
+    for name, axles, weight, source in table:
+        print(f"{name:<{widths[0]}}  {axles:>{widths[1]}}  {weight:>{widths[2]}}  {source}")
+    return EXIT_OK
+
+
+_COMMANDS = {
+    "run": _cmd_run,
+    "check": _cmd_check,
+    "template": _cmd_template,
+    "library": _cmd_library,
+}
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the command line ``argv`` (default ``sys.argv[1:]``); returns the exit status."""
+    parser = build_parser()
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as exc:  # argparse: --help, --version or a usage error
+        return int(exc.code) if isinstance(exc.code, int) else EXIT_USAGE
+    command = _COMMANDS[args.command]
+    try:
+        return command(args)
+    except Usage as exc:
+        parser.print_usage(sys.stderr)
+        _say(f"spanfleet {args.command}: error: {exc}")
+        return EXIT_USAGE
+    except Refused as exc:
+        _say(str(exc))
+        return EXIT_PROBLEMS
+    except KeyboardInterrupt:
+        _say(f"spanfleet: interrupted; {_unchanged(args)}")
+        return EXIT_INTERRUPTED
+    except Exception as exc:
+        if os.environ.get("SPANFLEET_DEBUG") == "1":
+            traceback.print_exc()
+        _say(
+            f"spanfleet: internal error ({type(exc).__name__}: {exc}). {_unchanged(args)} "
+            "Please report this, with the input file if you can; set SPANFLEET_DEBUG=1 to see "
+            "the details."
+        )
+        return EXIT_INTERNAL
+
+
+def _unchanged(args: argparse.Namespace) -> str:
+    """Every save is atomic, so an aborted command never leaves a workbook half written."""
+    book = getattr(args, "book", None)
+    return f"{book.name} was not changed." if book is not None else "No workbook was changed."

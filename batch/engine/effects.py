@@ -1,0 +1,125 @@
+"""The six enveloped effects, declared once, and where each governs on a member.
+
+An effect is one quantity and sense of a member's envelope: the largest
+sagging moment ``M max``, the largest hogging moment ``M min``, the largest and
+smallest shear ``V max`` and ``V min`` at every station, and the largest and
+smallest reaction ``R max`` and ``R min`` at every support. Sign conventions
+are the engine's: sagging moment positive; V = sum of the upward forces left of
+the section; reactions upward positive.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Literal
+
+import numpy as np
+
+from batch.engine.envelope import Extremes, MemberEnvelope
+from batch.model.units import Quantity
+
+__all__ = ["EFFECTS", "TIE_REL_TOL", "Effect", "effect_named", "governing_row"]
+
+Rows = Literal["station", "support"]
+
+#: Two candidate governing values within this fraction of the extreme are a tie; the first wins.
+TIE_REL_TOL = 1e-9
+
+
+@dataclass(frozen=True, kw_only=True)
+class Effect:
+    """One enveloped effect and sense, e.g. the largest sagging moment ``M max``.
+
+    ``sense`` is +1 for the largest (max) and -1 for the smallest (min) value;
+    ``attr`` names the :class:`MemberEnvelope` field; ``rows`` says whether it
+    is given at stations or at supports.
+    """
+
+    name: str
+    attr: str
+    quantity: Quantity
+    sense: int
+    rows: Rows
+    meaning: str
+
+    def extremes(self, env: MemberEnvelope) -> Extremes:
+        """The extremes of this effect in ``env``."""
+        result: Extremes = getattr(env, self.attr)
+        return result
+
+
+EFFECTS: tuple[Effect, ...] = (
+    Effect(
+        name="M max",
+        attr="m_max",
+        quantity="moment",
+        sense=1,
+        rows="station",
+        meaning="Largest sagging (positive) live-load moment.",
+    ),
+    Effect(
+        name="M min",
+        attr="m_min",
+        quantity="moment",
+        sense=-1,
+        rows="station",
+        meaning="Largest hogging live-load moment (the most negative).",
+    ),
+    Effect(
+        name="V max",
+        attr="v_max",
+        quantity="force",
+        sense=1,
+        rows="station",
+        meaning="Largest live-load shear (V = sum of upward forces left of the section).",
+    ),
+    Effect(
+        name="V min",
+        attr="v_min",
+        quantity="force",
+        sense=-1,
+        rows="station",
+        meaning="Smallest (most negative) live-load shear.",
+    ),
+    Effect(
+        name="R max",
+        attr="r_max",
+        quantity="force",
+        sense=1,
+        rows="support",
+        meaning="Largest live-load support reaction, upward positive.",
+    ),
+    Effect(
+        name="R min",
+        attr="r_min",
+        quantity="force",
+        sense=-1,
+        rows="support",
+        meaning="Smallest live-load support reaction; below 0 is uplift.",
+    ),
+)
+
+_EFFECT = {e.name: e for e in EFFECTS}
+
+
+def governing_row(effect: Effect, env: MemberEnvelope) -> int | None:
+    """Row of the member's governing (extreme) value of ``effect``, or None.
+
+    None when no load case gives a value of the effect's sign anywhere on the
+    member. Values within :data:`TIE_REL_TOL` of the extreme tie; the first row
+    (the leftmost station or support) wins, so symmetric members resolve the
+    same way every time.
+    """
+    ext = effect.extremes(env)
+    signed = effect.sense * ext.value
+    if signed.size == 0:
+        return None
+    best = float(np.max(signed))
+    if best <= 0.0 or not np.any(ext.case >= 0):
+        return None
+    return int(np.flatnonzero(signed >= best * (1.0 - TIE_REL_TOL))[0])
+
+
+def effect_named(name: str) -> Effect:
+    """The :class:`Effect` called ``name`` (e.g. ``"M max"``)."""
+    return _EFFECT[name]

@@ -1,0 +1,42 @@
+"""Load cases: what the engine moves across a member.
+
+A *load case* is an axle train (with fixed or ranged spacings), an optional
+uniform lane load, a dynamic load allowance on the axles and a multiplier. A
+workbook vehicle is one load case; a library load model may expand to several
+(its parts), each with its own label (:mod:`batch.loads.fleet`). Forces, lengths
+and loads per length are in the run's units; loads act downward.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+__all__ = ["SCOPES", "LoadCase"]
+
+#: Where a load case applies. ``interior-hogging`` is the HL-93 rule for two trucks:
+#: hogging moment between points of contraflexure under uniform load, and interior reactions.
+SCOPES = ("all", "interior-hogging")
+
+
+@dataclass(frozen=True, kw_only=True)
+class LoadCase:
+    """One train of axles (and lane load) moved across the member.
+
+    ``axle_loads`` front axle first (force); ``spacing_low``/``spacing_high``
+    bound each gap (length); ``lane_load`` force per length; ``impact`` the
+    dynamic load allowance on axles (fraction); ``factor`` multiplies all.
+    ``scope`` limits the effects the case may govern (see :data:`SCOPES`);
+    ``drop_adverse_axles`` leaves out axles that would lessen an effect
+    (AASHTO LRFD 3.6.1.3.1). ``vehicle`` indexes the fleet vehicle it belongs to.
+    """
+
+    label: str
+    axle_loads: tuple[float, ...]
+    spacing_low: tuple[float, ...] = ()
+    spacing_high: tuple[float, ...] = ()
+    lane_load: float = 0.0
+    impact: float = 0.0
+    factor: float = 1.0
+    scope: str = "all"
+    drop_adverse_axles: bool = False
+    vehicle: int = 0  # index of the fleet vehicle this case belongs to

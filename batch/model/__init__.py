@@ -1,0 +1,37 @@
+"""The model: the typed, validated input of a run and the declarations it is read by.
+
+Every stage imports from here and nothing here imports a later stage. See
+:mod:`batch.model.case` for the dataclasses and their units and sign conventions.
+"""
+
+from batch.model.case import (
+    CATEGORIES,
+    DIRECTIONS,
+    MAX_RANGES,
+    Capacity,
+    Case,
+    Category,
+    Directions,
+    Member,
+    Settings,
+    Spacing,
+    Vehicle,
+)
+from batch.model.units import UNIT_LABELS, UNIT_SYSTEMS, UnitSystem
+
+__all__ = [
+    "CATEGORIES",
+    "DIRECTIONS",
+    "MAX_RANGES",
+    "UNIT_LABELS",
+    "UNIT_SYSTEMS",
+    "Capacity",
+    "Case",
+    "Category",
+    "Directions",
+    "Member",
+    "Settings",
+    "Spacing",
+    "UnitSystem",
+    "Vehicle",
+]

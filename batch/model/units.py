@@ -1,0 +1,68 @@
+"""The two unit systems, their labels, and exact conversion between them.
+
+US models are defined in kip, ft and kip/ft; SI models in kN, m and kN/m. The
+factors are exact by definition: 1 ft = 0.3048 m and 1 lbf = 4.4482216152605 N
+(international yard and pound, 1959; NIST SP 811, Appendix B), so
+1 kip = 4.4482216152605 kN and 1 kip/ft = 4.4482216152605 / 0.3048 kN/m.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Literal
+
+__all__ = [
+    "KN_PER_KIP",
+    "M_PER_FT",
+    "UNIT_LABELS",
+    "UNIT_SYSTEMS",
+    "Conversion",
+    "Quantity",
+    "UnitSystem",
+    "conversion",
+]
+
+UnitSystem = Literal["US", "SI"]
+#: A physical quantity whose unit a header shows ("" for a plain number).
+Quantity = Literal["", "length", "force", "moment", "line_load"]
+UNIT_SYSTEMS: tuple[str, ...] = ("US", "SI")
+
+#: Unit labels of each system, by quantity, as shown in result headers.
+UNIT_LABELS: dict[str, dict[str, str]] = {
+    "US": {"force": "kip", "length": "ft", "moment": "kip-ft", "line_load": "kip/ft"},
+    "SI": {"force": "kN", "length": "m", "moment": "kN-m", "line_load": "kN/m"},
+}
+
+#: kN in one kip (exact: 1000 lbf of 4.4482216152605 N).
+KN_PER_KIP = 4.4482216152605
+#: Metres in one foot (exact).
+M_PER_FT = 0.3048
+
+
+@dataclass(frozen=True)
+class Conversion:
+    """Multipliers that take force, length and line load from one system to another."""
+
+    force: float
+    length: float
+
+    @property
+    def line_load(self) -> float:
+        """Multiplier for a force per unit length."""
+        return self.force / self.length
+
+    @property
+    def moment(self) -> float:
+        """Multiplier for a moment (force times length)."""
+        return self.force * self.length
+
+
+def conversion(source: UnitSystem, target: UnitSystem) -> Conversion:
+    """Multipliers from ``source`` units to ``target`` units ("US" or "SI")."""
+    if source == target:
+        return Conversion(1.0, 1.0)
+    if (source, target) == ("US", "SI"):
+        return Conversion(KN_PER_KIP, M_PER_FT)
+    if (source, target) == ("SI", "US"):
+        return Conversion(1.0 / KN_PER_KIP, 1.0 / M_PER_FT)
+    raise ValueError(f"unknown unit system {source!r} or {target!r}; use 'US' or 'SI'")

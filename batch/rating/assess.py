@@ -1,0 +1,110 @@
+"""Rate and screen one member inside a run: what to do (the plan) and doing it.
+
+A run makes one :class:`AssessmentPlan` from its case; every member then gets
+:func:`assess_member` from the same load-case effects that give its envelope, in
+the worker that computed them, so that a member is rated identically whichever
+way the run is spread over processes. The equations are those of
+:mod:`batch.rating.lrfr`.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import dataclass, field
+
+from batch.engine import CaseEffects, case_effects
+from batch.loads.cases import LoadCase
+from batch.model import Capacity, Case, Category, Member
+from batch.rating.lrfr import (
+    FloatArray,
+    MemberRating,
+    RatingFactors,
+    VehicleEffects,
+    rate_member,
+    vehicle_effects,
+)
+from batch.rating.screening import MemberScreening, reference_of, screen_member
+
+__all__ = ["AssessmentPlan", "MemberAssessment", "assess_member"]
+
+
+@dataclass(frozen=True, kw_only=True)
+class AssessmentPlan:
+    """What to rate and screen in a run, the same for every member.
+
+    ``capacities`` holds each rated member's Capacities rows by member id;
+    ``reference`` is the screening reference: a vehicle index, the load cases
+    of a library model, or None for no screening.
+    """
+
+    categories: tuple[Category, ...]
+    factors: RatingFactors
+    stations_per_span: int
+    directions: str
+    capacities: dict[str, tuple[Capacity, ...]] = field(default_factory=dict)
+    reference: int | tuple[LoadCase, ...] | None = None
+    floor: float = 0.1
+
+    @classmethod
+    def of(cls, case: Case) -> AssessmentPlan | None:
+        """The plan of a case; None when it has neither capacities nor a reference."""
+        reference = reference_of(case)
+        if not case.capacities and reference is None:
+            return None
+        capacities: dict[str, list[Capacity]] = {}
+        for row in case.capacities:
+            capacities.setdefault(row.member, []).append(row)
+        return cls(
+            categories=tuple(v.category for v in case.vehicles),
+            factors=RatingFactors.of(case.settings),
+            stations_per_span=case.settings.stations_per_span,
+            directions=case.settings.directions,
+            capacities={member: tuple(rows) for member, rows in capacities.items()},
+            reference=reference if isinstance(reference, int | None) else tuple(reference),
+            floor=case.settings.screening_floor,
+        )
+
+
+@dataclass(frozen=True, kw_only=True)
+class MemberAssessment:
+    """A member's rating (None: it has no Capacities rows) and screening (None: none asked)."""
+
+    rating: MemberRating | None = None
+    screening: MemberScreening | None = None
+
+
+def _reference(
+    member: Member, effects: CaseEffects, live: VehicleEffects, plan: AssessmentPlan
+) -> tuple[FloatArray, FloatArray] | None:
+    """The screening reference's largest and smallest value of every effect, or None."""
+    if plan.reference is None:
+        return None
+    if isinstance(plan.reference, int):
+        return live.max_value[plan.reference], live.min_value[plan.reference]
+    ref = case_effects(
+        member, plan.reference, plan.stations_per_span, plan.directions, il=effects.lines
+    )
+    return ref.max_value.max(axis=0), ref.min_value.min(axis=0)
+
+
+def assess_member(
+    member: Member, effects: CaseEffects, cases: Sequence[LoadCase], plan: AssessmentPlan
+) -> MemberAssessment:
+    """Rate and screen ``member`` from the factored effects of the run's load ``cases``."""
+    live = vehicle_effects(effects, cases, len(plan.categories))
+    rating = None
+    if member.id in plan.capacities:
+        rating = rate_member(
+            member,
+            effects.lines,
+            plan.stations_per_span,
+            plan.capacities[member.id],
+            live,
+            plan.categories,
+            plan.factors,
+        )
+    reference = _reference(member, effects, live, plan)
+    screening = (
+        None if reference is None else screen_member(effects.lines, live, *reference, plan.floor)
+    )
+    return MemberAssessment(rating=rating, screening=screening)

@@ -1,0 +1,117 @@
+"""Match a sheet's header row to the declared columns, and check header units.
+
+Headers are matched with :func:`batch.model.columns.header_key` (case, outer spaces
+and a trailing part in parentheses ignored). When that trailing part names a
+unit (``"Spans (m)"``), it must be the unit of the run's unit system for that
+column's quantity: a workbook whose Spans are headed in metres while Units is
+US would otherwise be read as feet.
+"""
+
+from __future__ import annotations
+
+import difflib
+import re
+from dataclasses import dataclass
+
+from batch.model import UNIT_LABELS
+from batch.model.columns import InputColumn, InputSheet, header_key
+
+__all__ = ["HeaderMatch", "match_headers", "unit_in_header"]
+
+# Spellings of units seen in headers -> (quantity, unit system); None = neither system's unit.
+_UNIT_SPELLINGS: dict[str, tuple[str, str | None]] = {
+    **{s: ("length", "US") for s in ("ft", "feet", "foot", "'")},
+    **{s: ("length", "SI") for s in ("m", "metre", "metres", "meter", "meters")},
+    **{s: ("length", None) for s in ("in", "inch", "inches", "mm", "cm", "km", "mi", "yd")},
+    **{s: ("force", "US") for s in ("kip", "kips", "k")},
+    **{s: ("force", "SI") for s in ("kn",)},
+    **{s: ("force", None) for s in ("lb", "lbs", "lbf", "n", "t", "ton", "tons", "tonne", "mn")},
+    **{s: ("moment", "US") for s in ("kip-ft", "ft-kip", "k-ft", "ft-k", "kip·ft", "kipft")},
+    **{s: ("moment", "SI") for s in ("kn-m", "kn·m", "knm", "m-kn")},
+    **{s: ("moment", None) for s in ("lb-ft", "kip-in", "n-mm", "n-m", "t-m")},
+    **{s: ("line_load", "US") for s in ("kip/ft", "klf", "k/ft", "kips/ft")},
+    **{s: ("line_load", "SI") for s in ("kn/m",)},
+    **{s: ("line_load", None) for s in ("lb/ft", "plf", "n/mm", "n/m", "t/m")},
+}
+
+
+@dataclass(frozen=True, kw_only=True)
+class HeaderMatch:
+    """The columns found in a header row.
+
+    ``columns`` maps each declared column key to its 1-based column index;
+    ``cells`` gives the header's cell reference (``"C1"``) by key; ``unknown``
+    lists (cell, text) of headers that match no declared column.
+    """
+
+    columns: dict[str, int]
+    cells: dict[str, str]
+    duplicates: tuple[tuple[str, str, str], ...]  # (header, first cell, second cell)
+    unknown: tuple[tuple[str, str], ...]
+
+    def missing(self, sheet: InputSheet) -> tuple[InputColumn, ...]:
+        """Required columns of ``sheet`` with no header."""
+        return tuple(c for c in sheet.columns if c.required and c.key not in self.columns)
+
+    @staticmethod
+    def suggestion(text: str, sheet: InputSheet) -> str:
+        """The declared header closest to ``text``, or ``""``."""
+        keys = {header_key(c.header): c.header for c in sheet.columns}
+        close = difflib.get_close_matches(header_key(text), list(keys), n=1, cutoff=0.75)
+        return keys[close[0]] if close else ""
+
+
+def match_headers(sheet: InputSheet, row: list[tuple[str, object]]) -> HeaderMatch:
+    """Match ``row`` (header (cell, value) pairs, left to right) to the columns of ``sheet``."""
+    wanted = {header_key(c.header): c.key for c in sheet.columns}
+    columns: dict[str, int] = {}
+    cells: dict[str, str] = {}
+    duplicates: list[tuple[str, str, str]] = []
+    unknown: list[tuple[str, str]] = []
+    for index, (cell, value) in enumerate(row, start=1):
+        if value is None or not str(value).strip():
+            continue
+        key = wanted.get(header_key(value))
+        if key is None:
+            unknown.append((cell, str(value).strip()))
+        elif key in columns:
+            duplicates.append((str(value).strip(), cells[key], cell))
+        else:
+            columns[key] = index
+            cells[key] = cell
+    return HeaderMatch(
+        columns=columns, cells=cells, duplicates=tuple(duplicates), unknown=tuple(unknown)
+    )
+
+
+def unit_in_header(header: object, column: InputColumn, units: str) -> str | None:
+    """Why the unit in ``header`` contradicts the run's ``units``, or ``None`` when it does not.
+
+    Only a recognised unit spelling in a trailing ``(...)`` is judged; other
+    notes in parentheses, and columns without a quantity, are left alone.
+    """
+    if not column.quantity or units not in UNIT_LABELS:
+        return None
+    found = re.search(r"\(([^()]*)\)\s*$", str(header))
+    if not found:
+        return None
+    spelled = re.sub(r"\s+", "", found.group(1)).lower().replace("*", "·")
+    quantity, system = _UNIT_SPELLINGS.get(spelled, (None, None))
+    if quantity is None:
+        return None
+    expected = UNIT_LABELS[units][column.quantity]
+    if quantity == column.quantity and system == units:
+        return None
+    other = "US" if units == "SI" else "SI"
+    if quantity == column.quantity and system == other:
+        fix = (
+            f"set Units to {other} on the Settings sheet if the whole workbook is in "
+            f"{other} units, or convert this column to {expected} and head it "
+            f"'{column.header} ({expected})'"
+        )
+    else:
+        fix = f"give the values in {expected} and head the column '{column.header} ({expected})'"
+    return (
+        f"the header says the values are in {found.group(1).strip()}, but with Units "
+        f"{units} spanfleet reads {column.header} in {expected}; {fix}"
+    )

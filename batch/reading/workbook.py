@@ -1,0 +1,409 @@
+"""Read the input sheets of an .xlsx workbook into the normalised document.
+
+The workbook is opened twice from its bytes, read-only: once for the values
+(``data_only=True`` gives the value saved with each formula) and once for the
+formulas, to tell a formula with no saved value (a file written by a program
+that does not calculate) from a blank cell. Only the columns declared in
+:mod:`batch.model.columns` are read, and never more than
+:data:`~batch.reading.safety.MAX_ROWS` rows of
+:data:`~batch.reading.safety.MAX_COLUMNS` columns.
+
+Every value taken into the document has its (sheet, cell) recorded in the
+:class:`~batch.reading.problems.WorkbookLocator`, so schema errors and
+checks found later point back at the cell the engineer typed.
+"""
+
+from __future__ import annotations
+
+import io
+import itertools
+import re
+import warnings
+import zipfile
+from dataclasses import dataclass, field
+from typing import Any
+
+import openpyxl
+from defusedxml import DefusedXmlException
+from openpyxl.utils import get_column_letter
+
+from batch.model import UNIT_SYSTEMS, Settings
+from batch.model.columns import (
+    CAPACITIES,
+    MEMBERS,
+    SETTING_ROWS,
+    SETTINGS,
+    VEHICLES,
+    InputSheet,
+    header_key,
+)
+from batch.reading.cells import Note, read_cell
+from batch.reading.headers import HeaderMatch, match_headers, unit_in_header
+from batch.reading.problems import (
+    DocPath,
+    Problem,
+    Reading,
+    Severity,
+    WorkbookLocator,
+    file_problem,
+)
+from batch.reading.safety import MAX_COLUMNS, MAX_ROWS, xml_entities_problem
+
+__all__ = ["read_workbook"]
+
+# A formula element in sheet XML, with or without a namespace prefix (<f>, <x:f t="shared">).
+_FORMULA_TAG = re.compile(rb"<(?:\w+:)?f[\s>/]")
+
+
+@dataclass(frozen=True)
+class _Cell:
+    value: object
+    number_format: str
+    formula: str | None  # formula text, when the formula has no saved value
+
+
+@dataclass(frozen=True)
+class _RawSheet:
+    title: str
+    header: list[tuple[str, object]]  # (cell, value) of row 1
+    match: HeaderMatch
+    rows: list[tuple[int, dict[int, _Cell]]]  # non-blank rows: (row number, column -> cell)
+    too_many_columns: bool
+    too_many_rows: bool
+
+
+def _is_blank(value: object) -> bool:
+    return value is None or (isinstance(value, str) and not value.strip())
+
+
+def _raw_sheet(values: Any, formulas: Any | None, spec: InputSheet, title: str) -> _RawSheet:
+    ws = values[title]
+    first = next(iter(ws.iter_rows(min_row=1, max_row=1, max_col=MAX_COLUMNS + 1)), ())
+    header = [(f"{get_column_letter(i)}1", c.value) for i, c in enumerate(first, start=1)]
+    too_wide = len(header) > MAX_COLUMNS and not _is_blank(header[MAX_COLUMNS][1])
+    match = match_headers(spec, header[:MAX_COLUMNS])
+    wanted = sorted(set(match.columns.values()))
+    rows: list[tuple[int, dict[int, _Cell]]] = []
+    too_long = False
+    if wanted:
+        last = MAX_ROWS + 2  # one row past the cap shows whether the cap is exceeded
+        value_rows = ws.iter_rows(min_row=2, max_row=last, max_col=wanted[-1])
+        formula_rows = (
+            itertools.repeat(None)
+            if formulas is None
+            else formulas[title].iter_rows(min_row=2, max_row=last, max_col=wanted[-1])
+        )
+        # The values pass ends the rows; the formula pass (or the endless None) follows it.
+        paired = zip(value_rows, formula_rows, strict=False)
+        for number, (row, frow) in enumerate(paired, start=2):
+            cells = {}
+            for col in wanted:
+                cell = row[col - 1]
+                formula = None
+                if cell.value is None and frow is not None and frow[col - 1].data_type == "f":
+                    formula = str(getattr(frow[col - 1].value, "text", frow[col - 1].value))
+                if formula or not _is_blank(cell.value):
+                    fmt = getattr(cell, "number_format", None) or "General"
+                    cells[col] = _Cell(cell.value, fmt, formula)
+            if not cells:
+                continue
+            if number > MAX_ROWS + 1:
+                too_long = True
+                break
+            rows.append((number, cells))
+    return _RawSheet(
+        title=title,
+        header=header,
+        match=match,
+        rows=rows,
+        too_many_columns=too_wide,
+        too_many_rows=too_long,
+    )
+
+
+def _has_formulas(data: bytes) -> bool:
+    """Whether any worksheet holds a formula (an ``<f>`` element), by a scan of the raw XML.
+
+    Most inventories hold none, and then the second, formula-reading pass is skipped.
+    """
+    with zipfile.ZipFile(io.BytesIO(data)) as archive:
+        for name in archive.namelist():
+            if name.startswith("xl/worksheets/") and name.endswith(".xml"):
+                if _FORMULA_TAG.search(archive.read(name)):
+                    return True
+    return False
+
+
+def _extract(data: bytes) -> tuple[dict[str, _RawSheet], set[str]]:
+    """The raw input sheets by declared name, and the lower-cased titles of all sheets."""
+    with warnings.catch_warnings():
+        # openpyxl warns about features it drops (data validation extensions, odd
+        # dates); reading values only, none of them matters here.
+        warnings.simplefilter("ignore")
+        values = openpyxl.load_workbook(io.BytesIO(data), read_only=True, data_only=True)
+        formulas = (
+            openpyxl.load_workbook(io.BytesIO(data), read_only=True, data_only=False)
+            if _has_formulas(data)
+            else None
+        )
+        try:
+            titles = {t.strip().lower(): t for t in values.sheetnames}
+            raw = {}
+            for spec in (SETTINGS, MEMBERS, VEHICLES, CAPACITIES):
+                title = titles.get(spec.name.lower())
+                if title is not None and hasattr(values[title], "iter_rows"):
+                    raw[spec.name] = _raw_sheet(values, formulas, spec, title)
+            return raw, set(titles)
+        finally:
+            values.close()
+            if formulas is not None:
+                formulas.close()
+
+
+@dataclass
+class _Builder:
+    """Collects the document's cell positions, problems and unreadable paths."""
+
+    cells: dict[DocPath, tuple[str, str]] = field(default_factory=dict)
+    problems: list[Problem] = field(default_factory=list)
+    blocked: set[DocPath] = field(default_factory=set)
+
+    def add(
+        self,
+        code: str,
+        sheet: str,
+        cell: str,
+        message: str,
+        severity: Severity = "error",
+        value: object = None,
+    ) -> None:
+        shown = None if value is None else str(value)
+        self.problems.append(
+            Problem(
+                code=code, sheet=sheet, cell=cell, message=message, severity=severity, value=shown
+            )
+        )
+
+    def value(self, sheet: str, ref: str, path: DocPath, column: Any, cell: _Cell | None) -> object:
+        """The document value of one cell (``None`` when blank or unreadable)."""
+        self.cells[path] = (sheet, ref)
+        if cell is None:
+            return None
+        if cell.formula:
+            self.blocked.add(path)
+            self.add(
+                "formula-not-calculated",
+                sheet,
+                ref,
+                f"the formula {cell.formula} has no saved result (the file was written by a "
+                "program that does not calculate); open the workbook in your spreadsheet "
+                "program, recalculate and save it, or type the value",
+                value=cell.formula,
+            )
+            return None
+        got = read_cell(column.kind, cell.value, cell.number_format, column.choices)
+        if isinstance(got, Note):
+            self.blocked.add(path)
+            self.add(got.code, sheet, ref, got.message, value=cell.value)
+            return None
+        return got
+
+    def headers(self, spec: InputSheet, raw: _RawSheet | None, units: str | None) -> bool:
+        """Report header problems of one sheet; True when its rows can be read."""
+        if raw is None:
+            names = ", ".join(c.header for c in spec.columns if c.required)
+            self.add(
+                "missing-sheet",
+                spec.name,
+                "",
+                f"the workbook has no sheet named {spec.name}; add a sheet {spec.name} with "
+                f"{names} in row 1 (`spanfleet template NEW.xlsx` writes a blank workbook "
+                "to copy from)",
+            )
+            return False
+        sheet, match = raw.title, raw.match
+        if raw.too_many_columns:
+            self.add(
+                "too-many-columns",
+                sheet,
+                "",
+                f"row 1 has more than {MAX_COLUMNS} columns; delete the unused columns",
+            )
+        for text, first, second in match.duplicates:
+            self.add(
+                "duplicate-header",
+                sheet,
+                second,
+                f"the column {text} appears twice (also {first}); delete or rename one of them",
+                value=text,
+            )
+        for cell, text in match.unknown:
+            close = HeaderMatch.suggestion(text, spec)
+            hint = f"; did you mean {close}?" if close else ""
+            self.add(
+                "unknown-column",
+                sheet,
+                cell,
+                f"spanfleet does not read a column headed {text!r}; it is ignored{hint}",
+                severity="warning",
+                value=text,
+            )
+        for column in match.missing(spec):
+            found = ", ".join(repr(str(v).strip()) for _, v in raw.header if not _is_blank(v))
+            self.add(
+                "missing-header",
+                sheet,
+                "",
+                f"row 1 has no {column.header} header; add a column headed {column.header} "
+                f"(headers found: {found or 'none'})",
+            )
+        header_text = dict(raw.header)
+        for column in spec.columns:
+            ref = match.cells.get(column.key)
+            why = ref and units and unit_in_header(header_text[ref], column, units)
+            if why:
+                self.add("header-unit-mismatch", sheet, ref, why, value=header_text[ref])
+        if raw.too_many_rows:
+            self.add(
+                "too-many-rows",
+                sheet,
+                "",
+                f"the sheet has more than {MAX_ROWS:,} rows of data; split the inventory "
+                "into several workbooks",
+            )
+        return not match.missing(spec) and not raw.too_many_rows
+
+    def settings(self, raw: _RawSheet | None) -> dict[str, object]:
+        """The Settings sheet as the document's ``settings`` object."""
+        self.cells[("settings",)] = (SETTINGS.name, "")
+        out: dict[str, object] = {}
+        if not self.headers(SETTINGS, raw, None) or raw is None:
+            self.blocked.add(("settings",))
+            return out
+        by_name = {header_key(r.name): r for r in SETTING_ROWS}
+        name_col, value_col = raw.match.columns["setting"], raw.match.columns["value"]
+        seen: dict[str, str] = {}
+        for number, cells in raw.rows:
+            name_ref = f"{get_column_letter(name_col)}{number}"
+            value_ref = f"{get_column_letter(value_col)}{number}"
+            name_cell, value_cell = cells.get(name_col), cells.get(value_col)
+            name = "" if name_cell is None else str(name_cell.value or "").strip()
+            if not name:
+                if value_cell is not None:
+                    self.add(
+                        "setting-without-name",
+                        raw.title,
+                        value_ref,
+                        "a value with no setting name beside it is ignored; type the "
+                        f"setting's name in {name_ref} or delete the value",
+                        severity="warning",
+                    )
+                continue
+            row = by_name.get(header_key(name))
+            if row is None:
+                known = ", ".join(r.name for r in SETTING_ROWS)
+                self.add(
+                    "unknown-setting",
+                    raw.title,
+                    name_ref,
+                    f"{name!r} is not a setting spanfleet knows, so it is ignored; "
+                    f"the settings are: {known}",
+                    severity="warning",
+                    value=name,
+                )
+                continue
+            if row.key in seen:
+                self.add(
+                    "duplicate-setting",
+                    raw.title,
+                    name_ref,
+                    f"{row.name} is set twice (also in {seen[row.key]}); keep one of the rows",
+                    value=name,
+                )
+                continue
+            seen[row.key] = name_ref
+            path = ("settings", row.key)
+            got = self.value(raw.title, value_ref, path, row, value_cell)
+            if got is not None:
+                out[row.key] = got
+        return out
+
+    def table(self, spec: InputSheet, key: str, raw: _RawSheet | None, units: str | None) -> list:
+        """The rows of Members, Vehicles or Capacities as the document's list of objects."""
+        self.cells[(key,)] = (spec.name, "")
+        if not self.headers(spec, raw, units) or raw is None:
+            self.blocked.add((key,))
+            return []
+        columns = raw.match.columns
+        id_col = columns[spec.columns[0].key]  # the row's id (Capacities: its member)
+        out: list[dict[str, object]] = []
+        for number, cells in raw.rows:
+            index = len(out)
+            self.cells[(key, index)] = (raw.title, f"{get_column_letter(id_col)}{number}")
+            entry: dict[str, object] = {}
+            for column in spec.columns:
+                col = columns.get(column.key)
+                if col is None:
+                    continue
+                ref = f"{get_column_letter(col)}{number}"
+                got = self.value(raw.title, ref, (key, index, column.key), column, cells.get(col))
+                if got is not None:
+                    entry[column.key] = got
+            out.append(entry)
+        return out
+
+
+def _refused_xml(exc: BaseException | None) -> bool:
+    """True when ``exc`` or an error it was raised from is defusedxml refusing the XML."""
+    for _ in range(10):  # a chain of causes is short; the bound guards against a cycle
+        if exc is None:
+            return False
+        if isinstance(exc, DefusedXmlException):
+            return True
+        exc = exc.__cause__ or exc.__context__
+    return False
+
+
+def read_workbook(data: bytes) -> Reading:
+    """Read a workbook's bytes into the normalised document; never raises for bad input."""
+    try:
+        raw, titles = _extract(data)
+    except Exception as exc:
+        # Whatever openpyxl trips over inside a damaged file, the fix is the same,
+        # except for XML that defusedxml refused (openpyxl may wrap that error).
+        if _refused_xml(exc):
+            return Reading(
+                document=None, locator=WorkbookLocator(), problems=(xml_entities_problem(),)
+            )
+        return Reading(
+            document=None,
+            locator=WorkbookLocator(),
+            problems=(
+                file_problem(
+                    "workbook-unreadable",
+                    f"the workbook cannot be read ({type(exc).__name__}: {exc}); open it in "
+                    "your spreadsheet program and save it again as .xlsx",
+                ),
+            ),
+        )
+    build = _Builder()
+    settings = build.settings(raw.get(SETTINGS.name))
+    units = settings.get("units", Settings().units)
+    if units not in UNIT_SYSTEMS or ("settings", "units") in build.blocked:
+        units = None  # unknown unit system: the schema reports it; header units go unjudged
+    document = {
+        "settings": settings,
+        "members": build.table(MEMBERS, "members", raw.get(MEMBERS.name), units),
+        "vehicles": build.table(VEHICLES, "vehicles", raw.get(VEHICLES.name), units),
+    }
+    # Capacities is optional: read when the workbook has it (a sheet of that name).
+    if CAPACITIES.name.lower() in titles:
+        document["capacities"] = build.table(
+            CAPACITIES, "capacities", raw.get(CAPACITIES.name), units
+        )
+    return Reading(
+        document=document,
+        locator=WorkbookLocator(build.cells),
+        problems=tuple(build.problems),
+        blocked=frozenset(build.blocked),
+    )

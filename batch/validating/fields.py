@@ -1,0 +1,65 @@
+"""Names of document fields in the words of the input sheets, for messages.
+
+A document path such as ``("members", 3, "spans", 1)`` is described with the
+sheet's header (``Spans``) so that workbook users and JSON users read the same
+message; the declarations come from :mod:`batch.model.columns`.
+"""
+
+from __future__ import annotations
+
+import json
+
+from batch.model.columns import CAPACITIES, MEMBERS, SETTING_ROWS, VEHICLES, InputColumn, SettingRow
+from batch.reading.problems import DocPath
+
+__all__ = ["declaration", "entry", "label", "shown"]
+
+_TABLES = {"members": MEMBERS, "vehicles": VEHICLES, "capacities": CAPACITIES}
+
+
+def declaration(path: DocPath) -> InputColumn | SettingRow | None:
+    """The declared column (or setting row) a path belongs to, if any."""
+    if len(path) >= 3 and path[0] in _TABLES:
+        return next((c for c in _TABLES[str(path[0])].columns if c.key == path[2]), None)
+    if len(path) >= 2 and path[0] == "settings":
+        return next((r for r in SETTING_ROWS if r.key == path[1]), None)
+    return None
+
+
+def label(path: DocPath) -> str:
+    """The field's name as headed in the workbook (``Spans``), or the sheet's name."""
+    found = declaration(path)
+    if isinstance(found, InputColumn):
+        return found.header
+    if isinstance(found, SettingRow):
+        return found.name
+    if path and path[0] in _TABLES:
+        return _TABLES[str(path[0])].name
+    if path and path[0] == "settings":
+        return "Settings"
+    return "the document"
+
+
+def entry(path: DocPath) -> str:
+    """``"Spans"``, or ``"entry 2 of Spans"`` for the second item of a list field."""
+    name = label(path)
+    depth = 3 if path and path[0] in _TABLES else 2
+    if len(path) > depth and isinstance(path[depth], int):
+        return f"entry {path[depth] + 1} of {name}"
+    return name
+
+
+def shown(value: object) -> str:
+    """A value as written in a message: numbers plainly, text quoted, the rest as JSON."""
+    if isinstance(value, bool) or value is None:
+        return json.dumps(value)
+    if isinstance(value, float) and value.is_integer() and abs(value) < 1e15:
+        return str(int(value))
+    if isinstance(value, int | float):
+        return str(value)
+    if isinstance(value, str):
+        return repr(value)
+    try:
+        return json.dumps(value)
+    except (TypeError, ValueError):
+        return repr(value)
