@@ -51,7 +51,7 @@ def snapshot(path: Path) -> dict[str, Any]:
 def assert_same_workbook(fresh: Path, committed: Path) -> None:
     """Assert two workbooks look the same, sheet by sheet, naming what differs."""
     a, b = snapshot(fresh), snapshot(committed)
-    hint = f"{committed.name} is out of date: run `python scripts/make_workbooks.py` and commit"
+    hint = f"{committed.name} is out of date: run `python scripts/generate.py` and commit"
     assert a.keys() == b.keys(), hint
     for key in a:
         if isinstance(a[key], dict):

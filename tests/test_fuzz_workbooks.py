@@ -49,7 +49,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from batch.command.cli import EXIT_OK, EXIT_PROBLEMS, main
-from batch.model.columns import INPUT_SHEETS
+from batch.model.sheets import INPUT_SHEETS
 from batch.writing.package.save import TEMP_PREFIX
 
 #: Distinct mutation programs the fuzz run must try (issue 7: "at least 500 ways per run").

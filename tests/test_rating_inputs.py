@@ -15,7 +15,7 @@ import json
 import pytest
 
 from batch.model import Capacity, Settings
-from batch.model.columns import SETTING_ROWS
+from batch.model.sheets import SETTING_ROWS
 from batch.validating import read_input
 from batch.writing.template import case_workbook
 

@@ -14,8 +14,8 @@ from batch.engine import member_envelope
 from batch.engine.influence import influence_lines
 from batch.loads.fleet import fleet_cases
 from batch.model import Case, Member, Settings
-from batch.model.columns import MEMBERS, VEHICLES
 from batch.model.layout import mechanism_parts
+from batch.model.sheets import MEMBERS, VEHICLES
 from batch.writing.template import write_case_workbook
 
 SAMPLES_DIR = Path(__file__).resolve().parent.parent / "sample_workbooks"

@@ -15,7 +15,8 @@ import pytest
 from generated_workbooks import assert_same_workbook, read_input_or_skip
 
 from batch.model import UNIT_LABELS
-from batch.model.columns import INPUT_SHEETS, MEMBERS, SETTING_ROWS, VEHICLES, header_key
+from batch.model.declare import header_key
+from batch.model.sheets import INPUT_SHEETS, MEMBERS, SETTING_ROWS, VEHICLES
 from batch.writing.template import GUIDE_SHEET, write_template
 
 COMMITTED = Path(__file__).resolve().parent.parent / "templates" / "spanfleet-template.xlsx"
@@ -106,7 +107,7 @@ def test_headers_cover_the_contract_columns(template: Path) -> None:
 def test_settings_rows_hold_the_contract_defaults(template: Path) -> None:
     ws = openpyxl.load_workbook(template)["Settings"]
     values = {row[0]: row[1] for row in ws.iter_rows(min_row=2, values_only=True)}
-    assert [row.name for row in SETTING_ROWS] == list(values)
+    assert [row.header for row in SETTING_ROWS] == list(values)
     for name, default in CONTRACT_SETTINGS.items():
         assert values[name] == default, name
 

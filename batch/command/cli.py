@@ -194,7 +194,7 @@ def _json_source(report: InputReport) -> SourcePackage:
     """For JSON input: the case as input sheets of a new workbook, ready for results."""
     import io
 
-    from batch.model.columns import SETTING_ROWS
+    from batch.model.sheets import SETTING_ROWS
     from batch.writing import SourcePackage
     from batch.writing.template import case_rows, input_workbook
 

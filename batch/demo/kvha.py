@@ -16,7 +16,7 @@ Two cases, both as :class:`batch.model.Case`:
   the metric path end to end, with resistances at a few stations of two members.
 
 :data:`SAMPLE_WORKBOOKS` names the workbook file of each case (written by
-``scripts/make_workbooks.py`` into ``sample_workbooks/``).
+``scripts/generate.py`` into ``sample_workbooks/``).
 """
 
 from __future__ import annotations

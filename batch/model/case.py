@@ -1,4 +1,9 @@
-"""The plain data model: settings, members (girder lines) and vehicles.
+"""The typed input of a run: settings, members (girder lines), vehicles and capacities.
+
+Each field that is read from the input is declared here, once, as an input column
+(:func:`batch.model.declare.column`): its header, kind, unit, rules, meaning and
+example. The sheets, the JSON Schema, the reader and the template are generated
+from these declarations.
 
 Everything here is a frozen, keyword-only dataclass holding validated values in
 one consistent unit system, named once on :class:`Settings`:
@@ -15,28 +20,52 @@ conventions of the workbook contract: sagging moment positive, shear V = dM/dx
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Literal
+from typing import Literal, get_args
 
+from batch.model.declare import column
 from batch.model.units import UNIT_LABELS, UnitSystem
 
 Directions = Literal["both", "left-to-right", "right-to-left"]
 Category = Literal["design", "legal", "permit"]
 
-DIRECTIONS: tuple[str, ...] = ("both", "left-to-right", "right-to-left")
-CATEGORIES: tuple[str, ...] = ("design", "legal", "permit")
+DIRECTIONS: tuple[str, ...] = get_args(Directions)
+CATEGORIES: tuple[str, ...] = get_args(Category)
 
 #: Most spacing ranges in one vehicle (the engine sweeps 3**n combinations).
 MAX_RANGES = 4
 
 
+#: Member id used by the example rows of Members and Capacities (they must agree).
+_EXAMPLE_MEMBER = "KV-0412 G1"
+
+# Rating settings: the published values quoted in their meanings are those of the MBE
+# (AASHTO Manual for Bridge Evaluation, 2nd ed. 2011 onward) and of AASHTO LRFD Table
+# 3.4.1-2 for the relieving (minimum) dead-load factors; batch/loads/factors.py keeps
+# the same values, with their status, beside the checks that use them.
+
+
+def _load_factor(header: str, default: float, meaning: str) -> float:
+    """A rating load factor setting: 1.0 to 2.5."""
+    return column(  # type: ignore[no-any-return]
+        header, "number", default=default, minimum=1.0, maximum=2.5, meaning=meaning
+    )
+
+
+def _relieving_factor(header: str, default: float, meaning: str) -> float:
+    """A dead-load factor used where the dead load relieves the rated effect: 0 to 1."""
+    return column(  # type: ignore[no-any-return]
+        header, "number", default=default, minimum=0.0, maximum=1.0, meaning=meaning
+    )
+
+
 @dataclass(frozen=True, kw_only=True)
 class Settings:
-    """Run settings (the Settings sheet).
+    """Run settings: one row of the Settings sheet per field.
 
     ``impact`` is the dynamic load allowance IM as a fraction (0.33 = 33 %),
     applied to axle loads only, never to lane loads.
 
-    Rating (see :mod:`batch.rating.lrfr`): ``dc_factor`` and ``dw_factor`` are the
+    Rating (see :mod:`batch.rating`): ``dc_factor`` and ``dw_factor`` are the
     dead-load factors, ``dc_factor_relieving`` and ``dw_factor_relieving`` the
     ones used where a dead load relieves the rated effect; ``ll_factor_*`` the
     live-load factors by vehicle category (design: inventory and operating).
@@ -45,21 +74,118 @@ class Settings:
     effect below which an effect is not compared.
     """
 
-    units: UnitSystem = "US"
-    directions: Directions = "both"
-    stations_per_span: int = 10
-    impact: float = 0.33
-    chart_members: int = 50
-    dc_factor: float = 1.25
-    dw_factor: float = 1.5
-    dc_factor_relieving: float = 0.9
-    dw_factor_relieving: float = 0.65
-    ll_factor_design: float = 1.75
-    ll_factor_operating: float = 1.35
-    ll_factor_legal: float = 1.45
-    ll_factor_permit: float = 1.3
-    reference_vehicle: str = ""
-    screening_floor: float = 0.1
+    units: UnitSystem = column(
+        "Units",
+        "choice",
+        default="US",
+        choices=("US", "SI"),
+        meaning="US: kip, ft, kip-ft, kip/ft. SI: kN, m, kN-m, kN/m.",
+    )
+    directions: Directions = column(
+        "Directions",
+        "choice",
+        default="both",
+        choices=DIRECTIONS,
+        meaning="Directions of travel to consider.",
+    )
+    stations_per_span: int = column(
+        "Stations per span",
+        "number",
+        default=10,
+        whole=True,
+        minimum=1,
+        maximum=100,
+        meaning="Whole number n >= 1: stations at 0, 1/n, ..., 1 of every span.",
+    )
+    impact: float = column(
+        "Dynamic load allowance",
+        "number",
+        default=0.33,
+        minimum=0.0,
+        maximum=1.0,
+        meaning="Fraction added to axle loads only (0.33 = 33 %); never to lane loads.",
+    )
+    chart_members: int = column(
+        "Chart members",
+        "number",
+        default=50,
+        whole=True,
+        minimum=0,
+        meaning="How many members get a moment-envelope chart (the first n).",
+    )
+    dc_factor: float = _load_factor(
+        "DC factor",
+        1.25,
+        "Rating: load factor on component dead load DC, Strength I (MBE Table "
+        "6A.4.2.2-1: 1.25). Allowed 1.0 to 2.5.",
+    )
+    dw_factor: float = _load_factor(
+        "DW factor",
+        1.5,
+        "Rating: load factor on wearing-surface dead load DW, Strength I (MBE: 1.50; "
+        "1.25 where the overlay thickness is measured in the field). Allowed 1.0 to 2.5.",
+    )
+    dc_factor_relieving: float = _relieving_factor(
+        "DC factor relieving",
+        0.9,
+        "Rating: factor on DC where the dead load relieves the rated effect (opposite "
+        "sign), so that relief is not overstated (LRFD Table 3.4.1-2 minimum: 0.90). "
+        "Allowed 0 to 1.",
+    )
+    dw_factor_relieving: float = _relieving_factor(
+        "DW factor relieving",
+        0.65,
+        "Rating: factor on DW where it relieves the rated effect (LRFD Table 3.4.1-2 "
+        "minimum: 0.65). Allowed 0 to 1.",
+    )
+    ll_factor_design: float = _load_factor(
+        "LL factor design",
+        1.75,
+        "Rating: live-load factor for design loads at the inventory level (MBE Table "
+        "6A.4.2.2-1: 1.75). Allowed 1.0 to 2.5.",
+    )
+    ll_factor_operating: float = _load_factor(
+        "LL factor design operating",
+        1.35,
+        "Rating: live-load factor for design loads at the operating level (MBE: 1.35). "
+        "Design loads report both levels. Allowed 1.0 to 2.5.",
+    )
+    ll_factor_legal: float = _load_factor(
+        "LL factor legal",
+        1.45,
+        "Rating: live-load factor for legal loads, routine commercial traffic. 1.45 is "
+        "the MBE value for ADTT >= 5000 (Table 6A.4.4.2.3a-1), the highest of that table and "
+        "the conservative choice when the ADTT is not known; 1.30 for ADTT <= 1000, "
+        "interpolate between. "
+        "Allowed 1.0 to 2.5.",
+    )
+    ll_factor_permit: float = _load_factor(
+        "LL factor permit",
+        1.3,
+        "Rating: live-load factor for permit loads. 1.30 is the MBE value for routine "
+        "(annual) permits mixed with traffic, ADTT > 5000, with the multi-lane distribution "
+        "factor (MBE 6A.4.5.4.2; 1.20 at ADTT 1000, 1.10 below 100). Single-trip permits "
+        "take other values and a one-lane distribution factor. Allowed 1.0 to 2.5.",
+    )
+    reference_vehicle: str = column(
+        "Reference vehicle",
+        "text",
+        default="",
+        meaning="Screening: a Vehicles row id or a built-in load model (e.g. HL-93), such as "
+        "the load the members were designed for. When given, every vehicle's effects are "
+        "compared with this one's (Screening sheet). Blank: no screening.",
+    )
+    screening_floor: float = column(
+        "Screening floor",
+        "number",
+        default=0.1,
+        minimum=0.0,
+        below=1.0,
+        meaning="Screening compares effects only where the reference's effect is at least this "
+        "fraction of its largest effect of the same kind on the member (0.1 = 10 %), so that "
+        "near-zero effects do not give meaningless ratios. spanfleet's choice, not a published "
+        "value; 0 compares wherever the reference gives any effect.",
+    )
 
     @property
     def unit_labels(self) -> dict[str, str]:
@@ -78,17 +204,99 @@ class Member:
     ``dc_load`` and ``dw_load`` are uniform dead loads per unit length.
     """
 
-    id: str
-    spans: tuple[float, ...]
-    hinges: tuple[float, ...] = ()
-    span_ei: tuple[float, ...] = ()
-    df_moment: float = 1.0
-    df_shear: float = 1.0
-    dc_load: float = 0.0
-    dw_load: float = 0.0
-    condition_factor: float = 1.0
-    system_factor: float = 1.0
-    description: str = ""
+    id: str = column(
+        "Member",
+        "id",
+        required=True,
+        meaning="Unique id of the girder line.",
+        example=_EXAMPLE_MEMBER,
+    )
+    spans: tuple[float, ...] = column(
+        "Spans",
+        "list",
+        required=True,
+        quantity="length",
+        above=0.0,
+        min_items=1,
+        meaning="Span lengths, left to right; supports at both ends of every span.",
+        example="60, 80, 60",
+    )
+    hinges: tuple[float, ...] = column(
+        "Hinges",
+        "list",
+        default=(),
+        quantity="length",
+        above=0.0,
+        meaning="Internal moment releases, measured from the member's left end.",
+    )
+    span_ei: tuple[float, ...] = column(
+        "Span EI",
+        "list",
+        default=(),
+        above=0.0,
+        min_items=1,
+        meaning="Relative flexural stiffness, one per span (default all 1).",
+        example="1, 1.5, 1",
+    )
+    df_moment: float = column(
+        "DF moment",
+        "number",
+        default=1.0,
+        above=0.0,
+        meaning="Live-load distribution factor on moments (default 1).",
+        example=0.62,
+    )
+    df_shear: float = column(
+        "DF shear",
+        "number",
+        default=1.0,
+        above=0.0,
+        meaning="Live-load distribution factor on shears and reactions (default 1).",
+        example=0.7,
+    )
+    dc_load: float = column(
+        "DC load",
+        "number",
+        default=0.0,
+        quantity="line_load",
+        minimum=0.0,
+        meaning="Uniform dead load of components on the whole member, for rating.",
+        example=1.15,
+    )
+    dw_load: float = column(
+        "DW load",
+        "number",
+        default=0.0,
+        quantity="line_load",
+        minimum=0.0,
+        meaning="Uniform dead load of the wearing surface on the whole member, for rating.",
+        example=0.18,
+    )
+    condition_factor: float = column(
+        "Condition factor",
+        "number",
+        default=1.0,
+        above=0.0,
+        maximum=1.0,
+        meaning="Rating condition factor (default 1).",
+        example=1,
+    )
+    system_factor: float = column(
+        "System factor",
+        "number",
+        default=1.0,
+        above=0.0,
+        maximum=1.0,
+        meaning="Rating system factor (default 1).",
+        example=1,
+    )
+    description: str = column(
+        "Description",
+        "text",
+        default="",
+        meaning="Free text.",
+        example="EXAMPLE, replace or delete: Harlow Creek overpass, girder 1 (KVHA)",
+    )
 
     @property
     def stiffness(self) -> tuple[float, ...]:
@@ -129,14 +337,70 @@ class Vehicle:
     load model instead of the axle columns.
     """
 
-    id: str
-    axle_loads: tuple[float, ...] = ()
-    spacings: tuple[Spacing, ...] = ()
-    lane_load: float = 0.0
-    factor: float = 1.0
-    library: str | None = None
-    category: Category = "design"
-    description: str = ""
+    id: str = column(
+        "Vehicle",
+        "id",
+        required=True,
+        meaning="Unique id of the vehicle.",
+        example="KV-P3",
+    )
+    axle_loads: tuple[float, ...] = column(
+        "Axle loads",
+        "list",
+        default=(),
+        quantity="force",
+        above=0.0,
+        min_items=1,
+        meaning="Axle loads, front axle first (required unless Library is given).",
+        example="12, 34, 34",
+    )
+    spacings: tuple[Spacing, ...] = column(
+        "Axle spacings",
+        "spacing-list",
+        default=(),
+        quantity="length",
+        above=0.0,
+        meaning="Distances between consecutive axles; an entry may be a range 14-30 "
+        "(the worst spacing within it is used).",
+        example="14, 14-30",
+    )
+    lane_load: float = column(
+        "Lane load",
+        "number",
+        default=0.0,
+        quantity="line_load",
+        minimum=0.0,
+        meaning="Uniform load placed on the adverse parts of the member, no dynamic allowance.",
+    )
+    factor: float = column(
+        "Factor",
+        "number",
+        default=1.0,
+        above=0.0,
+        meaning="Multiplier on the whole row's effects (default 1).",
+        example=1,
+    )
+    library: str | None = column(
+        "Library",
+        "id",
+        default=None,
+        meaning="Name of a built-in load model; leave the axle columns empty.",
+    )
+    category: Category = column(
+        "Category",
+        "choice",
+        default="design",
+        choices=CATEGORIES,
+        meaning="Which live-load factor rating uses (default design).",
+        example="permit",
+    )
+    description: str = column(
+        "Description",
+        "text",
+        default="",
+        meaning="Free text.",
+        example="EXAMPLE, replace or delete: KVHA 3-axle permit truck",
+    )
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -153,16 +417,86 @@ class Capacity:
     ``None`` where they are to be computed from the member's uniform dead loads.
     """
 
-    member: str
-    span: int
-    station: float
-    resistance_m_pos: float | None = None
-    resistance_m_neg: float | None = None
-    resistance_v: float | None = None
-    dc_m: float | None = None
-    dw_m: float | None = None
-    dc_v: float | None = None
-    dw_v: float | None = None
+    member: str = column(
+        "Member",
+        "id",
+        required=True,
+        meaning="Id of a member listed on the Members sheet.",
+        example=_EXAMPLE_MEMBER,
+    )
+    span: int = column(
+        "Span",
+        "number",
+        required=True,
+        whole=True,
+        minimum=1,
+        meaning="Span number, counted from 1 at the member's left end.",
+        example=1,
+    )
+    station: float = column(
+        "Station",
+        "number",
+        required=True,
+        minimum=0.0,
+        maximum=1.0,
+        meaning="Fraction of the span (0 to 1), one of the stations of the Envelopes sheet.",
+        example=0.4,
+    )
+    resistance_m_pos: float | None = column(
+        "Resistance M+",
+        "number",
+        default=None,
+        quantity="moment",
+        minimum=0.0,
+        meaning="Factored resistance for sagging moment; blank: not rated.",
+        example=4100,
+    )
+    resistance_m_neg: float | None = column(
+        "Resistance M-",
+        "number",
+        default=None,
+        quantity="moment",
+        minimum=0.0,
+        meaning="Factored resistance for hogging moment, as a positive magnitude; "
+        "blank: not rated.",
+    )
+    resistance_v: float | None = column(
+        "Resistance V",
+        "number",
+        default=None,
+        quantity="force",
+        minimum=0.0,
+        meaning="Factored shear resistance; blank: not rated.",
+        example=380,
+    )
+    dc_m: float | None = column(
+        "DC M",
+        "number",
+        default=None,
+        quantity="moment",
+        meaning="Signed component dead-load moment here; blank: from the member's DC load.",
+    )
+    dw_m: float | None = column(
+        "DW M",
+        "number",
+        default=None,
+        quantity="moment",
+        meaning="Signed wearing-surface moment here; blank: from the member's DW load.",
+    )
+    dc_v: float | None = column(
+        "DC V",
+        "number",
+        default=None,
+        quantity="force",
+        meaning="Signed component dead-load shear here; blank: from the member's DC load.",
+    )
+    dw_v: float | None = column(
+        "DW V",
+        "number",
+        default=None,
+        quantity="force",
+        meaning="Signed wearing-surface shear here; blank: from the member's DW load.",
+    )
 
 
 @dataclass(frozen=True, kw_only=True)

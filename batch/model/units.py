@@ -9,7 +9,7 @@ factors are exact by definition: 1 ft = 0.3048 m and 1 lbf = 4.4482216152605 N
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Literal
+from typing import Literal, get_args
 
 __all__ = [
     "KN_PER_KIP",
@@ -25,7 +25,7 @@ __all__ = [
 UnitSystem = Literal["US", "SI"]
 #: A physical quantity whose unit a header shows ("" for a plain number).
 Quantity = Literal["", "length", "force", "moment", "line_load"]
-UNIT_SYSTEMS: tuple[str, ...] = ("US", "SI")
+UNIT_SYSTEMS: tuple[str, ...] = get_args(UnitSystem)
 
 #: Unit labels of each system, by quantity, as shown in result headers.
 UNIT_LABELS: dict[str, dict[str, str]] = {

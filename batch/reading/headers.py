@@ -14,7 +14,7 @@ import re
 from dataclasses import dataclass
 
 from batch.model import UNIT_LABELS
-from batch.model.columns import InputColumn, InputSheet, header_key
+from batch.model.declare import InputColumn, InputSheet, header_key
 
 __all__ = ["HeaderMatch", "match_headers", "unit_in_header"]
 

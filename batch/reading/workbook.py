@@ -28,15 +28,8 @@ from defusedxml import DefusedXmlException
 from openpyxl.utils import get_column_letter
 
 from batch.model import UNIT_SYSTEMS, Settings
-from batch.model.columns import (
-    CAPACITIES,
-    MEMBERS,
-    SETTING_ROWS,
-    SETTINGS,
-    VEHICLES,
-    InputSheet,
-    header_key,
-)
+from batch.model.declare import InputSheet, header_key
+from batch.model.sheets import INPUT_SHEETS, SETTING_ROWS, SETTINGS, TABLE_SHEETS
 from batch.reading.cells import Note, read_cell
 from batch.reading.headers import HeaderMatch, match_headers, unit_in_header
 from batch.reading.problems import (
@@ -149,7 +142,7 @@ def _extract(data: bytes) -> tuple[dict[str, _RawSheet], set[str]]:
         try:
             titles = {t.strip().lower(): t for t in values.sheetnames}
             raw = {}
-            for spec in (SETTINGS, MEMBERS, VEHICLES, CAPACITIES):
+            for spec in INPUT_SHEETS:
                 title = titles.get(spec.name.lower())
                 if title is not None and hasattr(values[title], "iter_rows"):
                     raw[spec.name] = _raw_sheet(values, formulas, spec, title)
@@ -280,7 +273,7 @@ class _Builder:
         if not self.headers(SETTINGS, raw, None) or raw is None:
             self.blocked.add(("settings",))
             return out
-        by_name = {header_key(r.name): r for r in SETTING_ROWS}
+        by_name = {header_key(r.header): r for r in SETTING_ROWS}
         name_col, value_col = raw.match.columns["setting"], raw.match.columns["value"]
         seen: dict[str, str] = {}
         for number, cells in raw.rows:
@@ -301,7 +294,7 @@ class _Builder:
                 continue
             row = by_name.get(header_key(name))
             if row is None:
-                known = ", ".join(r.name for r in SETTING_ROWS)
+                known = ", ".join(r.header for r in SETTING_ROWS)
                 self.add(
                     "unknown-setting",
                     raw.title,
@@ -317,7 +310,7 @@ class _Builder:
                     "duplicate-setting",
                     raw.title,
                     name_ref,
-                    f"{row.name} is set twice (also in {seen[row.key]}); keep one of the rows",
+                    f"{row.header} is set twice (also in {seen[row.key]}); keep one of the rows",
                     value=name,
                 )
                 continue
@@ -328,8 +321,9 @@ class _Builder:
                 out[row.key] = got
         return out
 
-    def table(self, spec: InputSheet, key: str, raw: _RawSheet | None, units: str | None) -> list:
-        """The rows of Members, Vehicles or Capacities as the document's list of objects."""
+    def table(self, spec: InputSheet, raw: _RawSheet | None, units: str | None) -> list:
+        """The rows of a table sheet (Members, Vehicles, ...) as the document's list of objects."""
+        key = spec.key
         self.cells[(key,)] = (spec.name, "")
         if not self.headers(spec, raw, units) or raw is None:
             self.blocked.add((key,))
@@ -391,16 +385,11 @@ def read_workbook(data: bytes) -> Reading:
     units = settings.get("units", Settings().units)
     if units not in UNIT_SYSTEMS or ("settings", "units") in build.blocked:
         units = None  # unknown unit system: the schema reports it; header units go unjudged
-    document = {
-        "settings": settings,
-        "members": build.table(MEMBERS, "members", raw.get(MEMBERS.name), units),
-        "vehicles": build.table(VEHICLES, "vehicles", raw.get(VEHICLES.name), units),
-    }
-    # Capacities is optional: read when the workbook has it (a sheet of that name).
-    if CAPACITIES.name.lower() in titles:
-        document["capacities"] = build.table(
-            CAPACITIES, "capacities", raw.get(CAPACITIES.name), units
-        )
+    document: dict[str, Any] = {"settings": settings}
+    for sheet in TABLE_SHEETS:
+        # An optional sheet (Capacities) is read when the workbook has a sheet of that name.
+        if sheet.required or sheet.name.lower() in titles:
+            document[sheet.key] = build.table(sheet, raw.get(sheet.name), units)
     return Reading(
         document=document,
         locator=WorkbookLocator(build.cells),

@@ -2,22 +2,23 @@
 
 A document path such as ``("members", 3, "spans", 1)`` is described with the
 sheet's header (``Spans``) so that workbook users and JSON users read the same
-message; the declarations come from :mod:`batch.model.columns`.
+message; the declarations come from :mod:`batch.model.sheets`.
 """
 
 from __future__ import annotations
 
 import json
 
-from batch.model.columns import CAPACITIES, MEMBERS, SETTING_ROWS, VEHICLES, InputColumn, SettingRow
+from batch.model.declare import InputColumn
+from batch.model.sheets import SETTING_ROWS, TABLE_SHEETS
 from batch.reading.problems import DocPath
 
 __all__ = ["declaration", "entry", "label", "shown"]
 
-_TABLES = {"members": MEMBERS, "vehicles": VEHICLES, "capacities": CAPACITIES}
+_TABLES = {sheet.key: sheet for sheet in TABLE_SHEETS}
 
 
-def declaration(path: DocPath) -> InputColumn | SettingRow | None:
+def declaration(path: DocPath) -> InputColumn | None:
     """The declared column (or setting row) a path belongs to, if any."""
     if len(path) >= 3 and path[0] in _TABLES:
         return next((c for c in _TABLES[str(path[0])].columns if c.key == path[2]), None)
@@ -29,10 +30,8 @@ def declaration(path: DocPath) -> InputColumn | SettingRow | None:
 def label(path: DocPath) -> str:
     """The field's name as headed in the workbook (``Spans``), or the sheet's name."""
     found = declaration(path)
-    if isinstance(found, InputColumn):
+    if found is not None:
         return found.header
-    if isinstance(found, SettingRow):
-        return found.name
     if path and path[0] in _TABLES:
         return _TABLES[str(path[0])].name
     if path and path[0] == "settings":

@@ -1,7 +1,7 @@
 """Check the normalised document against the JSON Schema and word each error.
 
-The schema (``schemas/spanfleet-input.schema.json``, shipped inside this
-package) is the single source of the structural rules: types, required fields,
+The schema (:func:`batch.model.schema.input_schema`, generated from the column
+declarations) is the single source of the structural rules: types, required fields,
 minimums, maximums and choices. Every error is found at once
 (``Draft202012Validator.iter_errors``); each keeps its document path until it
 is turned into a :class:`~batch.reading.problems.Problem` by the locator, so
@@ -14,19 +14,15 @@ from __future__ import annotations
 
 import difflib
 import functools
-import json
-from importlib import resources
-from typing import Any
 
 from jsonschema import Draft202012Validator
 from jsonschema.exceptions import ValidationError, best_match
 
+from batch.model.schema import input_schema
 from batch.reading.problems import DocPath, Locator, Problem
 from batch.validating.fields import declaration, entry, label, shown
 
-__all__ = ["SCHEMA_FILE", "input_schema", "schema_problems"]
-
-SCHEMA_FILE = "spanfleet-input.schema.json"
+__all__ = ["schema_problems"]
 
 _TYPE_WORDS = {
     "number": "a number",
@@ -38,38 +34,8 @@ _TYPE_WORDS = {
 
 
 @functools.cache
-def input_schema() -> dict[str, Any]:
-    """The input document's JSON Schema (draft 2020-12)."""
-    text = resources.files("batch.validating").joinpath(SCHEMA_FILE).read_text("utf-8")
-    schema: dict[str, Any] = json.loads(text)
-    return schema
-
-
-@functools.cache
 def _validator() -> Draft202012Validator:
-    schema = input_schema()
-    return Draft202012Validator(_inlined(schema, schema.get("$defs", {})))
-
-
-def _inlined(node: Any, defs: dict[str, Any]) -> Any:
-    """``node`` with every local ``$ref`` replaced by the definition it names.
-
-    The same rules, checked faster: resolving a reference costs more than the
-    check it leads to, and an inventory has thousands of rows. The schema has no
-    recursive definitions, so the result is finite.
-    """
-    if isinstance(node, list):
-        return [_inlined(n, defs) for n in node]
-    if not isinstance(node, dict):
-        return node
-    out = {k: _inlined(v, defs) for k, v in node.items() if k not in ("$ref", "$defs")}
-    ref = node.get("$ref")
-    if isinstance(ref, str) and ref.startswith("#/$defs/"):
-        target = _inlined(defs[ref.removeprefix("#/$defs/")], defs)
-        if set(target) & set(out) - {"description", "title"}:
-            return {"allOf": [target], **out}  # both constrain: keep both
-        return target | out
-    return out
+    return Draft202012Validator(input_schema())
 
 
 def _example(path: DocPath) -> str:
@@ -84,97 +50,122 @@ def _relevant(error: ValidationError) -> ValidationError:
     return best_match(fitting) if fitting else error
 
 
-def _worded(error: ValidationError) -> list[tuple[DocPath, str, str]]:
+#: (path, code, message) of one problem found in the document.
+Worded = tuple[DocPath, str, str]
+
+
+def _one_of(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
+    best = _relevant(error)
+    if best is not error:
+        return _worded(best)
+    types = sorted({_TYPE_WORDS.get(str(c.validator_value), "") for c in error.context or ()})
+    words = " or ".join(types)
+    return [(path, "wrong-type", f"{what}: {shown(error.instance)} is not {words}; give {words}")]
+
+
+def _required(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
+    out = []
+    for name in error.validator_value:
+        if name in error.instance:
+            continue
+        field = (*path, name)
+        if declaration(field) is not None and len(field) <= 3:
+            message = f"{label(field)} is required; fill it in{_example(field)}"
+        else:
+            message = f"{what} needs {name!r}; add it"
+            if {"low", "high"} & set(error.validator_value):
+                message += ', writing a range as {"low": 14, "high": 30}'
+        out.append((field, "missing-value", message))
+    return out
+
+
+def _type(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
+    rule, value = error.validator_value, error.instance
+    expected = rule if isinstance(rule, list) else [rule]
+    words = " or ".join(_TYPE_WORDS.get(t, t) for t in expected)
+    code = (
+        "not-a-whole-number"
+        if expected == ["integer"] and _is_number(value)
+        else ("not-a-number" if {"number", "integer"} & set(expected) else "wrong-type")
+    )
+    if not path:
+        message = "the document must be a JSON object with settings, members and vehicles"
+        return [(path, code, message)]
+    return [(path, code, f"{what}: {shown(value)} is not {words}; give {words}")]
+
+
+def _above(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
+    rule = error.validator_value
+    message = f"{what}: {shown(error.instance)} is not greater than {shown(rule)}; "
+    message += "give a value greater than zero" if rule == 0 else f"give more than {rule}"
+    return [(path, "too-small", message)]
+
+
+def _minimum(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
+    rule = shown(error.validator_value)
+    message = f"{what}: {shown(error.instance)} is less than {rule}; give {rule} or more"
+    return [(path, "too-small", message)]
+
+
+def _maximum(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
+    limit = "at most" if error.validator == "maximum" else "less than"
+    message = f"{what}: {shown(error.instance)} is too large; give {limit} "
+    return [(path, "too-large", message + shown(error.validator_value))]
+
+
+def _enum(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
+    choices = ", ".join(str(c) for c in error.validator_value)
+    message = f"{what}: {shown(error.instance)} is not one of the choices; choose one of: {choices}"
+    return [(path, "not-a-choice", message)]
+
+
+def _min_items(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
+    if len(path) == 1:
+        noun = "member (one row per girder line)" if path == ("members",) else "vehicle"
+        return [(path, "no-rows", f"there are no rows; add at least one {noun}")]
+    return [(path, "empty-list", f"{what} is empty; give at least one value")]
+
+
+def _pattern(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
+    return [(path, "blank-text", f"{what} is blank; give it a name")]
+
+
+def _unknown_keys(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
+    known = sorted(error.schema.get("properties", {}))
+    out = []
+    for name in sorted(set(error.instance) - set(known)):
+        close = difflib.get_close_matches(str(name), known, n=1)
+        hint = f"did you mean {close[0]!r}?" if close else f"the keys are: {', '.join(known)}"
+        message = f"{name!r} is not a key spanfleet reads here; remove it or correct it ({hint})"
+        out.append(((*path, name), "unknown-key", message))
+    return out
+
+
+#: How each kind of schema error is worded, by the JSON Schema keyword that failed.
+_WORDING = {
+    "oneOf": _one_of,
+    "anyOf": _one_of,
+    "required": _required,
+    "type": _type,
+    "exclusiveMinimum": _above,
+    "minimum": _minimum,
+    "maximum": _maximum,
+    "exclusiveMaximum": _maximum,
+    "enum": _enum,
+    "minItems": _min_items,
+    "pattern": _pattern,
+    "additionalProperties": _unknown_keys,
+}
+
+
+def _worded(error: ValidationError) -> list[Worded]:
     """(path, code, message) for one schema error (several for several unknown keys)."""
     path: DocPath = tuple(error.absolute_path)
-    what, value, rule = entry(path), error.instance, error.validator_value
-    kind = error.validator
-    if kind in ("oneOf", "anyOf"):
-        best = _relevant(error)
-        if best is not error:
-            return _worded(best)
-        types = sorted({_TYPE_WORDS.get(str(c.validator_value), "") for c in error.context or ()})
-        words = " or ".join(types)
-        return [(path, "wrong-type", f"{what}: {shown(value)} is not {words}; give {words}")]
-    if kind == "required":
-        out = []
-        for name in rule:
-            if name in value:
-                continue
-            field = (*path, name)
-            if declaration(field) is not None and len(field) <= 3:
-                message = f"{label(field)} is required; fill it in{_example(field)}"
-            else:
-                message = f"{what} needs {name!r}; add it"
-                if {"low", "high"} & set(rule):
-                    message += ', writing a range as {"low": 14, "high": 30}'
-            out.append((field, "missing-value", message))
-        return out
-    if kind == "type":
-        expected = rule if isinstance(rule, list) else [rule]
-        words = " or ".join(_TYPE_WORDS.get(t, t) for t in expected)
-        code = (
-            "not-a-whole-number"
-            if expected == ["integer"] and _is_number(value)
-            else ("not-a-number" if {"number", "integer"} & set(expected) else "wrong-type")
-        )
-        if not path:
-            return [
-                (
-                    path,
-                    code,
-                    "the document must be a JSON object with settings, members and vehicles",
-                )
-            ]
-        return [(path, code, f"{what}: {shown(value)} is not {words}; give {words}")]
-    if kind == "exclusiveMinimum":
-        message = f"{what}: {shown(value)} is not greater than {shown(rule)}; "
-        message += "give a value greater than zero" if rule == 0 else f"give more than {rule}"
-        return [(path, "too-small", message)]
-    if kind == "minimum":
-        return [
-            (
-                path,
-                "too-small",
-                f"{what}: {shown(value)} is less than {shown(rule)}; give {shown(rule)} or more",
-            )
-        ]
-    if kind in ("maximum", "exclusiveMaximum"):
-        limit = "at most" if kind == "maximum" else "less than"
-        return [
-            (path, "too-large", f"{what}: {shown(value)} is too large; give {limit} {shown(rule)}")
-        ]
-    if kind == "enum":
-        choices = ", ".join(str(c) for c in rule)
-        return [
-            (
-                path,
-                "not-a-choice",
-                f"{what}: {shown(value)} is not one of the choices; choose one of: {choices}",
-            )
-        ]
-    if kind == "minItems":
-        if len(path) == 1:
-            noun = "member (one row per girder line)" if path == ("members",) else "vehicle"
-            return [(path, "no-rows", f"there are no rows; add at least one {noun}")]
-        return [(path, "empty-list", f"{what} is empty; give at least one value")]
-    if kind == "pattern":
-        return [(path, "blank-text", f"{what} is blank; give it a name")]
-    if kind == "additionalProperties":
-        known = sorted(error.schema.get("properties", {}))
-        out = []
-        for name in sorted(set(value) - set(known)):
-            close = difflib.get_close_matches(str(name), known, n=1)
-            hint = f"did you mean {close[0]!r}?" if close else f"the keys are: {', '.join(known)}"
-            out.append(
-                (
-                    (*path, name),
-                    "unknown-key",
-                    f"{name!r} is not a key spanfleet reads here; remove it or correct it ({hint})",
-                )
-            )
-        return out
-    return [(path, "invalid-value", f"{what}: {error.message}")]
+    what = entry(path)
+    wording = _WORDING.get(str(error.validator))
+    if wording is None:
+        return [(path, "invalid-value", f"{what}: {error.message}")]
+    return wording(error, path, what)
 
 
 def _is_number(value: object) -> bool:

@@ -18,7 +18,7 @@ import numpy as np
 import openpyxl
 
 import batch
-from batch.model.columns import SETTING_ROWS
+from batch.model.sheets import SETTING_ROWS
 from batch.running.executor import RunResult
 from batch.writing.cautions import CAUTIONS, SIGN_CONVENTIONS
 from batch.writing.columns import RUN_LOG_SHEET
@@ -99,7 +99,7 @@ def _rows(
     yield "Results written to", info.output, _PLAIN
     yield "Settings used", None, _SECTION
     for row in SETTING_ROWS:
-        yield row.name, getattr(settings, row.key), _PLAIN
+        yield row.header, getattr(settings, row.key), _PLAIN
     units = ", ".join(f"{q}: {u}" for q, u in settings.unit_labels.items())
     yield "Units of results", units, _PLAIN
     yield "Counts", None, _SECTION

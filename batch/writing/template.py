@@ -31,7 +31,8 @@ from openpyxl.worksheet.worksheet import Worksheet
 from openpyxl.writer.excel import ExcelWriter
 
 from batch.model import UNIT_LABELS, UNIT_SYSTEMS, Case, Spacing
-from batch.model.columns import INPUT_SHEETS, SETTING_ROWS, SETTINGS, InputColumn, InputSheet
+from batch.model.declare import InputColumn, InputSheet
+from batch.model.sheets import INPUT_SHEETS, SETTING_ROWS, SETTINGS
 from batch.model.units import UnitSystem
 from batch.writing.cautions import CAUTIONS, SIGN_CONVENTIONS
 from batch.writing.package.save import SaveError, atomic_save
@@ -87,7 +88,7 @@ def _header_note(column: InputColumn) -> str:
     if column.choices:
         lines.append("One of: " + ", ".join(column.choices) + ".")
     lines.append(_unit_note(column))
-    if column.example is not None and column.kind != "text":
+    if column.example is not None and column.kind not in ("text", "id"):
         lines.append(f"Example: {column.example}")
     return "\n".join(line for line in lines if line)
 
@@ -221,13 +222,13 @@ def _write_table(
 def _write_settings(ws: Worksheet, values: Mapping[str, CellValue], units: UnitSystem) -> None:
     _style_header(ws, SETTINGS, units)
     for i, setting in enumerate(SETTING_ROWS, start=2):
-        _put(ws.cell(row=i, column=1), setting.name)
+        _put(ws.cell(row=i, column=1), setting.header)
         _put(ws.cell(row=i, column=2), values.get(setting.key, setting.default))
         _put(ws.cell(row=i, column=3), setting.meaning)
         ws.cell(row=i, column=3).alignment = _WRAP
         if setting.choices:
-            _add_choice_list(ws, setting.name, setting.choices, f"B{i}")
-    ws.column_dimensions["A"].width = max(len(s.name) for s in SETTING_ROWS) + 4
+            _add_choice_list(ws, setting.header, setting.choices, f"B{i}")
+    ws.column_dimensions["A"].width = max(len(s.header) for s in SETTING_ROWS) + 4
     ws.column_dimensions["B"].width = 16
     ws.column_dimensions["C"].width = _MAX_WIDTH + 10
     ws.freeze_panes = "A2"

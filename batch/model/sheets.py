@@ -1,0 +1,70 @@
+"""The input sheets of the workbook contract, generated from the model's declarations.
+
+Each table sheet's columns are the declared fields of its dataclass
+(:func:`batch.model.declare.columns_of`); the Settings sheet has one row per
+declared field of :class:`~batch.model.case.Settings`. The reader, the template,
+the JSON Schema and the docs read these, so nothing here is declared twice.
+"""
+
+from __future__ import annotations
+
+from batch.model.case import Capacity, Member, Settings, Vehicle
+from batch.model.declare import InputColumn, InputSheet, columns_of
+
+__all__ = [
+    "CAPACITIES",
+    "INPUT_SHEETS",
+    "MEMBERS",
+    "SETTINGS",
+    "SETTING_ROWS",
+    "TABLE_SHEETS",
+    "VEHICLES",
+]
+
+#: The rows of the Settings sheet: one per setting, in sheet order, with defaults.
+SETTING_ROWS: tuple[InputColumn, ...] = columns_of(Settings)
+
+SETTINGS = InputSheet(
+    name="Settings",
+    key="settings",
+    purpose="Run settings: one row per setting; blank or missing rows take the default.",
+    columns=(
+        InputColumn(key="setting", header="Setting", kind="text", required=True),
+        InputColumn(key="value", header="Value", kind="text", required=True),
+        InputColumn(
+            key="meaning",
+            header="Meaning",
+            kind="text",
+            meaning="What the setting does; for the reader only, never read by the program.",
+        ),
+    ),
+)
+
+MEMBERS = InputSheet(
+    required=True,
+    name="Members",
+    key="members",
+    purpose="One row per girder line (member).",
+    columns=columns_of(Member),
+)
+
+VEHICLES = InputSheet(
+    required=True,
+    name="Vehicles",
+    key="vehicles",
+    purpose="One row per vehicle or library load model.",
+    columns=columns_of(Vehicle),
+)
+
+CAPACITIES = InputSheet(
+    name="Capacities",
+    key="capacities",
+    purpose="Optional: one row per member and station to be rated.",
+    columns=columns_of(Capacity),
+)
+
+#: The sheets of one row per item (all but Settings), in workbook order.
+TABLE_SHEETS: tuple[InputSheet, ...] = (MEMBERS, VEHICLES, CAPACITIES)
+
+#: The sheets a run reads, in workbook order (Capacities is optional).
+INPUT_SHEETS: tuple[InputSheet, ...] = (SETTINGS, *TABLE_SHEETS)
