@@ -35,9 +35,10 @@ import numpy as np
 from batch.demo.synthetic import synthetic_case
 from batch.engine.envelope import member_influence
 from batch.engine.influence import InfluenceLines, influence_lines
-from batch.engine.moving import Train, fleet_extremes_of
+from batch.engine.moving import fleet_extremes_of
+from batch.loads.cases import LoadCase
 from batch.loads.fleet import fleet_cases
-from batch.model import Case, Vehicle
+from batch.model import AxleTrain, Case, Vehicle
 from batch.writing.template import write_case_workbook
 
 STEP = 0.5  # ft, the baseline's front-axle step
@@ -121,23 +122,19 @@ def main(argv: list[str] | None = None) -> int:
     # Kernel alone, three-span members, every vehicle (fixed and ranged), both directions,
     # the whole fleet in one call per member as in a run.
     cases = fleet_cases(case.vehicles, settings)
-    trains = [
-        Train(loads=c.axle_loads, spacing_low=c.spacing_low, spacing_high=c.spacing_high)
-        for c in cases
-    ]
     three = [m for m in case.members if len(m.spans) == 3][:20]
     ils = [member_influence(m, settings.stations_per_span) for m in three]
-    kernel_us = _best_time(lambda: [fleet_extremes_of(il, trains) for il in ils]) / (
-        len(ils) * len(trains)
+    kernel_us = _best_time(lambda: [fleet_extremes_of(il, cases) for il in ils]) / (
+        len(ils) * len(cases)
     )
-    axles = np.mean([len(t.loads) for t in trains])
-    ranged = np.mean([t.spacing_high != t.spacing_low for t in trains])
+    axles = np.mean([len(c.train.loads) for c in cases])
+    ranged = np.mean([c.train.high != c.train.low for c in cases])
     effects_3 = ils[0].n_effects
     # The reference case of the scale issue: a 60-80-60 ft member and a three-axle truck
     # (8, 32, 32 kip at 14 ft), both directions, at the run's stations per span; 100 such
     # pairs per call, as a run hands a member's whole fleet to the kernel at once.
     reference = influence_lines([60.0, 80.0, 60.0], stations_per_span=settings.stations_per_span)
-    truck = [Train(loads=(8.0, 32.0, 32.0), spacing_low=(14.0, 14.0), spacing_high=(14.0, 14.0))]
+    truck = [LoadCase(label="", train=AxleTrain.of((8.0, 32.0, 32.0), (14.0, 14.0), (14.0, 14.0)))]
     reference_us = _best_time(lambda: fleet_extremes_of(reference, truck * 100)) / 100
 
     # Baseline on a sample of pairs, with the exact extremes of the same pairs.
@@ -159,10 +156,13 @@ def main(argv: list[str] | None = None) -> int:
         exact = fleet_extremes_of(
             il,
             [
-                Train(
-                    loads=vehicle.axle_loads,
-                    spacing_low=tuple(s.low for s in vehicle.spacings),
-                    spacing_high=tuple(s.high for s in vehicle.spacings),
+                LoadCase(
+                    label="",
+                    train=AxleTrain.of(
+                        vehicle.axle_loads,
+                        tuple(s.low for s in vehicle.spacings),
+                        tuple(s.high for s in vehicle.spacings),
+                    ),
                 )
             ],
         )

@@ -28,6 +28,7 @@ from numpy.typing import NDArray
 from scipy.optimize import minimize_scalar
 
 from batch.engine import AxleExtremes, InfluenceLines, axle_extremes, influence_lines
+from batch.model import AxleTrain
 from batch.model.layout import POSITION_TOL, mechanism_parts
 
 #: Exact method against polished search: agreement relative to the natural size.
@@ -293,7 +294,7 @@ def _value_at_reported(
 def test_exact_extremes_match_brute_force(index: int) -> None:
     member, vehicle = _random_case(index)
     il = influence_lines(**member)
-    ax = axle_extremes(il, vehicle.loads, vehicle.lo, vehicle.hi)
+    ax = axle_extremes(il, AxleTrain.of(vehicle.loads, vehicle.lo, vehicle.hi))
     brute = BruteForce(il, vehicle)
     scale = il.effect_scale * vehicle.loads.sum()
     for sense, engine in ((1.0, ax.max_value), (-1.0, ax.min_value)):
@@ -315,7 +316,7 @@ def test_single_axle_extreme_with_a_hinge_just_left_of_a_station() -> None:
     # at 22.23, 5 stations per span: station 22.232 lies 0.002 ft right of the hinge.
     il = influence_lines([10.0, 10.0, 11.16, 10.0], [0.5] * 4, [22.23], 5)
     one = Vehicle(loads=np.array([1.0]), lo=np.empty(0), hi=np.empty(0))
-    ax = axle_extremes(il, [1.0])
+    ax = axle_extremes(il, AxleTrain.of([1.0]))
     brute = BruteForce(il, one)
     scale = il.effect_scale
     assert np.all(np.abs(brute.extreme(1.0) - ax.max_value) <= REL_TOL_EXACT * scale)

@@ -25,6 +25,7 @@ import pytest
 from numpy.typing import NDArray
 
 from batch.engine import InfluenceLines, axle_extremes, influence_lines
+from batch.model import AxleTrain
 
 #: Exact arithmetic against closed forms: agreement relative to the natural size.
 REL_TOL_EXACT = 1e-9
@@ -193,7 +194,7 @@ def test_two_equal_spans_center_moment_minimum() -> None:
     np.testing.assert_allclose(
         _moment(il, 1, 1.0, x), expected, rtol=0, atol=REL_TOL_EXACT * 2 * length
     )
-    ax = axle_extremes(il, [1.0])
+    ax = axle_extremes(il, AxleTrain.of([1.0]))
     row = _row_at_station(il, 1, 1.0)
     assert ax.min_value[row] == pytest.approx(-length / (6 * np.sqrt(3)), abs=1e-9 * length)
     assert ax.min_position[row] in (
@@ -305,7 +306,7 @@ def test_hs20_absolute_maximum_moment_rule(length: float, n: int, k: int) -> Non
     expected = 72 * (length / 2 - 7 / 3) ** 2 / length - 112
     il = influence_lines([length], stations_per_span=n)
     assert il.station_x[k] == pytest.approx(length / 2 + 7 / 3, abs=1e-12)
-    ax = axle_extremes(il, HS20_LOADS, HS20_SPACING)
+    ax = axle_extremes(il, AxleTrain.of(HS20_LOADS, HS20_SPACING))
     m_max = ax.max_value[il.moment_rows]
     assert m_max[k] == pytest.approx(expected, rel=REL_TOL_EXACT)
     # Where: the middle axle on the station, the 8 kip axle ahead of it.
@@ -315,7 +316,9 @@ def test_hs20_absolute_maximum_moment_rule(length: float, n: int, k: int) -> Non
     assert m_max[n - k] == pytest.approx(expected, rel=REL_TOL_EXACT)
     # No station anywhere beats the rule's absolute maximum.
     fine = influence_lines([length], stations_per_span=240)
-    fine_max = axle_extremes(fine, HS20_LOADS, HS20_SPACING).max_value[fine.moment_rows]
+    fine_max = axle_extremes(fine, AxleTrain.of(HS20_LOADS, HS20_SPACING)).max_value[
+        fine.moment_rows
+    ]
     assert fine_max.max() <= expected * (1 + REL_TOL_EXACT)
 
 
@@ -324,7 +327,7 @@ def test_hs20_at_100_ft_matches_the_published_table_value() -> None:
     # Specifications Appendix A lists 1,524.0 (from memory). The rule's station at
     # L/2 + 7/3 = 52.333 ft is station 157 of 300.
     il = influence_lines([100.0], stations_per_span=300)
-    m_max = axle_extremes(il, HS20_LOADS, HS20_SPACING).max_value[il.moment_rows]
+    m_max = axle_extremes(il, AxleTrain.of(HS20_LOADS, HS20_SPACING)).max_value[il.moment_rows]
     assert m_max.max() == pytest.approx(1523.92, abs=0.01)
     assert m_max[157] == pytest.approx(m_max.max(), rel=REL_TOL_EXACT)
 
@@ -334,8 +337,8 @@ def test_hs20_variable_rear_spacing_governs_at_14_ft_on_simple_spans() -> None:
     # 3.7.6, S5); on simple spans it is 14 ft for moments and shears (S5b).
     length = 70.0
     il = influence_lines([length], stations_per_span=15)
-    fixed = axle_extremes(il, HS20_LOADS, HS20_SPACING)
-    ranged = axle_extremes(il, HS20_LOADS, (14.0, 14.0), (14.0, 30.0))
+    fixed = axle_extremes(il, AxleTrain.of(HS20_LOADS, HS20_SPACING))
+    ranged = axle_extremes(il, AxleTrain.of(HS20_LOADS, (14.0, 14.0), (14.0, 30.0)))
     np.testing.assert_allclose(ranged.max_value, fixed.max_value, rtol=REL_TOL_EXACT, atol=1e-9)
     np.testing.assert_allclose(ranged.min_value, fixed.min_value, rtol=REL_TOL_EXACT, atol=1e-9)
     assert ranged.max_spacing[8, 1] == pytest.approx(14.0)
@@ -350,7 +353,7 @@ def test_hs20_end_shear(length: float, published: float | None) -> None:
     # Gere S20): HS20 V = R = 72 - 672/L for L >= 28 ft (reference notes 3.1, table values).
     expected = 72 - 672 / length
     il = influence_lines([length], stations_per_span=4)
-    ax = axle_extremes(il, HS20_LOADS, HS20_SPACING)
+    ax = axle_extremes(il, AxleTrain.of(HS20_LOADS, HS20_SPACING))
     assert ax.max_value[il.shear_rows][0] == pytest.approx(expected, rel=REL_TOL_EXACT)
     assert ax.max_value[il.reaction_rows][0] == pytest.approx(expected, rel=REL_TOL_EXACT)
     assert ax.min_value[il.shear_rows][-1] == pytest.approx(-expected, rel=REL_TOL_EXACT)
@@ -370,7 +373,7 @@ def test_h20_absolute_maximum_matches_khan_table(
     # ahead of it): M = 40 (L/2 - 1.4)^2 / L, which is station k of n.
     il = influence_lines([length], stations_per_span=n)
     assert il.station_x[k] == pytest.approx(length / 2 + 1.4, abs=1e-12)
-    m_max = axle_extremes(il, H20_LOADS, H20_SPACING).max_value[il.moment_rows]
+    m_max = axle_extremes(il, AxleTrain.of(H20_LOADS, H20_SPACING)).max_value[il.moment_rows]
     assert m_max[k] == pytest.approx(40 * (length / 2 - 1.4) ** 2 / length, rel=REL_TOL_EXACT)
     assert m_max.max() == pytest.approx(published, abs=TABLE_TOL_2DP)
 
@@ -381,7 +384,7 @@ def test_h20_short_spans_drop_the_axle_that_left_the_span(length: float) -> None
     # 8L kip-ft (160, 176, 192, 208); a table that keeps the 8 kip axle after it has
     # left the span lists 147.92, 167.56, 187.27, 207.02 (Khan 2010, S13).
     il = influence_lines([length], stations_per_span=40)
-    m_max = axle_extremes(il, H20_LOADS, H20_SPACING).max_value[il.moment_rows]
+    m_max = axle_extremes(il, AxleTrain.of(H20_LOADS, H20_SPACING)).max_value[il.moment_rows]
     assert m_max[20] == pytest.approx(8 * length, rel=REL_TOL_EXACT)
     assert m_max.max() == pytest.approx(8 * length, rel=REL_TOL_EXACT)
 
@@ -391,7 +394,7 @@ def test_hs20_on_30_ft_span_drops_the_front_axle() -> None:
     # axles give 64 (15 - 3.5)^2 / 30 = 282.13 kip-ft, under an axle at L/2 + 3.5 ft
     # (station 37 of 60).
     il = influence_lines([30.0], stations_per_span=60)
-    m_max = axle_extremes(il, HS20_LOADS, HS20_SPACING).max_value[il.moment_rows]
+    m_max = axle_extremes(il, AxleTrain.of(HS20_LOADS, HS20_SPACING)).max_value[il.moment_rows]
     assert m_max[37] == pytest.approx(64 * 11.5**2 / 30, rel=REL_TOL_EXACT)
     assert m_max.max() == pytest.approx(m_max[37], rel=REL_TOL_EXACT)
 
@@ -404,4 +407,6 @@ def test_hinge_at_a_station_gives_the_statics_of_the_suspended_part() -> None:
     x = np.linspace(35.35, 40.4, 11)
     r_c = il.evaluate(x)[il.reaction_rows][2]
     np.testing.assert_allclose(r_c, (x - 35.35) / (40.4 - 35.35), rtol=0, atol=REL_TOL_EXACT)
-    assert axle_extremes(il, [1.0]).max_value[il.reaction_rows][2] == pytest.approx(1.0)
+    assert axle_extremes(il, AxleTrain.of([1.0])).max_value[il.reaction_rows][2] == pytest.approx(
+        1.0
+    )

@@ -31,9 +31,9 @@ import numpy as np
 import pytest
 
 from batch.engine import UnstableMemberError, axle_extremes, influence_lines, member_envelope
-from batch.engine.moving import Train, fleet_extremes_of
+from batch.engine.moving import fleet_extremes_of
 from batch.loads.cases import LoadCase
-from batch.model import Member
+from batch.model import AxleTrain, Member
 from batch.model.case import MAX_RANGES
 
 #: Exact statics against the engine, relative to the effect's natural size.
@@ -140,7 +140,7 @@ def test_mechanism_is_refused_naming_the_parts_that_move(name: str) -> None:
 def test_mechanism_is_refused_through_the_member_envelope() -> None:
     # Same statics as "three hinges in a three-span member", reached from a model member.
     member = Member(id="KV-41 G2", spans=(30.0, 40.0, 30.0), hinges=(20.0, 50.0, 80.0))
-    case = LoadCase(label="KV-T3", axle_loads=(10.0, 30.0, 30.0), spacing_low=(14.0, 16.0))
+    case = LoadCase(label="KV-T3", train=AxleTrain.of((10.0, 30.0, 30.0), (14.0, 16.0)))
     with pytest.raises(UnstableMemberError, match="mechanism"):
         member_envelope(member, [case])
 
@@ -307,9 +307,11 @@ def test_non_finite_axle_loads_are_refused(lines, loads: list[float]) -> None:
     # An axle load is a finite force (common practice).
     spacing = [14.0] * (len(loads) - 1)
     with pytest.raises(ValueError, match=_exactly(LOADS_MESSAGE)):
-        axle_extremes(lines, loads, spacing)
+        axle_extremes(lines, AxleTrain.of(loads, spacing))
     with pytest.raises(ValueError, match=_exactly(LOADS_MESSAGE)):
-        fleet_extremes_of(lines, [Train(loads=tuple(loads), spacing_low=tuple(spacing))])
+        fleet_extremes_of(
+            lines, [LoadCase(label="", train=AxleTrain.of(tuple(loads), tuple(spacing)))]
+        )
 
 
 @pytest.mark.parametrize(
@@ -318,14 +320,19 @@ def test_non_finite_axle_loads_are_refused(lines, loads: list[float]) -> None:
         ([], [], None),
         ([8.0, 32.0], [], None),
         ([8.0, 32.0], [14.0, 14.0], None),
-        ([8.0, 32.0, 32.0], [14.0, 14.0], [30.0]),
     ],
-    ids=["no axles", "a gap without a spacing", "a spacing too many", "ranges short of the gaps"],
+    ids=["no axles", "a gap without a spacing", "a spacing too many"],
 )
 def test_axle_and_spacing_counts_must_agree(lines, loads, low, high) -> None:
     # Contract, Vehicles: one spacing per pair of consecutive axles.
     with pytest.raises(ValueError, match=_exactly(COUNT_MESSAGE)):
-        axle_extremes(lines, loads, low, high)
+        axle_extremes(lines, AxleTrain.of(loads, low, high))
+
+
+def test_a_train_cannot_hold_range_ends_short_of_its_gaps() -> None:
+    # One Spacing (low, high) per gap: a train whose range ends miss gaps cannot be built.
+    with pytest.raises(ValueError):
+        AxleTrain.of([8.0, 32.0, 32.0], [14.0, 14.0], [30.0])
 
 
 @pytest.mark.parametrize(
@@ -336,22 +343,17 @@ def test_axle_and_spacing_counts_must_agree(lines, loads, low, high) -> None:
 def test_bad_spacings_are_refused(lines, low: list[float], high: list[float] | None) -> None:
     # A spacing is a finite distance, zero or more (zero: coincident axles; common practice).
     with pytest.raises(ValueError, match=_exactly(SPACING_MESSAGE)):
-        axle_extremes(lines, [8.0, 32.0], low, high)
+        axle_extremes(lines, AxleTrain.of([8.0, 32.0], low, high))
 
 
 def test_inverted_spacing_ranges_are_refused_on_every_path(lines) -> None:
     # Contract, Vehicles: a range 14-30 runs from low to high; 30-14 is upside down.
     with pytest.raises(ValueError, match=_exactly(RANGE_MESSAGE)):
-        axle_extremes(lines, [8.0, 32.0, 32.0], [14.0, 30.0], [14.0, 14.0])
-    train = Train(loads=(8.0, 32.0, 32.0), spacing_low=(14.0, 30.0), spacing_high=(14.0, 14.0))
+        axle_extremes(lines, AxleTrain.of([8.0, 32.0, 32.0], [14.0, 30.0], [14.0, 14.0]))
+    train = LoadCase(label="", train=AxleTrain.of((8.0, 32.0, 32.0), (14.0, 30.0), (14.0, 14.0)))
     with pytest.raises(ValueError, match=_exactly(RANGE_MESSAGE)):
         fleet_extremes_of(lines, [train])
-    case = LoadCase(
-        label="KV-T3",
-        axle_loads=train.loads,
-        spacing_low=train.spacing_low,
-        spacing_high=train.spacing_high,
-    )
+    case = LoadCase(label="KV-T3", train=train.train)
     with pytest.raises(ValueError, match=_exactly(RANGE_MESSAGE)):
         member_envelope(Member(id="KV-12 G1", spans=(30.0, 40.0)), [case])
 
@@ -364,15 +366,17 @@ def test_inverted_spacing_ranges_are_refused_on_every_path(lines) -> None:
 def test_unknown_or_empty_directions_are_refused(lines, directions: tuple) -> None:
     # Engine docstring: +1 left to right, -1 right to left; a run needs at least one.
     with pytest.raises(ValueError, match=_exactly(DIRECTIONS_MESSAGE)):
-        axle_extremes(lines, [8.0, 32.0], [14.0], directions=directions)
+        axle_extremes(lines, AxleTrain.of([8.0, 32.0], [14.0]), directions=directions)
     with pytest.raises(ValueError, match=_exactly(DIRECTIONS_MESSAGE)):
-        fleet_extremes_of(lines, [Train(loads=(8.0,))], directions=directions)
+        fleet_extremes_of(
+            lines, [LoadCase(label="", train=AxleTrain.of((8.0,)))], directions=directions
+        )
 
 
 @pytest.mark.parametrize("word", ["up", ""], ids=["unknown", "empty"])
 def test_unknown_direction_words_are_refused_clearly(word: str) -> None:
     # Contract, Settings: Directions is both, left-to-right or right-to-left.
-    case = LoadCase(label="KV-T3", axle_loads=(10.0, 30.0), spacing_low=(14.0,))
+    case = LoadCase(label="KV-T3", train=AxleTrain.of((10.0, 30.0), (14.0,)))
     with pytest.raises(ValueError, match="directions"):
         member_envelope(Member(id="KV-12 G1", spans=(30.0, 40.0)), [case], directions=word)
 
@@ -385,18 +389,18 @@ def test_more_than_max_ranges_ranged_spacings_are_refused(lines) -> None:
     high = [6.0] * (MAX_RANGES + 1)
     message = _exactly(f"at most {MAX_RANGES} spacings of one vehicle may be ranges")
     with pytest.raises(ValueError, match=message):
-        axle_extremes(lines, loads, low, high)
-    train = Train(loads=tuple(loads), spacing_low=tuple(low), spacing_high=tuple(high))
+        axle_extremes(lines, AxleTrain.of(loads, low, high))
+    train = LoadCase(label="", train=AxleTrain.of(tuple(loads), tuple(low), tuple(high)))
     with pytest.raises(ValueError, match=message):
         fleet_extremes_of(lines, [train])
     # Exactly MAX_RANGES ranges are accepted.
-    done = axle_extremes(lines, loads[:-1], low[:-1], high[:-1])
+    done = axle_extremes(lines, AxleTrain.of(loads[:-1], low[:-1], high[:-1]))
     assert np.all(done.max_value >= 0.0)
 
 
 def test_unknown_load_case_scope_is_refused() -> None:
     # envelope.SCOPES: "all" or "interior-hogging" (the HL-93 two-truck rule).
-    case = LoadCase(label="KV-T3", axle_loads=(10.0,), scope="sagging")
+    case = LoadCase(label="KV-T3", train=AxleTrain.of((10.0,)), scope="sagging")
     with pytest.raises(ValueError, match=_exactly("unknown load-case scope 'sagging'")):
         member_envelope(Member(id="KV-12 G1", spans=(30.0, 40.0)), [case])
 
@@ -406,7 +410,7 @@ def test_unknown_load_case_scope_is_refused() -> None:
 def test_non_finite_lane_load_impact_or_factor_is_refused(field: str, value: float) -> None:
     # case_effects docstring: "Raises ValueError for a malformed member or case"; a
     # load, an allowance and a multiplier are finite numbers (common practice).
-    case = LoadCase(label="KV-T3", axle_loads=(10.0, 30.0), spacing_low=(14.0,), **{field: value})
+    case = LoadCase(label="KV-T3", train=AxleTrain.of((10.0, 30.0), (14.0,)), **{field: value})
     with pytest.raises(ValueError, match=field.replace("_", " ")):
         member_envelope(Member(id="KV-12 G1", spans=(30.0, 40.0)), [case], stations_per_span=2)
 
@@ -416,7 +420,7 @@ def test_non_finite_distribution_factor_is_refused(field: str) -> None:
     # case_effects docstring: "Raises ValueError for a malformed member"; contract,
     # Members: DF moment and DF shear multiply the effects (finite; common practice).
     member = Member(id="KV-12 G1", spans=(30.0, 40.0), **{field: NAN})
-    case = LoadCase(label="KV-T3", axle_loads=(10.0, 30.0), spacing_low=(14.0,))
+    case = LoadCase(label="KV-T3", train=AxleTrain.of((10.0, 30.0), (14.0,)))
     with pytest.raises(ValueError, match="distribution factor"):
         member_envelope(member, [case], stations_per_span=2)
 

@@ -27,6 +27,7 @@ from hypothesis import strategies as st
 
 from batch.engine import AxleExtremes, InfluenceLines, axle_extremes, influence_lines
 from batch.engine.kernel import chain_extremes
+from batch.model import AxleTrain
 from batch.model.layout import POSITION_TOL, mechanism_parts
 
 #: Exact method: agreement relative to each effect's natural size.
@@ -101,17 +102,17 @@ def _assert_same(a: np.ndarray, b: np.ndarray, scale: np.ndarray | float) -> Non
 def test_superposition_of_axles(member: Member, p1: int, p2: int, gap: float) -> None:
     il = _lines(member)
     scale = il.effect_scale * (p1 + p2)
-    together = axle_extremes(il, [p1, p2], [0.0])
-    single = axle_extremes(il, [p1 + p2])
+    together = axle_extremes(il, AxleTrain.of([p1, p2], [0.0]))
+    single = axle_extremes(il, AxleTrain.of([p1 + p2]))
     _assert_same(together.max_value, single.max_value, scale)
     _assert_same(together.min_value, single.min_value, scale)
     # A weightless middle axle changes nothing.
-    train = axle_extremes(il, [p1, p2], [gap + 3.0])
-    padded = axle_extremes(il, [p1, 0.0, p2], [gap, 3.0])
+    train = axle_extremes(il, AxleTrain.of([p1, p2], [gap + 3.0]))
+    padded = axle_extremes(il, AxleTrain.of([p1, 0.0, p2], [gap, 3.0]))
     _assert_same(train.max_value, padded.max_value, scale)
     _assert_same(train.min_value, padded.min_value, scale)
     # The train's extreme is at most the sum of its axles' own extremes.
-    a, b = axle_extremes(il, [p1]), axle_extremes(il, [p2])
+    a, b = axle_extremes(il, AxleTrain.of([p1])), axle_extremes(il, AxleTrain.of([p2]))
     assert np.all(train.max_value <= a.max_value + b.max_value + REL_TOL_EXACT * scale)
     assert np.all(train.min_value >= a.min_value + b.min_value - REL_TOL_EXACT * scale)
     # The effect at the reported position is the sum of the axles' ordinates there.
@@ -150,8 +151,8 @@ def _one_sided_sums(il: InfluenceLines, e: int, loads: np.ndarray, x: np.ndarray
 def test_effects_scale_with_the_loads(member: Member, loads: list[float], factor: float) -> None:
     il = _lines(member)
     gaps = [14.0] * (len(loads) - 1)
-    base = axle_extremes(il, loads, gaps)
-    scaled = axle_extremes(il, [factor * p for p in loads], gaps)
+    base = axle_extremes(il, AxleTrain.of(loads, gaps))
+    scaled = axle_extremes(il, AxleTrain.of([factor * p for p in loads], gaps))
     scale = il.effect_scale * factor * sum(loads)
     _assert_same(scaled.max_value, factor * base.max_value, scale)
     _assert_same(scaled.min_value, factor * base.min_value, scale)
@@ -181,8 +182,8 @@ def test_mirror_symmetry(member: Member, loads: list[float], data: st.DataObject
     il, il_m = _lines(member), _lines(_mirror(member))
     scale = il.effect_scale * sum(loads)
     for direction in (1, -1):
-        ax = axle_extremes(il, loads, gaps, directions=(direction,))
-        ax_m = axle_extremes(il_m, loads, gaps, directions=(-direction,))
+        ax = axle_extremes(il, AxleTrain.of(loads, gaps), directions=(direction,))
+        ax_m = axle_extremes(il_m, AxleTrain.of(loads, gaps), directions=(-direction,))
         expected_max, expected_min = _mirrored_values(il, ax)
         _assert_same(ax_m.max_value, expected_max, scale)
         _assert_same(ax_m.min_value, expected_min, scale)
@@ -214,9 +215,9 @@ def test_scaling_of_lengths_and_stiffness(
     il = _lines(member)
     il_k = influence_lines([k * s for s in spans], ei, [k * h for h in hinges], n)
     il_c = influence_lines(spans, [c * e for e in ei], hinges, n)
-    ax = axle_extremes(il, loads, gaps)
-    ax_k = axle_extremes(il_k, loads, [k * g for g in gaps])
-    ax_c = axle_extremes(il_c, loads, gaps)
+    ax = axle_extremes(il, AxleTrain.of(loads, gaps))
+    ax_k = axle_extremes(il_k, AxleTrain.of(loads, [k * g for g in gaps]))
+    ax_c = axle_extremes(il_c, AxleTrain.of(loads, gaps))
     size = np.ones(il.n_effects)
     size[il.moment_rows] = k
     scale = il.effect_scale * size * sum(loads)

@@ -68,8 +68,8 @@ def _principal(name: str):
 def test_us_model_axles_spacings_and_weight(name):
     loads, spacings, weight = US_DEFINITIONS[name]
     part = _principal(name)
-    assert part.axle_loads == tuple(float(p) for p in loads)
-    assert tuple(zip(part.spacing_low, part.spacing_high, strict=True)) == spacings
+    assert part.train.loads == tuple(float(p) for p in loads)
+    assert tuple(zip(part.train.low, part.train.high, strict=True)) == spacings
     assert math.isclose(part.weight, weight, rel_tol=REL_TOL_EXACT)
     assert library.model(name).units == "US"
 
@@ -78,8 +78,8 @@ def test_us_model_axles_spacings_and_weight(name):
 def test_si_model_axles_spacings_and_weight(name):
     loads, spacings, weight = SI_DEFINITIONS[name]
     part = _principal(name)
-    assert part.axle_loads == tuple(float(p) for p in loads)
-    assert tuple(zip(part.spacing_low, part.spacing_high, strict=True)) == spacings
+    assert part.train.loads == tuple(float(p) for p in loads)
+    assert tuple(zip(part.train.low, part.train.high, strict=True)) == spacings
     assert math.isclose(part.weight, weight, rel_tol=REL_TOL_EXACT)
     assert library.model(name).units == "SI"
 
@@ -87,7 +87,7 @@ def test_si_model_axles_spacings_and_weight(name):
 def test_cl625_axles_are_the_published_fractions_of_w():
     # CSA S6 CL-W truck: axle loads 0.08W, 0.2W, 0.2W, 0.28W, 0.24W. [M]
     fractions = (0.08, 0.20, 0.20, 0.28, 0.24)
-    for load, f in zip(_principal("CL-625").axle_loads, fractions, strict=True):
+    for load, f in zip(_principal("CL-625").train.loads, fractions, strict=True):
         assert math.isclose(load, f * 625.0, rel_tol=REL_TOL_EXACT)
 
 
@@ -97,16 +97,16 @@ def test_hl93_parts_follow_lrfd_3_6_1():
     # trucks with 14 ft rear spacings and >= 50 ft lead-to-rear axle, with 90 % of the lane,
     # for hogging between points of contraflexure and interior reactions only.
     truck, tandem, two = library.model("HL-93").parts
-    assert (truck.axle_loads, truck.spacing_low, truck.spacing_high) == (
+    assert (truck.train.loads, truck.train.low, truck.train.high) == (
         (8.0, 32.0, 32.0),
         (14.0, 14.0),
         (14.0, 30.0),
     )
-    assert (tandem.axle_loads, tandem.spacing_low) == ((25.0, 25.0), (4.0,))
-    assert two.axle_loads == (8.0, 32.0, 32.0, 8.0, 32.0, 32.0)
-    assert two.spacing_low == (14.0, 14.0, 50.0, 14.0, 14.0)
-    assert two.spacing_high[:2] == two.spacing_high[3:] == (14.0, 14.0)
-    assert two.spacing_high[2] >= 1000.0  # open-ended: no published maximum headway
+    assert (tandem.train.loads, tandem.train.low) == ((25.0, 25.0), (4.0,))
+    assert two.train.loads == (8.0, 32.0, 32.0, 8.0, 32.0, 32.0)
+    assert two.train.low == (14.0, 14.0, 50.0, 14.0, 14.0)
+    assert two.train.high[:2] == two.train.high[3:] == (14.0, 14.0)
+    assert two.train.high[2] >= 1000.0  # open-ended: no published maximum headway
     assert (two.factor, two.scope) == (0.90, "interior-hogging")
     for p in (truck, tandem, two):
         assert p.lane_load == 0.64
@@ -120,12 +120,12 @@ def test_legal_lane_model_is_75_percent_type_3_3_with_0_2_klf():
     # 30 ft clear, for negative moment and interior reactions.
     single, double = library.model("Legal lane").parts
     type_33 = _principal("Type 3-3")
-    assert single.axle_loads == tuple(0.75 * p for p in type_33.axle_loads)
-    assert single.spacing_low == type_33.spacing_low
+    assert single.train.loads == tuple(0.75 * p for p in type_33.train.loads)
+    assert single.train.low == type_33.train.low
     assert (single.lane_load, single.factor, single.scope) == (0.2, 1.0, "all")
-    assert double.axle_loads == single.axle_loads * 2
-    assert double.spacing_low == (*type_33.spacing_low, 30.0, *type_33.spacing_low)
-    assert double.spacing_high == double.spacing_low
+    assert double.train.loads == single.train.loads * 2
+    assert double.train.low == (*type_33.train.low, 30.0, *type_33.train.low)
+    assert double.train.high == double.train.low
     assert (double.lane_load, double.scope) == (0.2, "interior-hogging")
 
 
@@ -135,16 +135,16 @@ def test_cl625_parts_and_dynamic_load_allowance():
     parts = {p.label: p for p in library.model("CL-625").parts}
     truck = parts["truck"]
     assert truck.impact == 0.25
-    assert parts["axles 1-3"].axle_loads == truck.axle_loads[:3]
+    assert parts["axles 1-3"].train.loads == truck.train.loads[:3]
     assert parts["axles 1-3"].impact == 0.40
     for i in range(1, 5):
         pair = parts[f"axles {i}-{i + 1}"]
-        assert pair.axle_loads == truck.axle_loads[i - 1 : i + 1]
-        assert pair.spacing_low == truck.spacing_low[i - 1 : i]
+        assert pair.train.loads == truck.train.loads[i - 1 : i + 1]
+        assert pair.train.low == truck.train.low[i - 1 : i]
         assert pair.impact == 0.40
-    assert (parts["axle 4"].axle_loads, parts["axle 4"].impact) == ((175.0,), 0.50)
+    assert (parts["axle 4"].train.loads, parts["axle 4"].impact) == ((175.0,), 0.50)
     lane = parts["lane"]
-    for a, b in zip(lane.axle_loads, truck.axle_loads, strict=True):
+    for a, b in zip(lane.train.loads, truck.train.loads, strict=True):
         assert math.isclose(a, 0.8 * b, rel_tol=REL_TOL_EXACT)
     assert (lane.lane_load, lane.impact) == (9.0, 0.0)
 
@@ -245,8 +245,8 @@ def test_conversion_factors_are_the_exact_definitions():
 
 def test_hl93_converted_to_si_is_exact():
     (truck, *_) = library.model_cases("HL-93", "SI", 0.33)
-    assert math.isclose(truck.axle_loads[1], 32 * 4.4482216152605, rel_tol=REL_TOL_EXACT)
-    assert math.isclose(truck.spacing_high[1], 30 * 0.3048, rel_tol=REL_TOL_EXACT)
+    assert math.isclose(truck.train.loads[1], 32 * 4.4482216152605, rel_tol=REL_TOL_EXACT)
+    assert math.isclose(truck.train.high[1], 30 * 0.3048, rel_tol=REL_TOL_EXACT)
     assert math.isclose(truck.lane_load, 0.64 * 4.4482216152605 / 0.3048, rel_tol=REL_TOL_EXACT)
 
 
@@ -292,12 +292,12 @@ def test_every_part_gives_the_statics_end_shear_on_a_long_simple_span(name):
     for item, case in zip(m.parts, m.cases(m.units, 0.33), strict=True):
         if item.scope != "all":
             continue
-        offsets = [0.0, *itertools.accumulate(item.spacing_low)]
+        offsets = [0.0, *itertools.accumulate(item.train.low)]
         axles = max(
-            sum(p * (1 - d / span) for p, d in zip(item.axle_loads, offsets, strict=True)),
+            sum(p * (1 - d / span) for p, d in zip(item.train.loads, offsets, strict=True)),
             sum(
                 p * (1 - (offsets[-1] - d) / span)
-                for p, d in zip(item.axle_loads, offsets, strict=True)
+                for p, d in zip(item.train.loads, offsets, strict=True)
             ),
         )
         expected = case.factor * ((1 + case.impact) * axles + case.lane_load * span / 2)

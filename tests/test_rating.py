@@ -30,7 +30,7 @@ from hypothesis import strategies as st
 from batch.engine import case_effects, influence_lines
 from batch.loads.cases import LoadCase
 from batch.loads.factors import MIN_CAPACITY_FACTOR
-from batch.model import Capacity, Member
+from batch.model import AxleTrain, Capacity, Member
 from batch.model.layout import station_row
 from batch.rating.lrfr import (
     RATED_EFFECTS,
@@ -106,7 +106,7 @@ def _simple_member(**kw: float) -> Member:
 
 
 def _axle(vehicle: int = 0, load: float = P) -> LoadCase:
-    return LoadCase(label=f"KV-A{vehicle}", axle_loads=(load,), impact=IM, vehicle=vehicle)
+    return LoadCase(label=f"KV-A{vehicle}", train=AxleTrain.of((load,)), impact=IM, vehicle=vehicle)
 
 
 def _rate(member: Member, capacities: list[Capacity], cases: list[LoadCase], categories):
@@ -241,8 +241,8 @@ def test_rf_is_one_when_the_capacity_equals_the_factored_demand(dc, dw, live, ga
 )
 def test_rf_scales_inversely_with_the_distribution_factor(df, k, station):
     caps = [Capacity(member="KV-0330 G3", span=1, station=station, resistance_m_pos=4000.0)]
-    truck = [LoadCase(label="KV-T", axle_loads=(8.0, 32.0, 32.0), spacing_low=(14.0, 14.0),
-                      impact=IM)]  # fmt: skip
+    hs = AxleTrain.of((8.0, 32.0, 32.0), (14.0, 14.0))
+    truck = [LoadCase(label="KV-T", train=hs, impact=IM)]
     base, _ = _rate(_simple_member(df_moment=df), caps, truck, ["design"])
     scaled, _ = _rate(_simple_member(df_moment=k * df), caps, truck, ["design"])
     assert scaled.rf[0] == pytest.approx(base.rf[0] / k, rel=REL_TOL_EXACT)
@@ -303,8 +303,8 @@ def test_flags():
 )
 def test_screening_a_vehicle_against_itself_gives_one(spans, loads, floor):
     member = Member(id="KV-S", spans=tuple(spans), df_moment=0.6, df_shear=0.7)
-    case = LoadCase(label="KV-V", axle_loads=tuple(loads), spacing_low=(5.0,) * (len(loads) - 1),
-                    impact=IM)  # fmt: skip
+    train = AxleTrain.of(loads, (5.0,) * (len(loads) - 1))
+    case = LoadCase(label="KV-V", train=train, impact=IM)
     effects = case_effects(member, [case], stations_per_span=4)
     live = vehicle_effects(effects, [case], 1)
     result = screen_member(effects.lines, live, live.max_value[0], live.min_value[0], floor)
@@ -320,8 +320,8 @@ def test_screening_ratio_by_hand():
     # envelopes and that the midspan ratio is below it.
     member = _simple_member()
     cases = [
-        LoadCase(label="KV-REF", axle_loads=(P,), vehicle=0),
-        LoadCase(label="KV-2", axle_loads=(P, P), spacing_low=(14.0,), vehicle=1),
+        LoadCase(label="KV-REF", train=AxleTrain.of((P,)), vehicle=0),
+        LoadCase(label="KV-2", train=AxleTrain.of((P, P), (14.0,)), vehicle=1),
     ]
     effects = case_effects(member, cases, stations_per_span=10)
     live = vehicle_effects(effects, cases, 2)
@@ -349,8 +349,8 @@ def test_screening_floor_leaves_out_small_reference_effects():
     # largest; a floor of 0.5 leaves those stations out, so the largest ratio cannot grow.
     member = Member(id="KV-C", spans=(50.0, 50.0))
     cases = [
-        LoadCase(label="KV-REF", axle_loads=(P,), vehicle=0),
-        LoadCase(label="KV-LONG", axle_loads=(P,) * 4, spacing_low=(20.0,) * 3, vehicle=1),
+        LoadCase(label="KV-REF", train=AxleTrain.of((P,)), vehicle=0),
+        LoadCase(label="KV-LONG", train=AxleTrain.of((P,) * 4, (20.0,) * 3), vehicle=1),
     ]
     effects = case_effects(member, cases, stations_per_span=10)
     live = vehicle_effects(effects, cases, 2)

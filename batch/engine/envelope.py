@@ -29,7 +29,6 @@ from batch.engine.moving import (
     LEFT_TO_RIGHT,
     RIGHT_TO_LEFT,
     FleetExtremes,
-    Train,
     fleet_extremes_of,
 )
 from batch.loads.cases import LoadCase
@@ -164,23 +163,11 @@ def case_effects(
     n_eff = il.n_effects
     df = np.full(n_eff, member.df_shear)
     df[il.moment_rows] = member.df_moment
-    fleet = fleet_extremes_of(
-        il,
-        [
-            Train(
-                loads=c.axle_loads,
-                spacing_low=c.spacing_low,
-                spacing_high=c.spacing_high or c.spacing_low,
-                drop_adverse_axles=c.drop_adverse_axles,
-            )
-            for c in cases
-        ],
-        DIRECTION_CODES[directions],
-    )
+    fleet = fleet_extremes_of(il, cases, DIRECTION_CODES[directions])
     impact = np.array([c.impact for c in cases])[:, None]
     lane = np.array([c.lane_load for c in cases])[:, None]
     scale = np.array([c.factor for c in cases])[:, None] * df[None, :]
-    total = np.array([sum(c.axle_loads) for c in cases])[:, None]
+    total = np.array([c.train.weight for c in cases])[:, None]
     size = il.effect_scale[None, :] * (total * (1 + impact) + lane * il.length)
     scopes = {scope: _scoped(il, scope) for scope in {c.scope for c in cases}}
     applies = np.array([scopes[c.scope] for c in cases], dtype=bool).reshape(-1, n_eff, 2)

@@ -25,6 +25,7 @@ from __future__ import annotations
 
 import functools
 import itertools
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -32,7 +33,8 @@ from numpy.typing import NDArray
 
 from batch.engine.influence import InfluenceLines
 from batch.engine.kernel import SweepPlan, chain_extremes, chain_fleet, fleet_extremes
-from batch.model.case import MAX_RANGES
+from batch.loads.cases import LoadCase
+from batch.model import MAX_RANGES, AxleTrain
 from batch.model.layout import POSITION_TOL
 
 __all__ = [
@@ -40,7 +42,6 @@ __all__ = [
     "RIGHT_TO_LEFT",
     "AxleExtremes",
     "FleetExtremes",
-    "Train",
     "axle_extremes",
     "fleet_extremes_of",
 ]
@@ -101,11 +102,11 @@ class _Combo:
 def _spacings(
     length: float,
     n_axles: int,
-    spacing_low: NDArray[np.float64] | list[float] | tuple[float, ...],
-    spacing_high: NDArray[np.float64] | list[float] | tuple[float, ...] | None,
+    spacing_low: tuple[float, ...],
+    spacing_high: tuple[float, ...],
 ) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
     lo = np.asarray(spacing_low, dtype=float).reshape(-1)
-    hi = lo if spacing_high is None else np.asarray(spacing_high, dtype=float).reshape(-1)
+    hi = np.asarray(spacing_high, dtype=float).reshape(-1)
     if n_axles == 0 or lo.size != n_axles - 1 or hi.size != lo.size:
         raise ValueError("give one or more axle loads and one spacing per gap between axles")
     if not (np.all(np.isfinite(lo)) and np.all(np.isfinite(hi))) or np.any(lo < 0):
@@ -148,15 +149,14 @@ def _prepared(
     return _Prepared(loads=p, lo=lo, hi=hi, combos=_combos(lo, hi))
 
 
-def _prepare(il: InfluenceLines, train: Train) -> _Prepared:
-    high = train.spacing_high or train.spacing_low
+def _prepare(il: InfluenceLines, train: AxleTrain) -> _Prepared:
+    low, high = train.low, train.high
     if max(high, default=0.0) > il.length:
         # Cap ranges at the member length (see _spacings) without hiding an inverted range.
         high = tuple(
-            max(lo, il.length) if hi > il.length else hi
-            for lo, hi in zip(train.spacing_low, high, strict=False)
+            max(lo, il.length) if hi > il.length else hi for lo, hi in zip(low, high, strict=True)
         )
-    return _prepared(tuple(train.loads), tuple(train.spacing_low), tuple(high))
+    return _prepared(train.loads, low, high)
 
 
 def _combos(lo: NDArray[np.float64], hi: NDArray[np.float64]) -> list[_Combo]:
@@ -219,17 +219,14 @@ def _chain(
 
 def axle_extremes(
     il: InfluenceLines,
-    loads: NDArray[np.float64] | list[float] | tuple[float, ...],
-    spacing_low: NDArray[np.float64] | list[float] | tuple[float, ...] = (),
-    spacing_high: NDArray[np.float64] | list[float] | tuple[float, ...] | None = None,
+    train: AxleTrain,
     directions: tuple[int, ...] = (LEFT_TO_RIGHT, RIGHT_TO_LEFT),
     drop_adverse_axles: bool = False,
 ) -> AxleExtremes:
     """Exact largest and smallest effects of an axle train on every influence line.
 
-    ``loads`` front axle first (force, downward positive); ``spacing_low`` and
-    ``spacing_high`` the bounds of each gap between consecutive axles (equal for
-    a fixed spacing; ``spacing_high`` defaults to ``spacing_low``). Axles off the
+    ``train`` gives the axle loads, front axle first (force, downward positive),
+    and the bounds of each gap between consecutive axles. Axles off the
     member carry nothing. Effects are in the units of the influence lines times
     the load unit (no dynamic allowance, lane load or factors here). With
     ``drop_adverse_axles`` an axle standing where it would lessen the effect is
@@ -237,10 +234,10 @@ def axle_extremes(
     for the maximum and its negative part for the minimum. Also reports the
     spacing used for each gap.
     """
-    p = np.ascontiguousarray(loads, dtype=float).reshape(-1)
+    p = np.ascontiguousarray(train.loads, dtype=float).reshape(-1)
     _check_loads(p)
     _check_directions(directions)
-    lo, hi = _spacings(il.length, p.size, spacing_low, spacing_high)
+    lo, hi = _spacings(il.length, p.size, train.low, train.high)
     plans = _plans(il, drop_adverse_axles)
     tol = POSITION_TOL * il.length
     n_eff = il.n_effects
@@ -278,22 +275,15 @@ def axle_extremes(
     )
 
 
-@dataclass(frozen=True, kw_only=True)
-class Train:
-    """An axle train as the sweep needs it (see :func:`axle_extremes` for units)."""
-
-    loads: tuple[float, ...]
-    spacing_low: tuple[float, ...] = ()
-    spacing_high: tuple[float, ...] = ()
-    drop_adverse_axles: bool = False
-
-
 def fleet_extremes_of(
     il: InfluenceLines,
-    trains: list[Train] | tuple[Train, ...],
+    cases: Sequence[LoadCase],
     directions: tuple[int, ...] = (LEFT_TO_RIGHT, RIGHT_TO_LEFT),
 ) -> FleetExtremes:
-    """Exact extremes of every train on every influence line of one member.
+    """Exact extremes of every load case's axle train on every influence line of one member.
+
+    Only the trains (and whether a case drops adverse axles) are used here; lane
+    loads, the dynamic allowance and factors are applied by the caller.
 
     Every rigid train, and every rigid way of fixing a ranged train's spacings
     at the ends of their ranges, is swept in one compiled call per partition;
@@ -302,7 +292,7 @@ def fleet_extremes_of(
     """
     _check_directions(directions)
     n_eff = il.n_effects
-    shape = (len(trains), n_eff)
+    shape = (len(cases), n_eff)
     out = FleetExtremes(
         max_value=np.zeros(shape),
         max_position=np.full(shape, np.nan),
@@ -322,8 +312,8 @@ def fleet_extremes_of(
     )
     rigid: dict[bool, list[tuple[int, NDArray[np.float64], NDArray[np.float64]]]] = {}
     chains: dict[bool, list[_Link]] = {}
-    for row, t in enumerate(trains):
-        ready = _prepare(il, t)
+    for row, t in enumerate(cases):
+        ready = _prepare(il, t.train)
         for combo in ready.combos:
             if combo.free:
                 lo, hi = combo.gap_bounds(ready.lo, ready.hi)

@@ -11,6 +11,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from batch.model import AxleTrain
+
 __all__ = ["SCOPES", "LoadCase"]
 
 #: Where a load case applies. ``interior-hogging`` is the HL-93 rule for two trucks:
@@ -22,8 +24,7 @@ SCOPES = ("all", "interior-hogging")
 class LoadCase:
     """One train of axles (and lane load) moved across the member.
 
-    ``axle_loads`` front axle first (force); ``spacing_low``/``spacing_high``
-    bound each gap (length); ``lane_load`` force per length; ``impact`` the
+    ``train`` is the axle train (force, length); ``lane_load`` force per length; ``impact`` the
     dynamic load allowance on axles (fraction); ``factor`` multiplies all.
     ``scope`` limits the effects the case may govern (see :data:`SCOPES`);
     ``drop_adverse_axles`` leaves out axles that would lessen an effect
@@ -31,9 +32,7 @@ class LoadCase:
     """
 
     label: str
-    axle_loads: tuple[float, ...]
-    spacing_low: tuple[float, ...] = ()
-    spacing_high: tuple[float, ...] = ()
+    train: AxleTrain
     lane_load: float = 0.0
     impact: float = 0.0
     factor: float = 1.0

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import dataclasses
+
 from batch.loads import library
 from batch.loads.cases import LoadCase
 from batch.model import Settings, Vehicle
@@ -13,18 +15,12 @@ def _vehicle_cases(vehicle: Vehicle, index: int, settings: Settings) -> list[Loa
     if vehicle.library:
         parts = library.model_cases(vehicle.library, settings.units, settings.impact)
         return [
-            LoadCase(
+            dataclasses.replace(
+                part,
                 label=part.label
                 if part.label.startswith(vehicle.id)
                 else f"{vehicle.id}: {part.label}",
-                axle_loads=part.axle_loads,
-                spacing_low=part.spacing_low,
-                spacing_high=part.spacing_high,
-                lane_load=part.lane_load,
-                impact=part.impact,
                 factor=part.factor * vehicle.factor,
-                scope=part.scope,
-                drop_adverse_axles=part.drop_adverse_axles,
                 vehicle=index,
             )
             for part in parts
@@ -32,9 +28,7 @@ def _vehicle_cases(vehicle: Vehicle, index: int, settings: Settings) -> list[Loa
     return [
         LoadCase(
             label=vehicle.id,
-            axle_loads=vehicle.axle_loads,
-            spacing_low=tuple(s.low for s in vehicle.spacings),
-            spacing_high=tuple(s.high for s in vehicle.spacings),
+            train=vehicle.train,
             lane_load=vehicle.lane_load,
             impact=settings.impact,
             factor=vehicle.factor,

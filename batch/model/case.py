@@ -19,6 +19,8 @@ conventions of the workbook contract: sagging moment positive, shear V = dM/dx
 
 from __future__ import annotations
 
+import math
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 from typing import Literal, get_args
 
@@ -327,6 +329,60 @@ class Spacing:
 
 
 @dataclass(frozen=True, kw_only=True)
+class AxleTrain:
+    """A train of axles, front axle first: the one shape of an axle train in spanfleet.
+
+    ``loads`` are axle loads (force unit, downward positive); ``spacings`` has
+    one :class:`Spacing` per gap between consecutive axles (length unit), a
+    range where the worst spacing within it is to be found. A Vehicles row, a
+    part of a library load model and an engine load case all hold one.
+    """
+
+    loads: tuple[float, ...]
+    spacings: tuple[Spacing, ...] = ()
+
+    @classmethod
+    def of(
+        cls,
+        loads: Sequence[float],
+        low: Sequence[float] = (),
+        high: Sequence[float] | None = None,
+    ) -> AxleTrain:
+        """The train of ``loads``, gaps from ``low`` to ``high`` (fixed when ``high`` is None)."""
+        high = low if high is None else high
+        return cls(
+            loads=tuple(float(p) for p in loads),
+            spacings=tuple(
+                Spacing(low=float(a), high=float(b)) for a, b in zip(low, high, strict=True)
+            ),
+        )
+
+    @property
+    def low(self) -> tuple[float, ...]:
+        """The lower end of every gap."""
+        return tuple(s.low for s in self.spacings)
+
+    @property
+    def high(self) -> tuple[float, ...]:
+        """The upper end of every gap (equal to the lower end for a fixed spacing)."""
+        return tuple(s.high for s in self.spacings)
+
+    @property
+    def weight(self) -> float:
+        """The sum of the axle loads."""
+        return math.fsum(self.loads)
+
+    def scaled(self, force: float, length: float) -> AxleTrain:
+        """The same train with loads times ``force`` and spacings times ``length``."""
+        return AxleTrain(
+            loads=tuple(p * force for p in self.loads),
+            spacings=tuple(
+                Spacing(low=s.low * length, high=s.high * length) for s in self.spacings
+            ),
+        )
+
+
+@dataclass(frozen=True, kw_only=True)
 class Vehicle:
     """One row of the Vehicles sheet: an axle train, or a library model by name.
 
@@ -401,6 +457,11 @@ class Vehicle:
         meaning="Free text.",
         example="EXAMPLE, replace or delete: KVHA 3-axle permit truck",
     )
+
+    @property
+    def train(self) -> AxleTrain:
+        """The row's axles as a train (empty for a row that names a library model)."""
+        return AxleTrain(loads=self.axle_loads, spacings=self.spacings)
 
 
 @dataclass(frozen=True, kw_only=True)

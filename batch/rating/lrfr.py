@@ -57,7 +57,6 @@ that kind on the member.
 
 from __future__ import annotations
 
-import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 
@@ -327,7 +326,7 @@ def gross_weight(vehicle: Vehicle, units: UnitSystem) -> float:
     """
     if vehicle.library:
         return library.model(vehicle.library).weight(units) * vehicle.factor
-    return math.fsum(vehicle.axle_loads) * vehicle.factor
+    return vehicle.train.weight * vehicle.factor
 
 
 def weight_in_tons(force: float, units: UnitSystem) -> float:

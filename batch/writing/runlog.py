@@ -115,7 +115,7 @@ def _rows(
     yield "Load cases run", None, _SECTION
     for lc in result.load_cases:
         vehicle = result.case.vehicles[lc.vehicle].id
-        axles = ", ".join(f"{p:g}" for p in lc.axle_loads)
+        axles = ", ".join(f"{p:g}" for p in lc.train.loads)
         text = (
             f"vehicle row {vehicle}; axles {axles}; lane load {lc.lane_load:g}; "
             f"dynamic allowance {lc.impact:g}; factor {lc.factor:g}"

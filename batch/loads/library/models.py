@@ -16,7 +16,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from batch.loads.cases import SCOPES, LoadCase
-from batch.model import CATEGORIES, UNIT_SYSTEMS, Category
+from batch.model import CATEGORIES, UNIT_SYSTEMS, AxleTrain, Category
 from batch.model.units import UnitSystem, conversion
 
 __all__ = ["UNBOUNDED", "LoadModel", "Part", "part"]
@@ -32,9 +32,8 @@ class Part:
     """One part of a load model, in the model's own units.
 
     ``label`` names the part in results (shown after the model name, in
-    parentheses; empty for a model with one part). ``axle_loads`` kip or kN,
-    front axle first; ``spacing_low``/``spacing_high`` ft or m per gap, a range
-    when low < high; ``lane_load`` kip/ft or kN/m on the adverse parts, with no
+    parentheses; empty for a model with one part). ``train`` is in kip or kN
+    and ft or m, front axle first; ``lane_load`` kip/ft or kN/m on the adverse parts, with no
     dynamic allowance. ``impact`` is the dynamic load allowance the standard
     fixes for this part, or ``None`` to use the run's. ``factor`` multiplies
     axles and lane alike. ``drop_adverse_axles`` leaves out axles that would
@@ -42,9 +41,7 @@ class Part:
     """
 
     label: str
-    axle_loads: tuple[float, ...]
-    spacing_low: tuple[float, ...]
-    spacing_high: tuple[float, ...]
+    train: AxleTrain
     lane_load: float = 0.0
     impact: float | None = None
     factor: float = 1.0
@@ -52,14 +49,12 @@ class Part:
     drop_adverse_axles: bool = False
 
     def __post_init__(self) -> None:
-        if not self.axle_loads or any(p <= 0 for p in self.axle_loads):
+        loads, spacings = self.train.loads, self.train.spacings
+        if not loads or any(p <= 0 for p in loads):
             raise ValueError(f"part {self.label!r}: give one or more axle loads above zero")
-        gaps = len(self.axle_loads) - 1
-        if len(self.spacing_low) != gaps or len(self.spacing_high) != gaps:
+        if len(spacings) != len(loads) - 1:
             raise ValueError(f"part {self.label!r}: give one spacing per gap between axles")
-        if any(
-            lo <= 0 or hi < lo for lo, hi in zip(self.spacing_low, self.spacing_high, strict=True)
-        ):
+        if any(s.low <= 0 or s.high < s.low for s in spacings):
             raise ValueError(f"part {self.label!r}: spacings must be above zero, low <= high")
         if self.scope not in SCOPES:
             raise ValueError(f"part {self.label!r}: scope must be one of {SCOPES}")
@@ -67,7 +62,7 @@ class Part:
     @property
     def weight(self) -> float:
         """Sum of the axle loads (kip or kN), before ``factor``."""
-        return float(sum(self.axle_loads))
+        return self.train.weight
 
 
 def part(
@@ -84,9 +79,11 @@ def part(
     """Build a :class:`Part`; a spacing is a number, or ``(low, high)`` for a range."""
     return Part(
         label=label,
-        axle_loads=tuple(float(p) for p in axle_loads),
-        spacing_low=tuple(float(s[0]) if isinstance(s, tuple) else float(s) for s in spacings),
-        spacing_high=tuple(float(s[1]) if isinstance(s, tuple) else float(s) for s in spacings),
+        train=AxleTrain.of(
+            axle_loads,
+            [s[0] if isinstance(s, tuple) else s for s in spacings],
+            [s[1] if isinstance(s, tuple) else s for s in spacings],
+        ),
         lane_load=lane_load,
         impact=impact,
         factor=factor,
@@ -122,7 +119,7 @@ class LoadModel:
     @property
     def axles(self) -> int:
         """Axle count of the model's first (principal) part."""
-        return len(self.parts[0].axle_loads)
+        return len(self.parts[0].train.loads)
 
     def weight(self, units: UnitSystem) -> float:
         """Total axle load of the first part, in kip ("US") or kN ("SI")."""
@@ -142,9 +139,7 @@ class LoadModel:
         return [
             LoadCase(
                 label=self.label(item),
-                axle_loads=tuple(p * c.force for p in item.axle_loads),
-                spacing_low=tuple(s * c.length for s in item.spacing_low),
-                spacing_high=tuple(s * c.length for s in item.spacing_high),
+                train=item.train.scaled(c.force, c.length),
                 lane_load=item.lane_load * c.line_load,
                 impact=impact if item.impact is None else item.impact,
                 factor=item.factor,
