@@ -21,7 +21,7 @@ def synthetic_case(
 ) -> Case:
     """A seeded inventory of 1-4 span members (unequal spans and EI, some hinges) and fleet."""
     rng = np.random.default_rng(seed)
-    members = []
+    members: list[Member] = []
     while len(members) < n_members:
         n_spans = int(rng.integers(1, 5))
         spans = tuple(float(round(v, 1)) for v in rng.uniform(20.0, 160.0, n_spans))

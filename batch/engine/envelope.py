@@ -155,8 +155,9 @@ def case_effects(
     if not np.all(np.isfinite([member.df_moment, member.df_shear])):
         raise ValueError(f"member {member.id!r}: distribution factors must be finite numbers")
     for c in cases:
-        for name, value in (("lane load", c.lane_load), ("impact", c.impact), ("factor", c.factor)):
-            if not np.isfinite(value):
+        numbers = (("lane load", c.lane_load), ("impact", c.impact), ("factor", c.factor))
+        for name, number in numbers:
+            if not np.isfinite(number):
                 raise ValueError(f"load case {c.label!r}: {name} must be a finite number")
     il = il if il is not None else member_influence(member, stations_per_span)
     positive, negative, _ = _uniform_effects(il)

@@ -288,7 +288,8 @@ def _station_positions(
 def _merge(points: NDArray[np.float64], tol: float) -> NDArray[np.float64]:
     p = np.sort(points)
     keep = np.concatenate([[True], np.diff(p) > tol])
-    return p[keep]
+    merged: NDArray[np.float64] = p[keep]
+    return merged
 
 
 def _assemble(

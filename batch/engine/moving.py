@@ -344,7 +344,7 @@ def fleet_extremes_of(
             groups[j, : combo.group_start.size] = combo.group_start
             gap_lo[j, : lo.size] = lo
             gap_hi[j, : hi.size] = hi
-        args = (
+        chain_args = (
             np.concatenate([p for _, p, _, _, _ in links]),
             np.concatenate([c.offsets for _, _, c, _, _ in links]),
             np.cumsum([0] + [p.size for _, p, _, _, _ in links], dtype=np.int64),
@@ -356,7 +356,7 @@ def fleet_extremes_of(
             tol,
         )
         for plan, keep in _kept(il, drop):
-            chain_fleet(plan, *args, keep, kept)
+            chain_fleet(plan, *chain_args, keep, kept)
     return out
 
 

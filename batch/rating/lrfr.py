@@ -199,7 +199,8 @@ def factored_dead_load(
     dc_a, dw_a = np.asarray(dc, dtype=float), np.asarray(dw, dtype=float)
     gamma_dc = np.where(dc_a >= 0, factors.dc, factors.dc_relieving)
     gamma_dw = np.where(dw_a >= 0, factors.dw, factors.dw_relieving)
-    return gamma_dc * dc_a + gamma_dw * dw_a
+    factored: FloatArray = gamma_dc * dc_a + gamma_dw * dw_a
+    return factored
 
 
 def _ratio(numerator: FloatArray, demand: FloatArray) -> FloatArray:

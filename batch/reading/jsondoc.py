@@ -29,7 +29,7 @@ class _NonFinite:
         self.text = text
 
 
-class _Object(dict):  # type: ignore[type-arg]
+class _Object(dict[str, object]):
     """A parsed JSON object that remembers the keys it was given twice."""
 
     duplicates: tuple[str, ...] = ()

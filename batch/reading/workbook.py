@@ -253,7 +253,9 @@ class _Builder:
         header_text = dict(raw.header)
         for column in spec.columns:
             ref = match.cells.get(column.key)
-            why = ref and units and unit_in_header(header_text[ref], column, units)
+            if ref is None or units is None:
+                continue
+            why = unit_in_header(header_text[ref], column, units)
             if why:
                 self.add("header-unit-mismatch", sheet, ref, why, value=header_text[ref])
         if raw.too_many_rows:

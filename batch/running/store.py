@@ -31,7 +31,7 @@ import sqlite3
 from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass
 from pathlib import Path
-from typing import TypeVar, overload
+from typing import Any, TypeVar, overload
 
 import numpy as np
 from numpy.typing import NDArray
@@ -128,7 +128,7 @@ def _unpack_assessment(blob: bytes | None) -> MemberAssessment:
     if blob is None:
         return MemberAssessment()
     with np.load(io.BytesIO(blob), allow_pickle=False) as data:
-        parts: dict[str, dict[str, NDArray[np.generic]]] = {}
+        parts: dict[str, dict[str, Any]] = {}
         for key in data.files:
             name, field = key.split(".")
             parts.setdefault(name, {})[field] = data[key]
@@ -169,10 +169,12 @@ def _pack(env: MemberEnvelope) -> bytes:
     return b"".join(parts)
 
 
-def _unpack(member: str, blob: bytes, labels: tuple[str, ...]) -> MemberEnvelope:
+def _unpack(member: str, blob: bytes | None, labels: tuple[str, ...]) -> MemberEnvelope:
+    if blob is None:
+        raise ValueError(f"member {member!r} has no stored results")
     n_stations, n_supports = (int(n) for n in np.frombuffer(blob, "<i8", 2))
     offset = 16
-    arrays: dict[tuple[str, str], NDArray[np.generic]] = {}
+    arrays: dict[tuple[str, str], Any] = {}
     for name, field, kind in _ARRAYS:
         count = n_supports if name.startswith("r_") or field == "support_x" else n_stations
         dtype = np.dtype(kind).newbyteorder("<")
@@ -182,19 +184,20 @@ def _unpack(member: str, blob: bytes, labels: tuple[str, ...]) -> MemberEnvelope
         offset += count * dtype.itemsize
     if offset != len(blob):
         raise ValueError(f"member {member!r}'s stored results do not have the expected size")
+    extremes: dict[str, Any] = {
+        name: Extremes(
+            value=arrays[name, "value"],
+            case=arrays[name, "case"],
+            position=arrays[name, "position"],
+            direction=arrays[name, "direction"],
+        )
+        for name in _EXTREMES
+    }
     return MemberEnvelope(
         member=member,
         labels=labels,
         **{field: arrays["", field] for _, field, _ in _ARRAYS[:4]},
-        **{
-            name: Extremes(
-                value=arrays[name, "value"],
-                case=arrays[name, "case"],
-                position=arrays[name, "position"],
-                direction=arrays[name, "direction"],
-            )
-            for name in _EXTREMES
-        },
+        **extremes,
     )
 
 

@@ -43,8 +43,9 @@ def entry(path: DocPath) -> str:
     """``"Spans"``, or ``"entry 2 of Spans"`` for the second item of a list field."""
     name = label(path)
     depth = 3 if path and path[0] in _TABLES else 2
-    if len(path) > depth and isinstance(path[depth], int):
-        return f"entry {path[depth] + 1} of {name}"
+    index = path[depth] if len(path) > depth else None
+    if isinstance(index, int):
+        return f"entry {index + 1} of {name}"
     return name
 
 

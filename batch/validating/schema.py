@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import difflib
 import functools
+from typing import Any
 
 from jsonschema import Draft202012Validator
 from jsonschema.exceptions import ValidationError, best_match
@@ -50,6 +51,22 @@ def _relevant(error: ValidationError) -> ValidationError:
     return best_match(fitting) if fitting else error
 
 
+def _rule(error: ValidationError) -> Any:
+    """The value of the schema keyword that failed (a bound, a list of keys, ...)."""
+    return error.validator_value
+
+
+def _seen(error: ValidationError) -> Any:
+    """The document's value that failed."""
+    return error.instance
+
+
+def _properties(error: ValidationError) -> dict[str, Any]:
+    """The properties the failing object's schema declares."""
+    schema = error.schema
+    return dict(schema.get("properties", {})) if isinstance(schema, dict) else {}
+
+
 #: (path, code, message) of one problem found in the document.
 Worded = tuple[DocPath, str, str]
 
@@ -60,29 +77,29 @@ def _one_of(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
         return _worded(best)
     types = sorted({_TYPE_WORDS.get(str(c.validator_value), "") for c in error.context or ()})
     words = " or ".join(types)
-    return [(path, "wrong-type", f"{what}: {shown(error.instance)} is not {words}; give {words}")]
+    return [(path, "wrong-type", f"{what}: {shown(_seen(error))} is not {words}; give {words}")]
 
 
 def _required(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
     out = []
-    for name in error.validator_value:
-        if name in error.instance:
+    for name in _rule(error):
+        if name in _seen(error):
             continue
         field = (*path, name)
         if declaration(field) is not None and len(field) <= 3:
             message = f"{label(field)} is required; fill it in{_example(field)}"
         else:
             message = f"{what} needs {name!r}; add it"
-            if {"low", "high"} & set(error.validator_value):
+            if {"low", "high"} & set(_rule(error)):
                 message += ', writing a range as {"low": 14, "high": 30}'
         out.append((field, "missing-value", message))
     return out
 
 
 def _type(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
-    rule, value = error.validator_value, error.instance
+    rule, value = _rule(error), _seen(error)
     expected = rule if isinstance(rule, list) else [rule]
-    words = " or ".join(_TYPE_WORDS.get(t, t) for t in expected)
+    words = " or ".join(_TYPE_WORDS.get(str(t), str(t)) for t in expected)
     code = (
         "not-a-whole-number"
         if expected == ["integer"] and _is_number(value)
@@ -95,27 +112,27 @@ def _type(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
 
 
 def _above(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
-    rule = error.validator_value
-    message = f"{what}: {shown(error.instance)} is not greater than {shown(rule)}; "
+    rule = _rule(error)
+    message = f"{what}: {shown(_seen(error))} is not greater than {shown(rule)}; "
     message += "give a value greater than zero" if rule == 0 else f"give more than {rule}"
     return [(path, "too-small", message)]
 
 
 def _minimum(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
-    rule = shown(error.validator_value)
-    message = f"{what}: {shown(error.instance)} is less than {rule}; give {rule} or more"
+    rule = shown(_rule(error))
+    message = f"{what}: {shown(_seen(error))} is less than {rule}; give {rule} or more"
     return [(path, "too-small", message)]
 
 
 def _maximum(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
     limit = "at most" if error.validator == "maximum" else "less than"
-    message = f"{what}: {shown(error.instance)} is too large; give {limit} "
-    return [(path, "too-large", message + shown(error.validator_value))]
+    message = f"{what}: {shown(_seen(error))} is too large; give {limit} "
+    return [(path, "too-large", message + shown(_rule(error)))]
 
 
 def _enum(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
-    choices = ", ".join(str(c) for c in error.validator_value)
-    message = f"{what}: {shown(error.instance)} is not one of the choices; choose one of: {choices}"
+    choices = ", ".join(str(c) for c in _rule(error))
+    message = f"{what}: {shown(_seen(error))} is not one of the choices; choose one of: {choices}"
     return [(path, "not-a-choice", message)]
 
 
@@ -131,9 +148,9 @@ def _pattern(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
 
 
 def _unknown_keys(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
-    known = sorted(error.schema.get("properties", {}))
+    known = sorted(_properties(error))
     out = []
-    for name in sorted(set(error.instance) - set(known)):
+    for name in sorted(set(_seen(error)) - set(known)):
         close = difflib.get_close_matches(str(name), known, n=1)
         hint = f"did you mean {close[0]!r}?" if close else f"the keys are: {', '.join(known)}"
         message = f"{name!r} is not a key spanfleet reads here; remove it or correct it ({hint})"
@@ -181,7 +198,7 @@ def schema_problems(document: object, locator: Locator) -> list[tuple[DocPath, P
             value = (
                 None
                 if error.validator in ("required", "additionalProperties")
-                else (shown(error.instance))
+                else (shown(_seen(error)))
             )
             found.append(
                 (path, Problem(code=code, sheet=sheet, cell=cell, message=message, value=value))

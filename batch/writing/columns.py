@@ -219,6 +219,7 @@ def _governing_columns(effect: Effect) -> tuple[ResultColumn, ...]:
 
         return values
 
+    where: tuple[ResultColumn, ...]
     if effect.rows == "station":
         where = (
             ResultColumn(

@@ -22,7 +22,7 @@ from pathlib import Path
 from typing import BinaryIO
 
 from openpyxl import Workbook
-from openpyxl.cell.cell import Cell
+from openpyxl.cell.cell import Cell, MergedCell
 from openpyxl.comments import Comment
 from openpyxl.styles import Alignment, Font, PatternFill
 from openpyxl.utils import get_column_letter
@@ -128,7 +128,7 @@ def _cell_value(value: object) -> CellValue:
     raise TypeError(f"cannot write {value!r} into an input cell")
 
 
-def _put(cell: Cell, value: CellValue) -> None:
+def _put(cell: Cell | MergedCell, value: CellValue) -> None:
     cell.value = value
     if isinstance(value, str) and value.startswith("="):
         cell.data_type = "s"  # text that looks like a formula stays text
@@ -320,8 +320,10 @@ def input_workbook(
     from column key to cell value. ``example`` styles the rows as examples.
     """
     wb = Workbook()
-    _write_guide(wb.active, units)
-    wb.active.title = GUIDE_SHEET
+    guide = wb.active
+    assert isinstance(guide, Worksheet)  # a new workbook's one sheet
+    _write_guide(guide, units)
+    guide.title = GUIDE_SHEET
     _write_settings(wb.create_sheet(SETTINGS.name), settings, units)
     for sheet in INPUT_SHEETS:
         if sheet is not SETTINGS and sheet.name in rows:

@@ -36,7 +36,7 @@ import zipfile
 import zlib
 from collections.abc import Callable
 from dataclasses import dataclass, field
-from typing import BinaryIO
+from typing import IO, BinaryIO
 from urllib.parse import unquote
 
 from batch.writing.package.docprops import update_sheet_list
@@ -126,7 +126,7 @@ class ResultBook:
         )
         self.fallback_active = None if source.active else fallback_active
         self.sheets: list[_NewSheet] = []
-        self._open: tuple[_NewSheet, BinaryIO] | None = None
+        self._open: tuple[_NewSheet, IO[bytes]] | None = None
         self._taken = {p.lower() for p in self._kept_parts()}
         self._taken_names = {s.name.lower() for s in source.sheets if s.name not in source.ours}
         self._next_id = 1 + max(

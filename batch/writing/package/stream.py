@@ -20,7 +20,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping, Sequence
-from typing import BinaryIO
+from typing import IO
 
 from batch.writing.package.styles import HEADER, StyleSheet
 from batch.writing.package.xmltext import text
@@ -81,7 +81,7 @@ class SheetStream:
     """
 
     def __init__(
-        self, fh: BinaryIO, name: str, styles: StyleSheet, *, selected: bool = False
+        self, fh: IO[bytes], name: str, styles: StyleSheet, *, selected: bool = False
     ) -> None:
         self.fh = fh
         self.name = name
