@@ -30,9 +30,11 @@ from pathlib import Path
 from batch.demo.synthetic import synthetic_case
 from batch.model import Settings
 from batch.running.executor import run_case
-from batch.writing import InputInfo, SourcePackage, result_package
 from batch.writing.columns import ENVELOPES, GOVERNING, REACTIONS
 from batch.writing.package.save import atomic_save
+from batch.writing.package.splice import SourcePackage
+from batch.writing.results import result_package
+from batch.writing.runlog import InputInfo
 from batch.writing.template import write_case_workbook
 
 DISTINCT = 40  # members actually analysed; the rest repeat them

@@ -22,8 +22,8 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from batch.engine import member_envelope
 from batch.engine.effects import EFFECTS
+from batch.engine.envelope import member_envelope
 from batch.loads.fleet import fleet_cases
 from batch.validating import read_input
 from batch.writing.columns import direction_text

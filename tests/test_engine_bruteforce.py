@@ -27,7 +27,8 @@ import pytest
 from numpy.typing import NDArray
 from scipy.optimize import minimize_scalar
 
-from batch.engine import AxleExtremes, InfluenceLines, axle_extremes, influence_lines
+from batch.engine.influence import InfluenceLines, influence_lines
+from batch.engine.moving import AxleExtremes, axle_extremes
 from batch.model import AxleTrain
 from batch.model.layout import POSITION_TOL, mechanism_parts
 

@@ -24,7 +24,8 @@ import numpy as np
 import pytest
 from numpy.typing import NDArray
 
-from batch.engine import InfluenceLines, axle_extremes, influence_lines
+from batch.engine.influence import InfluenceLines, influence_lines
+from batch.engine.moving import axle_extremes
 from batch.model import AxleTrain
 
 #: Exact arithmetic against closed forms: agreement relative to the natural size.

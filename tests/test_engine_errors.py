@@ -30,8 +30,9 @@ import re
 import numpy as np
 import pytest
 
-from batch.engine import UnstableMemberError, axle_extremes, influence_lines, member_envelope
-from batch.engine.moving import fleet_extremes_of
+from batch.engine.envelope import member_envelope
+from batch.engine.influence import UnstableMemberError, influence_lines
+from batch.engine.moving import axle_extremes, fleet_extremes_of
 from batch.loads.cases import LoadCase
 from batch.model import AxleTrain, Member
 from batch.model.case import MAX_RANGES

@@ -23,7 +23,7 @@ import numpy as np
 import pytest
 from numpy.typing import NDArray
 
-from batch.engine import InfluenceLines, influence_lines
+from batch.engine.influence import InfluenceLines, influence_lines
 from batch.model.layout import mechanism_parts
 
 Pynite = pytest.importorskip("Pynite")

@@ -25,8 +25,9 @@ import numpy as np
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from batch.engine import AxleExtremes, InfluenceLines, axle_extremes, influence_lines
+from batch.engine.influence import InfluenceLines, influence_lines
 from batch.engine.kernel import chain_extremes
+from batch.engine.moving import AxleExtremes, axle_extremes
 from batch.model import AxleTrain
 from batch.model.layout import POSITION_TOL, mechanism_parts
 

@@ -26,7 +26,7 @@ import pytest
 import batch.running.executor
 from batch.command import cli
 from batch.demo.synthetic import synthetic_case
-from batch.engine import member_envelope
+from batch.engine.envelope import member_envelope
 from batch.loads.fleet import fleet_cases
 from batch.model import Case, Settings
 from batch.running.executor import RunOptions, run_case

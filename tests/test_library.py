@@ -14,7 +14,7 @@ from fractions import Fraction
 
 import pytest
 
-from batch.engine import member_envelope
+from batch.engine.envelope import member_envelope
 from batch.loads import library
 from batch.loads.fleet import fleet_cases
 from batch.loads.library.models import part

@@ -26,7 +26,7 @@ import math
 import numpy as np
 import pytest
 
-from batch.engine import member_envelope
+from batch.engine.envelope import member_envelope
 from batch.loads import library
 from batch.model import Member
 

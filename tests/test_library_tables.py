@@ -16,7 +16,7 @@ from fractions import Fraction
 
 import pytest
 
-from batch.engine import member_envelope
+from batch.engine.envelope import member_envelope
 from batch.loads import library
 from batch.model import Member
 

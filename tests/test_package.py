@@ -27,10 +27,11 @@ from openpyxl.workbook.defined_name import DefinedName
 
 from batch.model import Case, Member, Settings, Vehicle
 from batch.running.executor import run_case
-from batch.writing import BookProblem, InputInfo, SourcePackage, result_package
 from batch.writing.columns import is_result_sheet_name
 from batch.writing.package.save import atomic_save
-from batch.writing.package.splice import OWNER_MARK, empty_package
+from batch.writing.package.splice import OWNER_MARK, BookProblem, SourcePackage, empty_package
+from batch.writing.results import result_package
+from batch.writing.runlog import InputInfo
 
 CASE = Case(
     settings=Settings(stations_per_span=2, chart_members=2),

@@ -27,7 +27,8 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from batch.engine import case_effects, influence_lines
+from batch.engine.envelope import case_effects
+from batch.engine.influence import influence_lines
 from batch.loads.cases import LoadCase
 from batch.loads.factors import MIN_CAPACITY_FACTOR
 from batch.model import AxleTrain, Capacity, Member

@@ -17,8 +17,7 @@ import pytest
 
 import batch.running.executor
 from batch.demo.synthetic import synthetic_case
-from batch.engine import member_envelope
-from batch.engine.envelope import member_influence
+from batch.engine.envelope import member_envelope, member_influence
 from batch.loads.fleet import fleet_cases
 from batch.model import Capacity, Case, Settings
 from batch.rating.assess import MemberAssessment

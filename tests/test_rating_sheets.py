@@ -29,11 +29,12 @@ from batch.command.cli import main
 from batch.rating.lrfr import gross_weight, posting_load, weight_in_tons
 from batch.running.executor import run_case
 from batch.validating import read_input
-from batch.writing import InputInfo, SourcePackage, result_package
 from batch.writing.columns import ASSESSMENT_SHEETS, is_result_sheet_name
 from batch.writing.package.save import atomic_save
-from batch.writing.package.splice import empty_package
+from batch.writing.package.splice import SourcePackage, empty_package
 from batch.writing.ratings import RF_BANDS, SCREEN_EXCEEDED_RGB
+from batch.writing.results import result_package
+from batch.writing.runlog import InputInfo
 
 SAMPLES = Path(__file__).resolve().parent.parent / "sample_workbooks"
 REL_TOL_EXACT = 1e-12  # the sheets carry float64 numbers unchanged; hand sums round a little

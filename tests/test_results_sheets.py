@@ -25,16 +25,17 @@ import pytest
 from defusedxml import ElementTree
 from openpyxl import load_workbook
 
-from batch.engine import member_envelope
 from batch.engine.effects import EFFECTS, effect_named, governing_row
+from batch.engine.envelope import member_envelope
 from batch.loads.fleet import fleet_cases
 from batch.model import Case, Member, Settings, Spacing, Vehicle
 from batch.running.executor import run_case
-from batch.writing import InputInfo, SourcePackage, result_package
 from batch.writing.cautions import CAUTIONS
 from batch.writing.columns import ENVELOPES, GOVERNING, REACTIONS, is_result_sheet_name
 from batch.writing.package.save import atomic_save
-from batch.writing.package.splice import empty_package
+from batch.writing.package.splice import SourcePackage, empty_package
+from batch.writing.results import result_package
+from batch.writing.runlog import InputInfo
 from batch.writing.tables import HIGHLIGHT_RGB, OWNER_MARK
 
 REL_TOL_EXACT = 1e-9  # the sheets carry the engine's float64 numbers unchanged

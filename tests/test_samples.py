@@ -10,7 +10,7 @@ import pytest
 from generated_workbooks import assert_same_workbook, read_input_or_skip
 
 from batch.demo.kvha import KVHA_INVENTORY, KVHA_SI_DEMO, SAMPLE_WORKBOOKS
-from batch.engine import member_envelope
+from batch.engine.envelope import member_envelope
 from batch.engine.influence import influence_lines
 from batch.loads.fleet import fleet_cases
 from batch.model import Case, Member, Settings

@@ -35,8 +35,10 @@ from openpyxl.worksheet.datavalidation import DataValidation
 
 from batch.model import Case, Member, Settings, Vehicle
 from batch.running.executor import run_case
-from batch.writing import BookProblem, InputInfo, SourcePackage, result_package
 from batch.writing.package.save import TEMP_PREFIX, SaveError, atomic_save, open_elsewhere
+from batch.writing.package.splice import BookProblem, SourcePackage
+from batch.writing.results import result_package
+from batch.writing.runlog import InputInfo
 
 CASE = Case(
     settings=Settings(stations_per_span=4),

@@ -34,7 +34,7 @@ import batch
 if TYPE_CHECKING:
     from batch.reading.problems import InputReport
     from batch.running.executor import ProgressFn
-    from batch.writing import SourcePackage
+    from batch.writing.package.splice import SourcePackage
 
 __all__ = ["EXIT_INTERNAL", "EXIT_OK", "EXIT_PROBLEMS", "EXIT_USAGE", "main"]
 
@@ -176,7 +176,7 @@ def _check_names(src: Path, target: Path, is_json: bool, has_out: bool) -> None:
 
 def _open_input(src: Path, report: InputReport, keep_vba: bool) -> SourcePackage:
     """The input workbook's package, ready to receive the results."""
-    from batch.writing import BookProblem, SourcePackage
+    from batch.writing.package.splice import BookProblem, SourcePackage
 
     data = src.read_bytes()
     if hashlib.sha256(data).hexdigest() != report.digest:
@@ -195,7 +195,7 @@ def _json_source(report: InputReport) -> SourcePackage:
     import io
 
     from batch.model.sheets import SETTING_ROWS
-    from batch.writing import SourcePackage
+    from batch.writing.package.splice import SourcePackage
     from batch.writing.template import case_rows, input_workbook
 
     case = report.case
@@ -262,8 +262,10 @@ def _run_key(report: InputReport) -> str:
 def _cmd_run(args: argparse.Namespace) -> int:
     from batch.running.executor import RunError, RunOptions, run_case
     from batch.running.store import StoreError, store_path_for
-    from batch.writing import BookProblem, InputInfo, result_package
     from batch.writing.package.save import SaveError, atomic_save
+    from batch.writing.package.splice import BookProblem
+    from batch.writing.results import result_package
+    from batch.writing.runlog import InputInfo
 
     src: Path = args.book
     _require_file(src)

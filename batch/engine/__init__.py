@@ -1,30 +1,9 @@
 """Stage 5, the engine: exact influence lines and moving-load extremes.
 
-Pure numpy/scipy; it knows nothing of workbooks. See :mod:`batch.engine.influence`
-for the method and sign conventions.
+Pure numpy, with a numba-compiled sweep; it knows nothing of workbooks. Import
+from the modules themselves: :mod:`batch.engine.influence` (influence lines and the
+method's sign conventions), :mod:`batch.engine.moving` and :mod:`batch.engine.kernel`
+(exact extremes of axle trains), :mod:`batch.engine.envelope` (per-case effects and
+a member's envelope) and :mod:`batch.engine.effects` (the envelope's types and the
+six effects, which load without numba).
 """
-
-from batch.engine.envelope import (
-    CaseEffects,
-    Extremes,
-    MemberEnvelope,
-    case_effects,
-    envelope_of,
-    member_envelope,
-)
-from batch.engine.influence import InfluenceLines, UnstableMemberError, influence_lines
-from batch.engine.moving import AxleExtremes, axle_extremes
-
-__all__ = [
-    "AxleExtremes",
-    "CaseEffects",
-    "Extremes",
-    "InfluenceLines",
-    "MemberEnvelope",
-    "UnstableMemberError",
-    "axle_extremes",
-    "case_effects",
-    "envelope_of",
-    "influence_lines",
-    "member_envelope",
-]

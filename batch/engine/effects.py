@@ -1,4 +1,4 @@
-"""The six enveloped effects, declared once, and where each governs on a member.
+"""A member's envelope, the six enveloped effects declared once, and where each governs.
 
 An effect is one quantity and sense of a member's envelope: the largest
 sagging moment ``M max``, the largest hogging moment ``M min``, the largest and
@@ -14,13 +14,62 @@ from dataclasses import dataclass
 from typing import Literal
 
 import numpy as np
+from numpy.typing import NDArray
 
-from batch.engine.envelope import Extremes, MemberEnvelope
 from batch.model.units import Quantity
 
-__all__ = ["EFFECTS", "TIE_REL_TOL", "Effect", "effect_named", "governing_row"]
+__all__ = [
+    "EFFECTS",
+    "TIE_REL_TOL",
+    "Effect",
+    "Governing",
+    "MemberEnvelope",
+    "effect_named",
+    "governing_row",
+]
 
 Rows = Literal["station", "support"]
+
+
+@dataclass(frozen=True, kw_only=True)
+class Governing:
+    """The governing value of one effect and sense (e.g. ``M max``), row by row.
+
+    One row per station (moments, shears) or per support (reactions). ``case``
+    indexes the load cases (-1 where no case gives a value of that sign, in which
+    case ``value`` is 0); ``position`` is the governing front axle's x (NaN when
+    only a lane load acts); ``direction`` is +1 left to right, -1 right to left,
+    0 none.
+    """
+
+    value: NDArray[np.float64]
+    case: NDArray[np.int64]
+    position: NDArray[np.float64]
+    direction: NDArray[np.int8]
+
+
+@dataclass(frozen=True, kw_only=True)
+class MemberEnvelope:
+    """Envelopes of one member: station rows (M, V) and support rows (R).
+
+    ``labels`` names the load cases that ``Governing.case`` indexes. Station
+    rows: ``station_span`` (from 1), ``station_fraction`` of the span and
+    ``station_x`` from the left end; support rows: ``support_x``.
+    """
+
+    member: str
+    labels: tuple[str, ...]
+    station_span: NDArray[np.int64]
+    station_fraction: NDArray[np.float64]
+    station_x: NDArray[np.float64]
+    support_x: NDArray[np.float64]
+    m_max: Governing
+    m_min: Governing
+    v_max: Governing
+    v_min: Governing
+    r_max: Governing
+    r_min: Governing
+
 
 #: Two candidate governing values within this fraction of the extreme are a tie; the first wins.
 TIE_REL_TOL = 1e-9
@@ -42,9 +91,9 @@ class Effect:
     rows: Rows
     meaning: str
 
-    def extremes(self, env: MemberEnvelope) -> Extremes:
+    def extremes(self, env: MemberEnvelope) -> Governing:
         """The extremes of this effect in ``env``."""
-        result: Extremes = getattr(env, self.attr)
+        result: Governing = getattr(env, self.attr)
         return result
 
 

@@ -24,6 +24,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
+from batch.engine.effects import Governing, MemberEnvelope
 from batch.engine.influence import InfluenceLines, influence_lines
 from batch.engine.moving import (
     LEFT_TO_RIGHT,
@@ -36,8 +37,6 @@ from batch.model import Member
 
 __all__ = [
     "CaseEffects",
-    "Extremes",
-    "MemberEnvelope",
     "case_effects",
     "envelope_of",
     "member_envelope",
@@ -54,40 +53,6 @@ DIRECTION_CODES: dict[str, tuple[int, ...]] = {
     "left-to-right": (LEFT_TO_RIGHT,),
     "right-to-left": (RIGHT_TO_LEFT,),
 }
-
-
-@dataclass(frozen=True, kw_only=True)
-class Extremes:
-    """The governing value of one effect family and sense, row by row.
-
-    ``case`` indexes the load cases (-1 where no case gives a value of that
-    sign, in which case ``value`` is 0); ``position`` is the governing front
-    axle's x (NaN when only a lane load acts); ``direction`` is +1 left to
-    right, -1 right to left, 0 none.
-    """
-
-    value: NDArray[np.float64]
-    case: NDArray[np.int64]
-    position: NDArray[np.float64]
-    direction: NDArray[np.int8]
-
-
-@dataclass(frozen=True, kw_only=True)
-class MemberEnvelope:
-    """Envelopes of one member: station rows (M, V) and support rows (R)."""
-
-    member: str
-    labels: tuple[str, ...]
-    station_span: NDArray[np.int64]
-    station_fraction: NDArray[np.float64]
-    station_x: NDArray[np.float64]
-    support_x: NDArray[np.float64]
-    m_max: Extremes
-    m_min: Extremes
-    v_max: Extremes
-    v_min: Extremes
-    r_max: Extremes
-    r_min: Extremes
 
 
 def member_influence(member: Member, stations_per_span: int) -> InfluenceLines:
@@ -242,9 +207,9 @@ def envelope_of(
         ),
     }
 
-    def pick(sense: str, part: slice) -> Extremes:
+    def pick(sense: str, part: slice) -> Governing:
         v, c, p, d = best[sense]
-        return Extremes(value=v[part], case=c[part], position=p[part], direction=d[part])
+        return Governing(value=v[part], case=c[part], position=p[part], direction=d[part])
 
     return MemberEnvelope(
         member=member_id,

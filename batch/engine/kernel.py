@@ -31,7 +31,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 __all__ = [
-    "Extremes",
+    "Governing",
     "SweepPlan",
     "chain_extremes",
     "chain_fleet",
@@ -40,9 +40,9 @@ __all__ = [
     "sweep_plan",
 ]
 
-#: Extremes kept per row and effect: maximum, its front-axle position and
+#: Governing kept per row and effect: maximum, its front-axle position and
 #: direction, then the same three for the minimum.
-Extremes = tuple[
+Governing = tuple[
     NDArray[np.float64],
     NDArray[np.float64],
     NDArray[np.int8],
@@ -261,9 +261,9 @@ def fleet_extremes(
     sigmas: np.ndarray,
     tol: float,
     keep: tuple[bool, bool],
-    out: Extremes,
+    out: Governing,
 ) -> None:
-    """Extremes of many rigid axle trains (fixed spacings) in one call, kept in ``out``.
+    """Governing of many rigid axle trains (fixed spacings) in one call, kept in ``out``.
 
     Train i has axles ``case_start[i]:case_start[i + 1]`` of ``loads`` with
     ``offsets`` behind its front axle; every train is swept in each direction
@@ -672,7 +672,7 @@ def chain_fleet(
     sigmas: np.ndarray,
     tol: float,
     keep: tuple[bool, bool],
-    out: Extremes,
+    out: Governing,
 ) -> None:
     """:func:`chain_extremes` of many chains in one call, kept in ``out`` as :func:`fleet_extremes`.
 

@@ -52,7 +52,7 @@ RIGHT_TO_LEFT = -1
 
 @dataclass(frozen=True, kw_only=True)
 class FleetExtremes:
-    """Extremes of axle trains per effect (see :class:`AxleExtremes`).
+    """Governing of axle trains per effect (see :class:`AxleExtremes`).
 
     For one train the arrays have shape (n_effects,); for many, (n_trains, n_effects).
     """
@@ -67,7 +67,7 @@ class FleetExtremes:
 
 @dataclass(frozen=True, kw_only=True)
 class AxleExtremes(FleetExtremes):
-    """Extremes of the axle train alone (no lane load, no factors), per effect.
+    """Governing of the axle train alone (no lane load, no factors), per effect.
 
     ``max_value[e]`` is the largest value of effect e over all positions,
     directions and spacings (never below 0: the train can be off the member);

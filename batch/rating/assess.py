@@ -12,7 +12,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 
-from batch.engine import CaseEffects, case_effects
+from batch.engine.envelope import CaseEffects, case_effects
 from batch.loads.cases import LoadCase
 from batch.model import Capacity, Case, Category, Member
 from batch.rating.lrfr import (

@@ -63,7 +63,8 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from batch.engine import CaseEffects, InfluenceLines
+from batch.engine.envelope import CaseEffects
+from batch.engine.influence import InfluenceLines
 from batch.loads import library
 from batch.loads.cases import LoadCase
 from batch.loads.factors import (

@@ -15,7 +15,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from batch.engine import InfluenceLines
+from batch.engine.influence import InfluenceLines
 from batch.loads import library
 from batch.loads.cases import LoadCase
 from batch.model import Case

@@ -34,8 +34,8 @@ from pathlib import Path
 import numpy as np
 from numpy.typing import NDArray
 
-from batch.engine import MemberEnvelope, case_effects, envelope_of
-from batch.engine.effects import EFFECTS
+from batch.engine.effects import EFFECTS, MemberEnvelope
+from batch.engine.envelope import case_effects, envelope_of
 from batch.engine.influence import InfluenceLines
 from batch.loads.cases import LoadCase
 from batch.loads.fleet import fleet_cases

@@ -36,7 +36,7 @@ from typing import Any, TypeVar, overload
 import numpy as np
 from numpy.typing import NDArray
 
-from batch.engine import Extremes, MemberEnvelope
+from batch.engine.effects import Governing, MemberEnvelope
 from batch.rating.assess import MemberAssessment
 from batch.rating.lrfr import MemberRating
 from batch.rating.screening import MemberScreening
@@ -185,7 +185,7 @@ def _unpack(member: str, blob: bytes | None, labels: tuple[str, ...]) -> MemberE
     if offset != len(blob):
         raise ValueError(f"member {member!r}'s stored results do not have the expected size")
     extremes: dict[str, Any] = {
-        name: Extremes(
+        name: Governing(
             value=arrays[name, "value"],
             case=arrays[name, "case"],
             position=arrays[name, "position"],

@@ -16,7 +16,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
-from batch.engine import MemberEnvelope
+from batch.engine.effects import MemberEnvelope
 from batch.writing.columns import CHARTS_SHEET, ENVELOPES
 from batch.writing.package.splice import ResultBook
 from batch.writing.package.stream import column_letter

@@ -24,8 +24,15 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from batch.engine import Extremes, MemberEnvelope
-from batch.engine.effects import EFFECTS, Effect, Rows, effect_named, governing_row
+from batch.engine.effects import (
+    EFFECTS,
+    Effect,
+    Governing,
+    MemberEnvelope,
+    Rows,
+    effect_named,
+    governing_row,
+)
 from batch.model.units import Quantity
 
 __all__ = [
@@ -140,17 +147,17 @@ def _row_count(effect_rows: Rows, env: MemberEnvelope) -> int:
     return int(env.station_x.size if effect_rows == "station" else env.support_x.size)
 
 
-def _vehicle(env: MemberEnvelope, ext: Extremes, i: int) -> str | None:
+def _vehicle(env: MemberEnvelope, ext: Governing, i: int) -> str | None:
     case = int(ext.case[i])
     return env.labels[case] if case >= 0 else None
 
 
-def _position(ext: Extremes, i: int) -> float | None:
+def _position(ext: Governing, i: int) -> float | None:
     p = float(ext.position[i])
     return p if int(ext.case[i]) >= 0 and np.isfinite(p) else None
 
 
-def _direction(ext: Extremes, i: int) -> str | None:
+def _direction(ext: Governing, i: int) -> str | None:
     return direction_text(int(ext.direction[i])) if int(ext.case[i]) >= 0 else None
 
 
@@ -164,7 +171,7 @@ def _effect_columns(effect: Effect) -> tuple[ResultColumn, ...]:
     def value(env: MemberEnvelope) -> list[object]:
         return [float(v) for v in effect.extremes(env).value]
 
-    def per_row(get: Callable[[MemberEnvelope, Extremes, int], object]) -> Values:
+    def per_row(get: Callable[[MemberEnvelope, Governing, int], object]) -> Values:
         def values(env: MemberEnvelope) -> list[object]:
             ext = effect.extremes(env)
             return [get(env, ext, i) for i in range(ext.value.size)]
@@ -212,7 +219,7 @@ def _effect_columns(effect: Effect) -> tuple[ResultColumn, ...]:
 def _governing_columns(effect: Effect) -> tuple[ResultColumn, ...]:
     """One member's extreme of ``effect``: value, where, and which vehicle, position, direction."""
 
-    def one(get: Callable[[MemberEnvelope, Extremes, int], object], empty: object) -> Values:
+    def one(get: Callable[[MemberEnvelope, Governing, int], object], empty: object) -> Values:
         def values(env: MemberEnvelope) -> list[object]:
             i = governing_row(effect, env)
             return [empty if i is None else get(env, effect.extremes(env), i)]

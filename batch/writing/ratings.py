@@ -26,7 +26,7 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from batch.engine import MemberEnvelope
+from batch.engine.effects import MemberEnvelope
 from batch.model import Case
 from batch.rating.lrfr import (
     RATED_EFFECTS,

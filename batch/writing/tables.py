@@ -19,8 +19,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass
 
-from batch.engine import MemberEnvelope
-from batch.engine.effects import effect_named, governing_row
+from batch.engine.effects import MemberEnvelope, effect_named, governing_row
 from batch.writing.columns import FORMAT_TEXT, ResultColumn, ResultTable
 from batch.writing.package.splice import OWNER_MARK, ResultBook
 from batch.writing.package.stream import MAX_ROWS, SheetStream
