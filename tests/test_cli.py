@@ -183,7 +183,7 @@ def _add_user_chart(path: Path) -> None:
 
 
 def test_a_workbook_with_a_chart_is_written_in_place_and_keeps_it(book: Path, capsys) -> None:
-    # Results are spliced into the input's own package (batch/writers/package.py), so the
+    # Results are spliced into the input's own package (batch/writing/package/splice.py), so the
     # engineer's chart parts come back byte for byte (ECMA-376 Part 2 package parts).
     _add_user_chart(book)
     with zipfile.ZipFile(book) as zf:

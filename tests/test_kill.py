@@ -13,7 +13,7 @@ stop a later run or change its results.
 
 Why this holds: results are written to a temporary file in the same folder and
 swapped in with one rename, which POSIX rename(2) makes atomic (common practice
-for safe saves; see batch/writers/save.py).
+for safe saves; see batch/writing/package/save.py).
 """
 
 from __future__ import annotations

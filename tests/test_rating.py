@@ -1,4 +1,4 @@
-"""Load rating and screening (batch/rating.py) against the published equations.
+"""Load rating and screening (batch/rating/) against the published equations.
 
 Sources:
 * LRFR general equation RF = (C - gDC*DC - gDW*DW)/(gLL*(LL + IM)) with

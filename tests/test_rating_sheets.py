@@ -150,7 +150,7 @@ def test_ratings_sheet_holds_the_runs_ratings(us_results: tuple[Path, Path]) -> 
                 assert np.isnan(row["Posting load (tons)"])
             else:
                 assert row["Posting load (tons)"] == pytest.approx(posting, rel=REL_TOL_EXACT)
-    # The sample is built to show every outcome (batch/samples.py).
+    # The sample is built to show every outcome (batch/demo/kvha.py).
     assert (ratings["RF"] < 1).any() and (ratings["RF"] >= 1.2).any()
     assert ratings["Posting load (tons)"].notna().any()
 

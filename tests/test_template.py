@@ -1,8 +1,8 @@
-"""The blank input workbook: built from batch/inputs.py, faithful to the workbook contract.
+"""The blank input workbook: built from batch/model/case.py, faithful to the workbook contract.
 
 Reference for the expected sheet, column and setting names: the workbook contract
 (shared/contract/workbook.md, sections "Input sheets" and "The command"), copied
-below as plain lists so that a change to batch/inputs.py that breaks it fails here.
+below as plain lists so that a change to batch/model/case.py that breaks it fails here.
 """
 
 from __future__ import annotations

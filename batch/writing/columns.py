@@ -72,7 +72,7 @@ RUN_LOG_SHEET = "Run Log"
 CHARTS_SHEET = "Moment Charts"
 VEHICLE_SUMMARY_SHEET = "Vehicle Summary"
 #: Load rating (with a Capacities sheet) and screening (with a Reference vehicle):
-#: see batch/writers/ratings.py.
+#: see batch/writing/ratings.py.
 RATINGS_SHEET = "Ratings"
 RATING_MATRIX_SHEET = "Rating Matrix"
 SCREENING_SHEET = "Screening"
