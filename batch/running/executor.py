@@ -259,6 +259,69 @@ def _cluster(chunks: list[_Chunk], address: str) -> Iterator[list[MemberResult]]
             yield future.result()
 
 
+def _open_store(
+    options: RunOptions, case: Case, cases: tuple[LoadCase, ...]
+) -> CheckpointStore | None:
+    if options.store is None:
+        return None
+    return CheckpointStore(
+        options.store,
+        options.key,
+        tuple(c.label for c in cases),
+        tuple(v.id for v in case.vehicles),
+    )
+
+
+def _chunks(
+    todo: list[tuple[int, Member]],
+    cases: tuple[LoadCase, ...],
+    case: Case,
+    plan: AssessmentPlan | None,
+    workers: int,
+) -> list[_Chunk]:
+    """The members to compute, in chunks small enough to keep every worker busy."""
+    size = max(1, min(64, math.ceil(len(todo) / (4 * max(workers, 1)))))
+    return [
+        _Chunk(tuple(todo[k : k + size]), cases, case.settings, len(case.vehicles), plan)
+        for k in range(0, len(todo), size)
+    ]
+
+
+@dataclass
+class _Gathered:
+    """What came back from the workers (in memory only when there is no store)."""
+
+    envelopes: dict[int, MemberEnvelope] = field(default_factory=dict)
+    notes: dict[int, tuple[str, ...]] = field(default_factory=dict)
+    assessed: dict[int, MemberAssessment] = field(default_factory=dict)
+
+
+def _gather(
+    source: Iterator[list[MemberResult]],
+    store: CheckpointStore | None,
+    peaks: NDArray[np.float64] | None,
+    progress: ProgressFn | None,
+    done: int,
+    n_members: int,
+) -> _Gathered:
+    """Every member's result from ``source``: into the store, or kept in memory."""
+    gathered = _Gathered()
+    for results in source:
+        for r in results:
+            if store is not None:
+                store.put(r.index, r.envelope, r.warnings, r.peaks, r.assessment)
+            else:
+                gathered.envelopes[r.index] = r.envelope
+                gathered.notes[r.index] = r.warnings
+                gathered.assessed[r.index] = r.assessment
+            if peaks is not None:
+                peaks[r.index] = r.peaks
+            done += 1
+            if progress is not None:
+                progress(done, n_members, r.envelope.member)
+    return gathered
+
+
 def run_case(
     case: Case, progress: ProgressFn | None = None, options: RunOptions | None = None
 ) -> RunResult:
@@ -273,58 +336,31 @@ def run_case(
     cases = tuple(fleet_cases(case.vehicles, case.settings))
     n_members, n_vehicles = len(case.members), len(case.vehicles)
     plan = AssessmentPlan.of(case)
-    store = (
-        CheckpointStore(
-            options.store,
-            options.key,
-            tuple(c.label for c in cases),
-            tuple(v.id for v in case.vehicles),
-        )
-        if options.store is not None
-        else None
-    )
+    store = _open_store(options, case, cases)
     try:
         # Without a store every result stays in memory; with one, each finished member
         # goes to the store and the results are read back from it as they are written
         # out, so memory stays flat however many members there are.
-        envelopes: dict[int, MemberEnvelope] = {}
-        notes: dict[int, tuple[str, ...]] = {}
-        assessed: dict[int, MemberAssessment] = {}
         fits = n_members * n_vehicles <= SHEET_ROWS
         peaks = np.zeros((n_members, n_vehicles, 6)) if fits else None
         finished = store.finished() if store is not None else set()
         todo = [(i, m) for i, m in enumerate(case.members) if i not in finished]
         workers = 1 if options.cluster else _workers(options, len(todo) * len(cases))
-        size = max(1, min(64, math.ceil(len(todo) / (4 * max(workers, 1)))))
-        chunks = [
-            _Chunk(tuple(todo[k : k + size]), cases, case.settings, n_vehicles, plan)
-            for k in range(0, len(todo), size)
-        ]
-        done = len(finished)
+        chunks = _chunks(todo, cases, case, plan, workers)
         source = _cluster(chunks, options.cluster) if options.cluster else _local(chunks, workers)
-        for results in source:
-            for r in results:
-                if store is not None:
-                    store.put(r.index, r.envelope, r.warnings, r.peaks, r.assessment)
-                else:
-                    envelopes[r.index] = r.envelope
-                    notes[r.index] = r.warnings
-                    assessed[r.index] = r.assessment
-                if peaks is not None:
-                    peaks[r.index] = r.peaks
-                done += 1
-                if progress is not None:
-                    progress(done, n_members, r.envelope.member)
+        gathered = _gather(source, store, peaks, progress, len(finished), n_members)
         if store is None:
-            kept_envelopes: Sequence[MemberEnvelope] = tuple(envelopes[i] for i in range(n_members))
-            kept_assessments: Sequence[MemberAssessment] = tuple(
-                assessed[i] for i in range(n_members)
+            envelopes: Sequence[MemberEnvelope] = tuple(
+                gathered.envelopes[i] for i in range(n_members)
             )
-            all_notes = tuple(w for i in range(n_members) for w in notes[i])
+            assessments: Sequence[MemberAssessment] = tuple(
+                gathered.assessed[i] for i in range(n_members)
+            )
+            notes = tuple(w for i in range(n_members) for w in gathered.notes[i])
         else:
-            kept_envelopes = store.stored_envelopes(n_members)
-            kept_assessments = store.stored_assessments(n_members)
-            all_notes = tuple(store.warnings())
+            envelopes = store.stored_envelopes(n_members)
+            assessments = store.stored_assessments(n_members)
+            notes = tuple(store.warnings())
             if peaks is not None and finished:
                 for row in store.peak_rows():
                     if row.member_index in finished:
@@ -335,13 +371,13 @@ def run_case(
     return RunResult(
         case=case,
         load_cases=cases,
-        envelopes=kept_envelopes,
-        warnings=all_notes,
+        envelopes=envelopes,
+        warnings=notes,
         started=started,
         seconds=time.perf_counter() - clock,
         peaks=peaks,
         workers=workers,
         resumed=len(finished),
         store=options.store,
-        assessments=() if plan is None else kept_assessments,
+        assessments=() if plan is None else assessments,
     )

@@ -3,7 +3,7 @@
 Each row must name a member of the Members sheet (ids compared ignoring case
 and outer spaces), one of its spans, and one of the stations of that span
 (0, 1/n, ..., 1 with n the Stations per span setting, matched within
-:data:`batch.rating.lrfr.STATION_TOL`); it must give at least one resistance; and
+:data:`batch.model.layout.STATION_TOL`); it must give at least one resistance; and
 no station may be listed twice. A member whose dead load would silently be
 taken as 0 gets a warning.
 
@@ -61,6 +61,24 @@ def _nearest(station: float, n: int) -> str:
     return f"{shown(round(j / n, 6))} or {shown(round((j + 1) / n, 6))}"
 
 
+class _Context:
+    """What every row is checked against: the members by id, the stations, rows seen."""
+
+    def __init__(
+        self, document: dict[str, Any], locator: Locator, ok: Callable[[DocPath], bool]
+    ) -> None:
+        members = document.get("members")
+        self.by_id: dict[str, tuple[int, dict[str, Any]]] = {}
+        for i, m in enumerate(members if isinstance(members, list) else []):
+            if isinstance(m, dict) and isinstance(m.get("id"), str):
+                self.by_id.setdefault(m["id"].strip().casefold(), (i, m))
+        self.n_per_span = _stations(document, ok)
+        self.locator = locator
+        self.ok = ok
+        self.seen: dict[tuple[str, int, int], DocPath] = {}
+        self.warned: set[str] = set()
+
+
 def capacity_problems(
     rows: list[Any],
     document: dict[str, Any],
@@ -68,87 +86,99 @@ def capacity_problems(
     ok: Callable[[DocPath], bool],
 ) -> Iterator[Found]:
     """Every cross-field problem of the Capacities rows (``ok(path)``: not yet reported)."""
-    members = document.get("members")
-    by_id: dict[str, tuple[int, dict[str, Any]]] = {}
-    for i, m in enumerate(members if isinstance(members, list) else []):
-        if isinstance(m, dict) and isinstance(m.get("id"), str):
-            by_id.setdefault(m["id"].strip().casefold(), (i, m))
-    n_per_span = _stations(document, ok)
-    seen: dict[tuple[str, int, int], DocPath] = {}
-    warned: set[str] = set()
+    cx = _Context(document, locator, ok)
     for i, row in enumerate(rows):
-        if not isinstance(row, dict):
-            continue
-        at: DocPath = ("capacities", i)
-        if all(k not in row and ok((*at, k)) for k in _RESISTANCES):
-            yield (
-                (*at, "resistance_m_pos"),
-                "no-resistance",
-                "Resistance M+, Resistance M- and Resistance V are all blank, so nothing is "
-                "rated at this station; give at least one factored resistance, or delete the row",
-                "error",
-            )
-        name = row.get("member")
-        if not isinstance(name, str) or not ok((*at, "member")):
-            continue
-        found = by_id.get(name.strip().casefold())
-        if found is None:
-            yield (
-                (*at, "member"),
-                "unknown-member",
-                f"Member {name.strip()!r} is not on the Members sheet; give the id of a member "
-                "listed there (ids are compared ignoring case and outer spaces)",
-                "error",
-            )
-            continue
-        index, member = found
-        yield from _dead_load_warning(row, member, at, warned)
-        span, station = _number(row.get("span")), _number(row.get("station"))
-        n_spans = _spans(member, ok, ("members", index))
-        if span is None or not ok((*at, "span")) or n_spans is None:
-            continue
-        if not 1 <= span <= n_spans:
-            fix = (
-                "give span 1"
-                if n_spans == 1
-                else f"give a span number from 1 to {n_spans}, counted from the member's left end"
-            )
-            plural = "s" if n_spans != 1 else ""
-            yield (
-                (*at, "span"),
-                "span-not-on-member",
-                f"Span {shown(span)}: member {member['id'].strip()!r} has {n_spans} span{plural}; "
-                f"{fix}",
-                "error",
-            )
-            continue
-        if station is None or not ok((*at, "station")) or n_per_span is None:
-            continue
-        place = station_row(int(span), station, n_spans, n_per_span)
-        if place is None:
-            yield (
-                (*at, "station"),
-                "station-not-on-grid",
-                f"Station {shown(station)} is not one of the stations of the span (0, 1/n, ..., "
-                f"1 with n = {n_per_span}, the Stations per span setting, within "
-                f"{STATION_TOL:g}); give a station of the Envelopes sheet, here "
-                f"{_nearest(station, n_per_span)}, or change Stations per span",
-                "error",
-            )
-            continue
-        key = (name.strip().casefold(), int(span), place)
-        if key in seen:
-            sheet, cell = locator.where(seen[key])
-            yield (
-                (*at, "member"),
-                "duplicate-capacity",
-                f"member {member['id'].strip()!r}, span {shown(span)}, station "
-                f"{shown(station)} is listed twice (also in {cell or sheet}); keep one row per "
-                "station",
-                "error",
-            )
-        else:
-            seen[key] = (*at, "member")
+        if isinstance(row, dict):
+            yield from _row_problems(row, ("capacities", i), cx)
+
+
+def _row_problems(row: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[Found]:
+    """The problems of one Capacities row, in the order a reader fixes them."""
+    if all(k not in row and cx.ok((*at, k)) for k in _RESISTANCES):
+        yield (
+            (*at, "resistance_m_pos"),
+            "no-resistance",
+            "Resistance M+, Resistance M- and Resistance V are all blank, so nothing is "
+            "rated at this station; give at least one factored resistance, or delete the row",
+            "error",
+        )
+    name = row.get("member")
+    if not isinstance(name, str) or not cx.ok((*at, "member")):
+        return
+    found = cx.by_id.get(name.strip().casefold())
+    if found is None:
+        yield (
+            (*at, "member"),
+            "unknown-member",
+            f"Member {name.strip()!r} is not on the Members sheet; give the id of a member "
+            "listed there (ids are compared ignoring case and outer spaces)",
+            "error",
+        )
+        return
+    index, member = found
+    yield from _dead_load_warning(row, member, at, cx.warned)
+    n_spans = _spans(member, cx.ok, ("members", index))
+    span = _number(row.get("span"))
+    if span is None or not cx.ok((*at, "span")) or n_spans is None:
+        return
+    if not 1 <= span <= n_spans:
+        yield _span_off_member(span, n_spans, member, at)
+        return
+    yield from _station_problems(row, member, int(span), n_spans, at, cx)
+
+
+def _span_off_member(span: float, n_spans: int, member: dict[str, Any], at: DocPath) -> Found:
+    fix = (
+        "give span 1"
+        if n_spans == 1
+        else f"give a span number from 1 to {n_spans}, counted from the member's left end"
+    )
+    plural = "s" if n_spans != 1 else ""
+    return (
+        (*at, "span"),
+        "span-not-on-member",
+        f"Span {shown(span)}: member {member['id'].strip()!r} has {n_spans} span{plural}; {fix}",
+        "error",
+    )
+
+
+def _station_problems(
+    row: dict[str, Any],
+    member: dict[str, Any],
+    span: int,
+    n_spans: int,
+    at: DocPath,
+    cx: _Context,
+) -> Iterator[Found]:
+    """The row's station must be one of the span's stations, and listed only once."""
+    station, n_per_span = _number(row.get("station")), cx.n_per_span
+    if station is None or not cx.ok((*at, "station")) or n_per_span is None:
+        return
+    place = station_row(span, station, n_spans, n_per_span)
+    if place is None:
+        yield (
+            (*at, "station"),
+            "station-not-on-grid",
+            f"Station {shown(station)} is not one of the stations of the span (0, 1/n, ..., "
+            f"1 with n = {n_per_span}, the Stations per span setting, within "
+            f"{STATION_TOL:g}); give a station of the Envelopes sheet, here "
+            f"{_nearest(station, n_per_span)}, or change Stations per span",
+            "error",
+        )
+        return
+    key = (member["id"].strip().casefold(), span, place)
+    if key in cx.seen:
+        sheet, cell = cx.locator.where(cx.seen[key])
+        yield (
+            (*at, "member"),
+            "duplicate-capacity",
+            f"member {member['id'].strip()!r}, span {shown(span)}, station "
+            f"{shown(station)} is listed twice (also in {cell or sheet}); keep one row per "
+            "station",
+            "error",
+        )
+    else:
+        cx.seen[key] = (*at, "member")
 
 
 def _dead_load_warning(
