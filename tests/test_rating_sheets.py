@@ -29,13 +29,21 @@ from batch.command.cli import main
 from batch.rating.lrfr import gross_weight, posting_load, weight_in_tons
 from batch.running.executor import run_case
 from batch.validating import read_input
-from batch.writing.columns import ASSESSMENT_SHEETS, is_result_sheet_name
+from batch.writing.columns import (
+    RATING_MATRIX,
+    RATINGS,
+    RF_BANDS,
+    SCREEN_EXCEEDED_RGB,
+    SCREENING,
+    SCREENING_DETAIL,
+    is_result_sheet_name,
+)
 from batch.writing.package.save import atomic_save
 from batch.writing.package.splice import SourcePackage, empty_package
-from batch.writing.ratings import RF_BANDS, SCREEN_EXCEEDED_RGB
 from batch.writing.results import result_package
 from batch.writing.runlog import InputInfo
 
+ASSESSMENT_SHEETS = tuple(t.sheet for t in (RATINGS, RATING_MATRIX, SCREENING, SCREENING_DETAIL))
 SAMPLES = Path(__file__).resolve().parent.parent / "sample_workbooks"
 REL_TOL_EXACT = 1e-12  # the sheets carry float64 numbers unchanged; hand sums round a little
 
@@ -159,13 +167,13 @@ def test_rating_matrix_is_coloured_by_band_with_frozen_headers(
     us_results: tuple[Path, Path],
 ) -> None:
     _, out = us_results
-    ws = openpyxl.load_workbook(out)["Rating Matrix"]
-    assert ws.freeze_panes == "B4"
-    assert [c.value for c in ws[3]][:2] == ["Category", "design"]
+    book = openpyxl.load_workbook(out)
+    ws = book["Rating Matrix"]
+    assert ws.freeze_panes == "B2"  # one header row, then records; the Member column in view
     ratings = pd.read_excel(out, sheet_name="Ratings")
-    vehicles = [c.value for c in ws[2]][1:]
+    vehicles = [c.value for c in ws[1]][1:]
     cells = 0
-    for row in ws.iter_rows(min_row=4):
+    for row in ws.iter_rows(min_row=2):
         member = row[0].value
         for cell, vehicle in zip(row[1:], vehicles, strict=True):
             expected = ratings[(ratings["Member"] == member) & (ratings["Vehicle"] == vehicle)]
@@ -174,20 +182,22 @@ def test_rating_matrix_is_coloured_by_band_with_frozen_headers(
             assert _fill(cell) == band
             cells += 1
     assert cells == len(ratings)
-    legend = {c.value: _fill(c) for c in ws[1] if c.value}
-    for _, rgb, text in RF_BANDS:
-        assert legend[text] == rgb
+    # The colours' legend is in the Result Guide, beside the matrix's columns.
+    guide = pd.read_excel(out, sheet_name="Result Guide")
+    meaning = " ".join(guide[guide["Sheet"] == "Rating Matrix"]["Meaning"].astype(str))
+    for _, _, words in RF_BANDS:
+        assert words in meaning
 
 
 def test_screening_against_the_reference(us_results: tuple[Path, Path]) -> None:
     src, out = us_results
     case = read_input(src).case
     assert case is not None and case.settings.reference_vehicle == "KVHA-D1"
-    matrix = pd.read_excel(out, sheet_name="Screening", header=1).iloc[1:]  # below Category
+    matrix = pd.read_excel(out, sheet_name="Screening")
     assert len(matrix) == len(case.members)
     assert (matrix["KVHA-D1"] == 1.0).all()  # the reference against itself
     ws = openpyxl.load_workbook(out)["Screening"]
-    for row in ws.iter_rows(min_row=4):
+    for row in ws.iter_rows(min_row=2):
         for cell in row[1:]:
             assert (_fill(cell) == SCREEN_EXCEEDED_RGB) == (cell.value > 1.0)
     detail = pd.read_excel(out, sheet_name="Screening Detail")

@@ -102,6 +102,7 @@ def test_sheets_and_headers_follow_the_contract(written: tuple[Case, Path]) -> N
         "Governing",
         "Vehicle Summary",
         "Moment Charts",
+        "Result Guide",
         "Run Log",
     ]
     env_header = [c.value for c in wb["Envelopes"][1]]
@@ -118,8 +119,10 @@ def test_sheets_and_headers_follow_the_contract(written: tuple[Case, Path]) -> N
     react_header = [c.value for c in wb["Reactions"][1]]
     assert react_header[:3] == ["Member", "Support", "x (ft)"]
     assert "R max (kip)" in react_header and "R min direction" in react_header
-    for name in ("Envelopes", "Reactions", "Governing", "Run Log"):
-        assert wb[name].freeze_panes == "A2"
+    # One header row; the columns that say which member and where stay in view.
+    frozen = {"Envelopes": "E2", "Reactions": "D2", "Governing": "B2", "Run Log": "A2"}
+    for name, cell in frozen.items():
+        assert wb[name].freeze_panes == cell
         assert OWNER_MARK in wb[name].defined_names
 
 

@@ -20,8 +20,10 @@ from batch.rating.lrfr import (
     MemberRating,
     RatingFactors,
     VehicleEffects,
+    gross_weight,
     rate_member,
     vehicle_effects,
+    weight_in_tons,
 )
 from batch.rating.screening import MemberScreening, reference_of, screen_member
 
@@ -34,10 +36,12 @@ class AssessmentPlan:
 
     ``capacities`` holds each rated member's Capacities rows by member id;
     ``reference`` is the screening reference: a vehicle index, the load cases
-    of a library model, or None for no screening.
+    of a library model, or None for no screening. ``weights`` are the vehicles'
+    gross weights in US tons or tonnes (for posting loads).
     """
 
     categories: tuple[Category, ...]
+    weights: tuple[float, ...]
     factors: RatingFactors
     stations_per_span: int
     directions: str
@@ -56,6 +60,10 @@ class AssessmentPlan:
             capacities.setdefault(row.member, []).append(row)
         return cls(
             categories=tuple(v.category for v in case.vehicles),
+            weights=tuple(
+                weight_in_tons(gross_weight(v, case.settings.units), case.settings.units)
+                for v in case.vehicles
+            ),
             factors=RatingFactors.of(case.settings),
             stations_per_span=case.settings.stations_per_span,
             directions=case.settings.directions,
@@ -102,6 +110,7 @@ def assess_member(
             live,
             plan.categories,
             plan.factors,
+            plan.weights,
         )
     reference = _reference(member, effects, live, plan)
     screening = (

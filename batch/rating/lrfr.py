@@ -59,11 +59,11 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
 from numpy.typing import NDArray
 
-from batch.engine.envelope import CaseEffects
 from batch.engine.influence import InfluenceLines
 from batch.loads import library
 from batch.loads.cases import LoadCase
@@ -78,7 +78,11 @@ from batch.model import Capacity, Category, Member, Settings, Vehicle
 from batch.model.layout import station_row
 from batch.model.units import UnitSystem
 
+if TYPE_CHECKING:  # the compiled engine is not needed to read ratings
+    from batch.engine.envelope import CaseEffects
+
 __all__ = [
+    "FLAGS",
     "RATED_EFFECTS",
     "MemberRating",
     "RatingFactors",
@@ -115,7 +119,7 @@ class VehicleEffects:
 
     Arrays (n_vehicles, n_effects), effects laid out as in
     :class:`~batch.engine.influence.InfluenceLines`; the envelope over the
-    vehicle's load cases, factored as in :class:`~batch.engine.CaseEffects`.
+    vehicle's load cases, factored as in :class:`~batch.engine.envelope.CaseEffects`.
     """
 
     max_value: FloatArray
@@ -237,13 +241,17 @@ class MemberRating:
     ``rf_operating`` the operating-level RF of design loads at the same place
     (NaN for other categories); ``effect`` indexes :data:`RATED_EFFECTS` (-1:
     none); ``station`` is the governing station's row among the member's
-    stations (-1: none).
+    stations (-1: none). ``posting`` is the posting load of a legal load with
+    0.3 <= RF < 1 in US tons or tonnes (NaN otherwise), ``flag`` the code of its
+    note in :data:`FLAGS`.
     """
 
     rf: FloatArray
     rf_operating: FloatArray
     effect: NDArray[np.int64]
     station: NDArray[np.int64]
+    posting: FloatArray
+    flag: NDArray[np.int64]
 
 
 def _given_or(values: Sequence[float | None], computed: FloatArray) -> FloatArray:
@@ -258,10 +266,12 @@ def rate_member(
     live: VehicleEffects,
     categories: Sequence[Category],
     factors: RatingFactors,
+    weights: Sequence[float],
 ) -> MemberRating:
     """Rate every vehicle at the member's ``capacities`` stations (see the module docstring).
 
-    ``capacities`` are the Capacities rows of this member, at least one
+    ``weights`` are the vehicles' gross weights in US tons or tonnes, for the
+    posting loads. ``capacities`` are the Capacities rows of this member, at least one
     (validated: each on one of the member's stations); ``live`` the vehicles'
     effects on the member and ``categories`` their categories, in vehicle order.
     """
@@ -308,12 +318,24 @@ def rate_member(
     found = np.isfinite(governing)
     at, effect = np.divmod(best, len(RATED_EFFECTS))
     design = found & (np.array(categories) == "design")
-    operating = _ratio(numerator[n, at, effect], ll[n, at, effect] * factors.operating)
+    operating = np.where(
+        design, _ratio(numerator[n, at, effect], ll[n, at, effect] * factors.operating), np.nan
+    )
+    posting = [
+        posting_load(float(rf), w) if c == "legal" else None
+        for rf, w, c in zip(governing, weights, categories, strict=True)
+    ]
+    flags = [
+        rating_flag(c, float(rf), float(op))
+        for rf, op, c in zip(governing, operating, categories, strict=True)
+    ]
     return MemberRating(
         rf=governing,
-        rf_operating=np.where(design, operating, np.nan),
+        rf_operating=operating,
         effect=np.where(found, effect, -1),
         station=np.where(found, rows[at], -1),
+        posting=np.array([np.nan if p is None else p for p in posting], dtype=float),
+        flag=np.array([0 if f is None else FLAGS.index(f) for f in flags], dtype=np.int64),
     )
 
 
@@ -346,21 +368,34 @@ def posting_load(rf: float, weight: float) -> float | None:
     return weight / POSTING_DIVISOR * (rf - POSTING_FLOOR)
 
 
+#: The notes a governing rating may carry, by code (``MemberRating.flag``); 0 is none.
+FLAGS: tuple[str, ...] = (
+    "",
+    "loads none of the rated effects at the rated stations",
+    "factored dead load alone exceeds the capacity",
+    f"RF below {POSTING_FLOOR}: the MBE recommends considering closing the bridge to this load",
+    "RF below 1: post at the posting load",
+    "RF below 1: the permit load is not carried",
+    "below the operating level",
+    "below the inventory level",
+)
+
+
 def rating_flag(category: Category, rf: float, rf_operating: float) -> str | None:
-    """A short note on a governing RF below 1 (None when there is nothing to say)."""
+    """A short note on a governing RF (one of :data:`FLAGS`; None when there is nothing to say).
+
+    ``rf`` is ``inf`` where the vehicle loads none of the rated effects.
+    """
+    if np.isinf(rf) and rf > 0:
+        return FLAGS[1]
     if not np.isfinite(rf) or rf >= 1.0:
         return None
     if rf < 0:
-        return "factored dead load alone exceeds the capacity"
+        return FLAGS[2]
     if category == "legal":
-        if rf < POSTING_FLOOR:
-            return (
-                f"RF below {POSTING_FLOOR}: the MBE recommends considering closing the "
-                "bridge to this load"
-            )
-        return "RF below 1: post at the posting load"
+        return FLAGS[3] if rf < POSTING_FLOOR else FLAGS[4]
     if category == "permit":
-        return "RF below 1: the permit load is not carried"
+        return FLAGS[5]
     if np.isfinite(rf_operating) and rf_operating < 1.0:
-        return "below the operating level"
-    return "below the inventory level"
+        return FLAGS[6]
+    return FLAGS[7]

@@ -14,14 +14,13 @@ from batch.writing.charts import write_moment_charts
 from batch.writing.columns import (
     CHARTS_SHEET,
     GOVERNING,
+    RESULT_GUIDE,
     RESULT_TABLES,
     RUN_LOG_SHEET,
-    VEHICLE_SUMMARY_SHEET,
+    VEHICLE_SUMMARY,
 )
 from batch.writing.package.splice import BookProblem, ResultBook, ResultPackage, SourcePackage
-from batch.writing.ratings import write_assessments
 from batch.writing.runlog import InputInfo, write_run_log
-from batch.writing.summary import write_vehicle_summary
 from batch.writing.tables import MAX_DATA_ROWS, write_table
 
 __all__ = [
@@ -48,30 +47,32 @@ def write_results(
     limit of one sheet (smaller only in tests).
     """
     settings = result.case.settings
-    units = settings.unit_labels
     remarks = list(notes)
     for table in RESULT_TABLES:
-        written = write_table(book, table, result.envelopes, units, max_rows)
-        if len(written.sheets) > 1:
-            remarks.append(
-                f"{table.sheet} has {written.rows} rows, more than one sheet holds "
-                f"({max_rows} below the header); they continue on "
-                f"{', '.join(written.sheets[1:])}. A member's rows are never split."
-            )
-    if not write_vehicle_summary(book, result, units):
+        if table.wanted(result):
+            written = write_table(book, table, result, max_rows)
+            remarks += [written.remark] if written.remark else []
+    if result.peaks is None:
         remarks.append(
-            f"{VEHICLE_SUMMARY_SHEET}: {result.n_members * result.n_vehicles} member-vehicle "
+            f"{VEHICLE_SUMMARY.sheet}: {result.n_members * result.n_vehicles} member-vehicle "
             "rows are more than one sheet holds; they are in the checkpoint store "
             f"{result.store.name if result.store else '(none: the run used --no-store)'}, "
             "view vehicle_summary."
         )
-    remarks += write_assessments(book, result, max_rows)
+    rated = sum(a.rating is not None for a in result.assessments)
+    if 0 < rated < result.n_members:
+        remarks.append(
+            f"{result.n_members - rated} of {result.n_members} members have no Capacities rows "
+            "and are not rated."
+        )
+    units = settings.unit_labels
     charted = write_moment_charts(book, result.envelopes, units, settings.chart_members)
     if charted < result.n_members:
         remarks.append(
             f"{CHARTS_SHEET} shows {charted} of {result.n_members} members; set "
             "'Chart members' in Settings to chart more."
         )
+    write_table(book, RESULT_GUIDE, result, max_rows)
     sheets = (*book.names, RUN_LOG_SHEET)
     write_run_log(book, result, info, sheets, remarks)
     return book.names

@@ -1,29 +1,33 @@
-"""The tabular result sheets (Envelopes, Reactions, Governing), streamed member by member.
+"""Every declared result sheet, streamed block by block (one member at a time).
 
-Columns come from :mod:`batch.writing.columns`, each declared once. Every sheet gets a
-bold header row with units, a frozen header, an autofilter over the data and the
-declared widths and number formats (text columns use the text format ``@``).
-Text is always written as a text cell, so an id such as ``=cmd|...`` can never
-become a live formula.
+The tables and their columns come from :mod:`batch.writing.columns`, each declared
+once. Every sheet gets one bold header row with units, frozen with the table's
+identifying columns, an autofilter over the data and the declared widths and
+number formats (text columns use the text format ``@``). Text is always written
+as a text cell, so an id such as ``=cmd|...`` can never become a live formula.
 
 For each member, the cell holding the member's governing (extreme) value of each
 highlighted effect, and its vehicle, position and direction cells in the same
 row, get the highlight: the soft amber fill
-:data:`~batch.writing.package.styles.HIGHLIGHT_RGB` and bold type. The governing row is
-known before the member's rows are written (:func:`batch.engine.effects.governing_row`),
-so rows go out strictly top to bottom.
+:data:`~batch.writing.package.styles.HIGHLIGHT_RGB` and bold type. A column with a
+``fill`` rule colours each cell by its value (rating factors by band). The marks
+of a block are known before its rows are written, so rows go out strictly top to
+bottom.
 """
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
+from typing import TYPE_CHECKING, Any
 
-from batch.engine.effects import MemberEnvelope, effect_named, governing_row
-from batch.writing.columns import FORMAT_TEXT, ResultColumn, ResultTable
+from batch.writing.declare import FORMAT_TEXT, WEIGHT_LABELS, AnyTable, ResultColumn
 from batch.writing.package.splice import OWNER_MARK, ResultBook
-from batch.writing.package.stream import MAX_ROWS, SheetStream
+from batch.writing.package.stream import MAX_COLUMNS, MAX_ROWS, SheetStream
 from batch.writing.package.styles import HIGHLIGHT_RGB, CellFormat, StyleSheet, highlighted
+
+if TYPE_CHECKING:
+    from batch.running.executor import RunResult
 
 __all__ = [
     "HIGHLIGHT_RGB",
@@ -41,81 +45,130 @@ MAX_DATA_ROWS = MAX_ROWS - 1
 
 @dataclass(frozen=True, kw_only=True)
 class WrittenTable:
-    """Where a table went: its sheets in order and how many data rows in all."""
+    """Where a table went: its sheets in order and how many data rows in all.
+
+    ``remark`` says, for the Run Log, why a table was not written (or how it
+    continued); empty when there is nothing to say.
+    """
 
     sheets: tuple[str, ...]
     rows: int
+    remark: str = ""
 
 
-def column_format(col: ResultColumn) -> CellFormat:
+def column_format(col: ResultColumn[Any]) -> CellFormat:
     """The cell format of a result column's data cells."""
     return CellFormat(number_format=FORMAT_TEXT if col.text else col.number_format)
 
 
 def write_header(
-    ws: SheetStream, columns: Sequence[ResultColumn], unit_labels: dict[str, str]
+    ws: SheetStream,
+    columns: Sequence[ResultColumn[Any]],
+    unit_labels: Mapping[str, str],
+    frozen_columns: int = 0,
 ) -> None:
     """Header row of result columns: titles with units, bold on the header fill, frozen."""
-    ws.header([col.title(unit_labels) for col in columns], [col.width for col in columns])
+    titles = [col.title(unit_labels) for col in columns]
+    ws.header(titles, [col.width for col in columns], min(frozen_columns, len(columns)))
 
 
-# ---------------------------------------------------------------- tables
+class _Styles:
+    """Each column's plain and highlighted style index, and its fills, made once per sheet."""
+
+    def __init__(self, styles: StyleSheet, columns: Sequence[ResultColumn[Any]]) -> None:
+        self.sheet = styles
+        self.formats = [column_format(col) for col in columns]
+        self.plain = [styles.xf(f) for f in self.formats]
+        self.marked = [styles.xf(highlighted(f)) for f in self.formats]
+        self._filled: dict[tuple[int, str], int] = {}
+
+    def filled(self, j: int, rgb: str) -> int:
+        key = (j, rgb)
+        if key not in self._filled:
+            fmt = self.formats[j]
+            self._filled[key] = self.sheet.xf(
+                CellFormat(number_format=fmt.number_format, bold=fmt.bold, fill=rgb)
+            )
+        return self._filled[key]
 
 
-def _styles(styles: StyleSheet, columns: Sequence[ResultColumn]) -> tuple[list[int], list[int]]:
-    """Each column's plain and highlighted style index."""
-    formats = [column_format(col) for col in columns]
-    return [styles.xf(f) for f in formats], [styles.xf(highlighted(f)) for f in formats]
+def _marks(
+    table: AnyTable,
+    columns: Sequence[ResultColumn[Any]],
+    block: object,
+    cells: Sequence[Sequence[object]],
+    styles: _Styles,
+) -> dict[tuple[int, int], int]:
+    """Cells of one block with a style of their own: fills by value, then highlights."""
+    marks: dict[tuple[int, int], int] = {}
+    for j, col in enumerate(columns):
+        if col.fill is not None:
+            for i, value in enumerate(cells[j]):
+                rgb = col.fill(value)
+                if rgb is not None:
+                    marks[i, j] = styles.filled(j, rgb)
+    for name, rule in table.highlights.items():
+        row = rule(block)
+        if row is not None:
+            marks.update(
+                {(row, j): styles.marked[j] for j, c in enumerate(columns) if c.highlight == name}
+            )
+    return marks
 
 
 def write_table(
-    book: ResultBook,
-    table: ResultTable,
-    envelopes: Sequence[MemberEnvelope],
-    unit_labels: dict[str, str],
-    max_rows: int = MAX_DATA_ROWS,
+    book: ResultBook, table: AnyTable, result: RunResult, max_rows: int = MAX_DATA_ROWS
 ) -> WrittenTable:
-    """Write ``table`` for every member, continuing on ``<sheet> 2``, … past ``max_rows``.
+    """Write ``table`` for ``result``; past ``max_rows`` it continues on ``<sheet> 2``, ….
 
-    A member's rows always stay together on one sheet. Returns the sheets
-    written and the row count.
+    A member's rows always stay together on one sheet. A table whose overflow is
+    ``store`` is left out instead when it does not fit on one sheet (rows or
+    columns), with a remark. Returns the sheets written and the row count.
     """
-    columns = table.columns
-    plain, marked = _styles(book.styles, columns)
-    effects = {
-        effect_named(name): [j for j, col in enumerate(columns) if col.effect == name]
-        for name in table.highlights
-    }
+    case = result.case
+    columns = table.all_columns(case)
+    expected = table.rows(result)
+    too_big = expected > max_rows and table.overflow == "store"
+    if too_big or len(columns) > MAX_COLUMNS:
+        return WrittenTable(
+            sheets=(),
+            rows=0,
+            remark=f"{table.sheet} is not written: {expected} rows of {len(columns)} columns are "
+            "more than a sheet holds; its numbers are in the checkpoint store "
+            f"{result.store.name if result.store else '(none: the run used --no-store)'}.",
+        )
+    units = {**case.settings.unit_labels, "weight": WEIGHT_LABELS[case.settings.units]}
+    styles = _Styles(book.styles, columns)
     sheets: list[str] = []
     on_sheet = total = 0
-    expected = sum(len(columns[0].values(env)) for env in envelopes)
 
     def next_sheet() -> SheetStream:
         name = table.sheet if not sheets else f"{table.sheet} {len(sheets) + 1}"
-        rows = min(max_rows, expected - total) + 1
+        rows = min(max_rows, max(expected - total, 0)) + 1
         ws = book.new_sheet(name, rows=rows, columns=len(columns))
-        write_header(ws, columns, unit_labels)
+        write_header(ws, columns, units, table.frozen_columns)
         ws.autofilter = True
         sheets.append(name)
         return ws
 
     ws = next_sheet()
-    for env in envelopes:
-        block = [col.values(env) for col in columns]
-        n = len(block[0])
-        if any(len(values) != n for values in block):
-            raise ValueError(f"{table.sheet}: columns of member {env.member!r} differ in length")
+    for block in table.blocks(result):
+        cells = [col.values(block) for col in columns]
+        n = len(cells[0])
+        if any(len(values) != n for values in cells):
+            raise ValueError(f"{table.sheet}: the columns of one member's rows differ in length")
         if n > max_rows:
-            raise ValueError(f"member {env.member!r} has more rows than one sheet holds")
+            raise ValueError(f"{table.sheet}: one member has more rows than one sheet holds")
         if on_sheet + n > max_rows:
             ws = next_sheet()
             on_sheet = 0
-        marks: dict[tuple[int, int], int] = {}
-        for effect, cols in effects.items():
-            i = governing_row(effect, env)
-            if i is not None:
-                marks.update({(i, j): marked[j] for j in cols})
-        ws.block(block, plain, marks)
+        ws.block(cells, styles.plain, _marks(table, columns, block, cells, styles))
         on_sheet += n
         total += n
-    return WrittenTable(sheets=tuple(sheets), rows=total)
+    remark = ""
+    if len(sheets) > 1:
+        remark = (
+            f"{table.sheet} has {total} rows, more than one sheet holds ({max_rows} below the "
+            f"header); they continue on {', '.join(sheets[1:])}. A member's rows are never split."
+        )
+    return WrittenTable(sheets=tuple(sheets), rows=total, remark=remark)

@@ -113,13 +113,18 @@ class SheetStream:
         self._before_rows("frozen panes")
         self._frozen = (rows, cols)
 
-    def header(self, titles: Sequence[str], widths: Sequence[float]) -> None:
-        """Row 1: bold titles on the header fill; widths at least the titles'; row 1 frozen."""
+    def header(
+        self, titles: Sequence[str], widths: Sequence[float], frozen_columns: int = 0
+    ) -> None:
+        """Row 1: bold titles on the header fill; widths at least the titles'.
+
+        Row 1 and the first ``frozen_columns`` columns stay in view while scrolling.
+        """
         if len(titles) != len(widths):
             raise ValueError(f"{self.name}: {len(titles)} titles but {len(widths)} widths")
         fits = [round(max(w, len(t) * 0.9 + 2), 1) for t, w in zip(titles, widths, strict=True)]
         self.columns(fits)
-        self.freeze(1, 0)
+        self.freeze(1, frozen_columns)
         self.row(titles, [self.header_style] * len(titles))
 
     def _before_rows(self, what: str) -> None:
