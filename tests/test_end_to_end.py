@@ -21,6 +21,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 import pytest
+from tolerances import REL_TOL_EXACT
 
 from batch.engine.effects import EFFECTS
 from batch.engine.envelope import member_envelope
@@ -29,8 +30,6 @@ from batch.validating import read_input
 from batch.writing.columns import direction_text
 
 SAMPLES = Path(__file__).resolve().parent.parent / "sample_workbooks"
-REL_TOL_EXACT = 1e-9  # the sheets carry the engine's float64 numbers unchanged
-REL_TOL_CLOSED_FORM = 1e-9  # exact engine against an exact closed form
 
 
 def _spanfleet(*args: str) -> subprocess.CompletedProcess[str]:
@@ -135,12 +134,12 @@ def test_design_truck_closed_forms_through_the_command(tmp_path: Path, make_work
     env = pd.read_excel(book, sheet_name="Envelopes")
     mid = env[env["Station"] == 0.5].iloc[0]
     # published-facts 3.2: truck midspan moment 18 L - 280 (L >= 28 ft).
-    assert mid["M max (kip-ft)"] == pytest.approx(18 * length - 280, rel=REL_TOL_CLOSED_FORM)
+    assert mid["M max (kip-ft)"] == pytest.approx(18 * length - 280, rel=REL_TOL_EXACT)
     end = env[env["Station"] == 0.0].iloc[0]
     # published-facts 3.2: end shear 72 - 672 / L; heavy axles lead into the span.
-    assert end["V max (kip)"] == pytest.approx(72 - 672 / length, rel=REL_TOL_CLOSED_FORM)
+    assert end["V max (kip)"] == pytest.approx(72 - 672 / length, rel=REL_TOL_EXACT)
     react = pd.read_excel(book, sheet_name="Reactions")
-    assert react["R max (kip)"].iloc[0] == pytest.approx(72 - 672 / length, rel=REL_TOL_CLOSED_FORM)
+    assert react["R max (kip)"].iloc[0] == pytest.approx(72 - 672 / length, rel=REL_TOL_EXACT)
 
 
 def test_exit_statuses_of_the_installed_module(tmp_path: Path, make_workbook) -> None:

@@ -26,14 +26,13 @@ import numpy as np
 import pytest
 from numpy.typing import NDArray
 from scipy.optimize import minimize_scalar
+from tolerances import REL_TOL_EXACT
 
 from batch.engine.influence import InfluenceLines, influence_lines
 from batch.engine.moving import AxleExtremes, axle_extremes
 from batch.model import AxleTrain
 from batch.model.layout import POSITION_TOL, mechanism_parts
 
-#: Exact method against polished search: agreement relative to the natural size.
-REL_TOL_EXACT = 1e-9
 #: Grid step of the front axle and of a ranged spacing (length units, ft).
 STEP = 0.05
 #: Local polishing tolerance on the offset from a grid point (length units).

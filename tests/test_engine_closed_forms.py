@@ -23,18 +23,11 @@ from __future__ import annotations
 import numpy as np
 import pytest
 from numpy.typing import NDArray
+from tolerances import REL_TOL_EXACT, TABLE_TOL_2DP, TABLE_TOL_4DP
 
 from batch.engine.influence import InfluenceLines, influence_lines
 from batch.engine.moving import axle_extremes
 from batch.model import AxleTrain
-
-#: Exact arithmetic against closed forms: agreement relative to the natural size.
-REL_TOL_EXACT = 1e-9
-#: Published four-decimal influence ordinates: the table states them to +-0.0002
-#: of the span (moments) or of the unit load (reactions).
-TABLE_TOL_4DP = 2e-4
-#: Published two-decimal values in kip-ft: half a unit in the last place.
-TABLE_TOL_2DP = 0.005
 
 #: HS20 truck (AASHTO Standard Specifications 3.7.4): axles front first (kip), spacings (ft).
 HS20_LOADS = (8.0, 32.0, 32.0)

@@ -29,6 +29,7 @@ import re
 
 import numpy as np
 import pytest
+from tolerances import REL_TOL_EXACT
 
 from batch.engine.envelope import member_envelope
 from batch.engine.influence import UnstableMemberError, influence_lines
@@ -37,8 +38,6 @@ from batch.loads.cases import LoadCase
 from batch.model import AxleTrain, Member
 from batch.model.case import MAX_RANGES
 
-#: Exact statics against the engine, relative to the effect's natural size.
-REL_TOL_EXACT = 1e-9
 NAN = math.nan
 INF = math.inf
 

@@ -22,16 +22,13 @@ from dataclasses import dataclass
 import numpy as np
 import pytest
 from numpy.typing import NDArray
+from tolerances import REL_TOL_EXACT, REL_TOL_LIBRARY
 
 from batch.engine.influence import InfluenceLines, influence_lines
 from batch.model.layout import mechanism_parts
 
 Pynite = pytest.importorskip("Pynite")
 
-#: FE library against the exact engine, relative to the natural size of each effect.
-REL_TOL_EXACT = 1e-9
-#: Hand answers against the FE library itself.
-REL_TOL_LIBRARY = 1e-11
 #: Two positions closer than this (length units) are the same node.
 SAME_NODE = 1e-9
 

@@ -24,6 +24,7 @@ from __future__ import annotations
 import numpy as np
 from hypothesis import given, settings
 from hypothesis import strategies as st
+from tolerances import REL_TOL_EXACT
 
 from batch.engine.influence import InfluenceLines, influence_lines
 from batch.engine.kernel import chain_extremes
@@ -31,8 +32,6 @@ from batch.engine.moving import AxleExtremes, axle_extremes
 from batch.model import AxleTrain
 from batch.model.layout import POSITION_TOL, mechanism_parts
 
-#: Exact method: agreement relative to each effect's natural size.
-REL_TOL_EXACT = 1e-9
 EXAMPLES = settings(max_examples=30, deadline=None, derandomize=True)
 
 Member = tuple[list[float], list[float], list[float], int]

@@ -222,8 +222,8 @@ def test_shared_strings_without_entities_read_normally(make_workbook, tmp_path):
 
 
 def test_row_and_column_caps(make_workbook, tmp_path, monkeypatch):
-    monkeypatch.setattr(workbook, "MAX_ROWS", 3)
-    monkeypatch.setattr(workbook, "MAX_COLUMNS", 4)
+    monkeypatch.setattr(workbook, "MAX_INPUT_ROWS", 3)
+    monkeypatch.setattr(workbook, "MAX_INPUT_COLUMNS", 4)
     members = [{"Member": f"KV-{i:04d} G1", "Spans": 40} for i in range(5)]
     members[0] |= {"Hinges": None, "Span EI": None, "DF moment": None}
     path = make_workbook(tmp_path, members=members)
@@ -236,7 +236,7 @@ def test_row_and_column_caps(make_workbook, tmp_path, monkeypatch):
 
 
 def test_rows_within_the_cap_are_read(make_workbook, tmp_path, monkeypatch):
-    monkeypatch.setattr(workbook, "MAX_ROWS", 5)
+    monkeypatch.setattr(workbook, "MAX_INPUT_ROWS", 5)
     members = [{"Member": f"KV-{i:04d} G1", "Spans": 40} for i in range(5)]
     report = read_input(make_workbook(tmp_path, members=members))
     assert report.ok

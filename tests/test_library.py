@@ -13,6 +13,7 @@ import math
 from fractions import Fraction
 
 import pytest
+from tolerances import REL_TOL_EXACT, REL_TOL_FLOAT
 
 from batch.engine.envelope import member_envelope
 from batch.loads import library
@@ -20,9 +21,6 @@ from batch.loads.fleet import fleet_cases
 from batch.loads.library.models import part
 from batch.model import Member, Settings, Vehicle
 from batch.model.units import KN_PER_KIP, M_PER_FT, conversion
-
-REL_TOL_EXACT = 1e-12  # exact data, exact arithmetic
-REL_TOL_ENGINE = 1e-9  # the same effects computed in two unit systems
 
 # name: (axle loads front first, spacings as (low, high), total weight, where from)
 US_DEFINITIONS = {
@@ -70,7 +68,7 @@ def test_us_model_axles_spacings_and_weight(name):
     part = _principal(name)
     assert part.train.loads == tuple(float(p) for p in loads)
     assert tuple(zip(part.train.low, part.train.high, strict=True)) == spacings
-    assert math.isclose(part.weight, weight, rel_tol=REL_TOL_EXACT)
+    assert math.isclose(part.weight, weight, rel_tol=REL_TOL_FLOAT)
     assert library.model(name).units == "US"
 
 
@@ -80,7 +78,7 @@ def test_si_model_axles_spacings_and_weight(name):
     part = _principal(name)
     assert part.train.loads == tuple(float(p) for p in loads)
     assert tuple(zip(part.train.low, part.train.high, strict=True)) == spacings
-    assert math.isclose(part.weight, weight, rel_tol=REL_TOL_EXACT)
+    assert math.isclose(part.weight, weight, rel_tol=REL_TOL_FLOAT)
     assert library.model(name).units == "SI"
 
 
@@ -88,7 +86,7 @@ def test_cl625_axles_are_the_published_fractions_of_w():
     # CSA S6 CL-W truck: axle loads 0.08W, 0.2W, 0.2W, 0.28W, 0.24W. [M]
     fractions = (0.08, 0.20, 0.20, 0.28, 0.24)
     for load, f in zip(_principal("CL-625").train.loads, fractions, strict=True):
-        assert math.isclose(load, f * 625.0, rel_tol=REL_TOL_EXACT)
+        assert math.isclose(load, f * 625.0, rel_tol=REL_TOL_FLOAT)
 
 
 def test_hl93_parts_follow_lrfd_3_6_1():
@@ -145,7 +143,7 @@ def test_cl625_parts_and_dynamic_load_allowance():
     assert (parts["axle 4"].train.loads, parts["axle 4"].impact) == ((175.0,), 0.50)
     lane = parts["lane"]
     for a, b in zip(lane.train.loads, truck.train.loads, strict=True):
-        assert math.isclose(a, 0.8 * b, rel_tol=REL_TOL_EXACT)
+        assert math.isclose(a, 0.8 * b, rel_tol=REL_TOL_FLOAT)
     assert (lane.lane_load, lane.impact) == (9.0, 0.0)
 
 
@@ -153,7 +151,7 @@ def test_lm1_lane_load_is_9_kn_per_m2_over_a_3_m_lane_with_no_added_dynamic_allo
     # EN 1991-2 Table 4.2: q1k = 9 kN/m2, notional lane 3 m; dynamic amplification
     # included in the characteristic values. [F S23 for LM1/LM2 wording; 9 kN/m2 seen]
     lm1 = _principal("LM1")
-    assert math.isclose(lm1.lane_load, 9.0 * 3.0, rel_tol=REL_TOL_EXACT)
+    assert math.isclose(lm1.lane_load, 9.0 * 3.0, rel_tol=REL_TOL_FLOAT)
     assert lm1.impact == 0.0
 
 
@@ -214,7 +212,7 @@ def test_fleet_cases_prefix_the_vehicle_id():
     vehicle = Vehicle(id="KV-DESIGN", library="hl93", factor=1.1)
     cases = fleet_cases((vehicle,), Settings())
     assert cases[1].label == "KV-DESIGN: HL-93 (tandem + lane)"
-    assert math.isclose(cases[2].factor, 0.9 * 1.1, rel_tol=REL_TOL_EXACT)
+    assert math.isclose(cases[2].factor, 0.9 * 1.1, rel_tol=REL_TOL_FLOAT)
 
 
 def test_fleet_cases_keep_the_drop_adverse_axles_rule():
@@ -229,7 +227,7 @@ def test_describe_lists_every_model_with_weight_in_the_asked_units():
     assert (by_name["HL-93"].axles, by_name["HL-93"].weight) == (3, 72.0)
     assert (by_name["LM1"].axles, by_name["LM1"].weight) == (2, 600.0 / KN_PER_KIP)
     si = {r.name: r for r in library.describe("SI")}
-    assert math.isclose(si["HS20"].weight, 72.0 * KN_PER_KIP, rel_tol=REL_TOL_EXACT)
+    assert math.isclose(si["HS20"].weight, 72.0 * KN_PER_KIP, rel_tol=REL_TOL_FLOAT)
     assert all(r.source for r in rows)
 
 
@@ -238,16 +236,16 @@ def test_conversion_factors_are_the_exact_definitions():
     assert (KN_PER_KIP, M_PER_FT) == (4.4482216152605, 0.3048)
     there = conversion("US", "SI")
     back = conversion("SI", "US")
-    assert math.isclose(there.line_load, 4.4482216152605 / 0.3048, rel_tol=REL_TOL_EXACT)
-    assert math.isclose(there.force * back.force, 1.0, rel_tol=REL_TOL_EXACT)
-    assert math.isclose(there.length * back.length, 1.0, rel_tol=REL_TOL_EXACT)
+    assert math.isclose(there.line_load, 4.4482216152605 / 0.3048, rel_tol=REL_TOL_FLOAT)
+    assert math.isclose(there.force * back.force, 1.0, rel_tol=REL_TOL_FLOAT)
+    assert math.isclose(there.length * back.length, 1.0, rel_tol=REL_TOL_FLOAT)
 
 
 def test_hl93_converted_to_si_is_exact():
     (truck, *_) = library.model_cases("HL-93", "SI", 0.33)
-    assert math.isclose(truck.train.loads[1], 32 * 4.4482216152605, rel_tol=REL_TOL_EXACT)
-    assert math.isclose(truck.train.high[1], 30 * 0.3048, rel_tol=REL_TOL_EXACT)
-    assert math.isclose(truck.lane_load, 0.64 * 4.4482216152605 / 0.3048, rel_tol=REL_TOL_EXACT)
+    assert math.isclose(truck.train.loads[1], 32 * 4.4482216152605, rel_tol=REL_TOL_FLOAT)
+    assert math.isclose(truck.train.high[1], 30 * 0.3048, rel_tol=REL_TOL_FLOAT)
+    assert math.isclose(truck.lane_load, 0.64 * 4.4482216152605 / 0.3048, rel_tol=REL_TOL_FLOAT)
 
 
 @pytest.mark.parametrize("name", ["HL-93", "Legal lane", "CL-625", "LM1"])
@@ -275,7 +273,7 @@ def test_si_and_us_runs_give_the_same_effects(name):
         scale = max(abs(a.value).max(), 1.0)
         # Values only: where two parts tie (e.g. CL-625 axles 1-2 and 1-3 with axle 3
         # off the member) round-off may name either.
-        assert abs(a.value * factor - b.value).max() <= REL_TOL_ENGINE * scale * factor
+        assert abs(a.value * factor - b.value).max() <= REL_TOL_EXACT * scale * factor
 
 
 @pytest.mark.parametrize("name", library.names())
@@ -302,7 +300,7 @@ def test_every_part_gives_the_statics_end_shear_on_a_long_simple_span(name):
         )
         expected = case.factor * ((1 + case.impact) * axles + case.lane_load * span / 2)
         env = member_envelope(Member(id="KV-S9", spans=(span,)), [case], 1)
-        assert math.isclose(env.v_max.value[0], expected, rel_tol=REL_TOL_EXACT)
+        assert math.isclose(env.v_max.value[0], expected, rel_tol=REL_TOL_FLOAT)
 
 
 @pytest.fixture(scope="module")
@@ -327,7 +325,7 @@ def test_nrl_envelopes_su4_to_su7_on_simple_spans(nrl_and_shvs_on_simple_spans):
             for family in ("m_max", "v_max", "r_max"):
                 scale = getattr(nrl, family).value.max()
                 gap = getattr(envs[su], family).value - getattr(nrl, family).value
-                assert gap.max() <= REL_TOL_ENGINE * scale
+                assert gap.max() <= REL_TOL_EXACT * scale
 
 
 @pytest.mark.parametrize(
@@ -349,7 +347,7 @@ def test_nrl_and_su7_absolute_maximum_moment_at_40_ft(name, x, moment):
         Member(id="KV-NRL", spans=(40.0,)), library.model_cases(name, "US", 0.0), where.denominator
     )
     assert abs(env.m_max.value[where.numerator] - moment) <= 0.05  # printed to one decimal
-    assert env.m_max.value.max() <= env.m_max.value[where.numerator] * (1 + REL_TOL_ENGINE)
+    assert env.m_max.value.max() <= env.m_max.value[where.numerator] * (1 + REL_TOL_EXACT)
 
 
 @pytest.mark.parametrize(

@@ -25,6 +25,7 @@ import math
 
 import numpy as np
 import pytest
+from tolerances import REL_TOL_EXACT, REL_TOL_GRID
 
 from batch.engine.envelope import member_envelope
 from batch.loads import library
@@ -32,8 +33,6 @@ from batch.model import Member
 
 IM = 0.33
 LANE = 0.64  # kip/ft
-REL_TOL_EXACT = 1e-9  # hand arithmetic against the exact engine
-REL_TOL_GRID = 1e-3  # brute force on a 0.1 ft / 0.5 ft grid against the exact engine
 TRUCK = (8.0, 32.0, 32.0)
 STEP = 0.1  # ft, brute-force position step
 

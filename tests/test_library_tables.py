@@ -15,6 +15,7 @@ import math
 from fractions import Fraction
 
 import pytest
+from tolerances import REL_TOL_EXACT
 
 from batch.engine.envelope import member_envelope
 from batch.loads import library
@@ -22,7 +23,6 @@ from batch.model import Member
 
 HALF_UNIT_1DP = 0.05  # a value printed with one decimal
 HALF_UNIT_2DP = 0.005  # a value printed with two decimals
-REL_TOL_EXACT = 1e-9  # closed form against the exact engine
 
 
 def _envelope(name: str, span: Fraction | int, stations: int, impact: float = 0.0):

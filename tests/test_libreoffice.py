@@ -36,6 +36,7 @@ from pathlib import Path
 
 import openpyxl
 import pytest
+from tolerances import REL_TOL_15_DIGITS
 
 from batch.command.cli import EXIT_OK, main
 from batch.validating import read_input
@@ -51,10 +52,6 @@ pytestmark = [
     ),
 ]
 
-#: LibreOffice writes numbers with 15 significant digits (the usual spreadsheet precision,
-#: from memory): a round trip may move a value by half a unit in the 15th digit, a relative
-#: 5e-15; twice that, for the binary representation on either side.
-REL_TOL_15_DIGITS = 1e-14
 #: Every sheet to its own UTF-8 CSV file, values unformatted (see the module docstring).
 CSV_EVERY_SHEET = "csv:Text - txt - csv (StarCalc):44,34,76,1,,0,false,true,false,false,false,-1"
 #: Longest one LibreOffice conversion may take (a first start builds its profile).

@@ -24,6 +24,7 @@ import pandas as pd
 import pytest
 from defusedxml import ElementTree
 from openpyxl import load_workbook
+from tolerances import REL_TOL_EXACT
 
 from batch.engine.effects import EFFECTS, effect_named, governing_row
 from batch.engine.envelope import member_envelope
@@ -37,9 +38,6 @@ from batch.writing.package.splice import SourcePackage, empty_package
 from batch.writing.results import result_package
 from batch.writing.runlog import InputInfo
 from batch.writing.tables import HIGHLIGHT_RGB, OWNER_MARK
-
-REL_TOL_EXACT = 1e-9  # the sheets carry the engine's float64 numbers unchanged
-REL_TOL_CLOSED_FORM = 1e-9  # exact engine against an exact closed form
 
 P_AXLE = 20.0  # kip, one-axle test vehicle
 CHART_NS = "http://schemas.openxmlformats.org/drawingml/2006/chart"
@@ -190,21 +188,21 @@ def test_single_axle_closed_forms_reach_the_sheets(tmp_path: Path) -> None:
     wb = load_workbook(_write(tmp_path, case))
     gov = {row["Member"]: row for row in _rows(wb["Governing"])}
     # AISC beam diagrams, simple beam, concentrated load at centre: M = P L / 4.
-    assert gov["S"]["M max (kip-ft)"] == pytest.approx(P_AXLE * 40.0 / 4, rel=REL_TOL_CLOSED_FORM)
+    assert gov["S"]["M max (kip-ft)"] == pytest.approx(P_AXLE * 40.0 / 4, rel=REL_TOL_EXACT)
     assert gov["S"]["M max station"] == pytest.approx(0.5)
     assert gov["S"]["M max at (ft)"] == pytest.approx(20.0)
     # Same source, load at the support: V = R = P.
-    assert gov["S"]["V max (kip)"] == pytest.approx(P_AXLE, rel=REL_TOL_CLOSED_FORM)
-    assert gov["S"]["R max (kip)"] == pytest.approx(P_AXLE, rel=REL_TOL_CLOSED_FORM)
+    assert gov["S"]["V max (kip)"] == pytest.approx(P_AXLE, rel=REL_TOL_EXACT)
+    assert gov["S"]["R max (kip)"] == pytest.approx(P_AXLE, rel=REL_TOL_EXACT)
     # No hogging on a simple span: value 0, vehicle and position empty (contract).
     assert gov["S"]["M min (kip-ft)"] == 0
     assert gov["S"]["M min vehicle"] is None and gov["S"]["M min at (ft)"] is None
     # Two equal spans: least M_B = -P L / (6 sqrt 3), load at L / sqrt 3 (published-facts 3.3).
     m_b = -P_AXLE * length / (6 * math.sqrt(3))
-    assert gov["C2"]["M min (kip-ft)"] == pytest.approx(m_b, rel=REL_TOL_CLOSED_FORM)
+    assert gov["C2"]["M min (kip-ft)"] == pytest.approx(m_b, rel=REL_TOL_EXACT)
     assert gov["C2"]["M min x (ft)"] == pytest.approx(length)
     at = gov["C2"]["M min at (ft)"]
-    assert min(at, 2 * length - at) == pytest.approx(length / math.sqrt(3), rel=REL_TOL_CLOSED_FORM)
+    assert min(at, 2 * length - at) == pytest.approx(length / math.sqrt(3), rel=REL_TOL_EXACT)
 
 
 def test_governing_equals_the_highlighted_cells(written: tuple[Case, Path]) -> None:

@@ -8,6 +8,7 @@ import numpy as np
 import openpyxl
 import pytest
 from generated_workbooks import assert_same_workbook, read_input_or_skip
+from tolerances import REL_TOL_EXACT
 
 from batch.demo.kvha import KVHA_INVENTORY, KVHA_SI_DEMO, SAMPLE_WORKBOOKS
 from batch.engine.envelope import member_envelope
@@ -19,7 +20,6 @@ from batch.model.sheets import MEMBERS, VEHICLES
 from batch.writing.template import write_case_workbook
 
 SAMPLES_DIR = Path(__file__).resolve().parent.parent / "sample_workbooks"
-REL_TOL_EXACT = 1e-9
 # Plausible live-load distribution factors per girder (common practice: 0.5 to 0.8 lanes).
 DF_RANGE = (0.5, 0.8)
 

@@ -71,8 +71,10 @@ class MemberEnvelope:
     r_min: Governing
 
 
-#: Two candidate governing values within this fraction of the extreme are a tie; the first wins.
-TIE_REL_TOL = 1e-9
+#: Two candidate governing values (load cases at one station, or stations of one member)
+#: within this fraction of the extreme are a tie, and the first wins: round-off is not a
+#: difference, so a symmetric member names the same vehicle and station every time.
+TIE_REL_TOL = 1e-12
 
 
 @dataclass(frozen=True, kw_only=True)

@@ -24,7 +24,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from batch.engine.effects import Governing, MemberEnvelope
+from batch.engine.effects import TIE_REL_TOL, Governing, MemberEnvelope
 from batch.engine.influence import InfluenceLines, influence_lines
 from batch.engine.moving import (
     LEFT_TO_RIGHT,
@@ -45,8 +45,6 @@ __all__ = [
 
 #: An extreme smaller than this fraction of the case's natural size is round-off, not an effect.
 ZERO_TOL = 1e-10
-#: Two cases whose extremes differ by less than this fraction are tied (the first wins).
-TIE_REL_TOL = 1e-12
 
 DIRECTION_CODES: dict[str, tuple[int, ...]] = {
     "both": (LEFT_TO_RIGHT, RIGHT_TO_LEFT),

@@ -33,7 +33,7 @@ _DESCRIPTION = (
 )
 
 
-def _number(col: InputColumn) -> dict[str, Any]:
+def _number_rule(col: InputColumn) -> dict[str, Any]:
     rule: dict[str, Any] = {"type": "integer" if col.whole else "number"}
     for key, value in (
         ("minimum", col.minimum),
@@ -55,9 +55,9 @@ def _value(col: InputColumn) -> dict[str, Any]:
     elif col.kind == "choice":
         rule = {"enum": list(col.choices)}
     elif col.kind == "number":
-        rule = _number(col)
+        rule = _number_rule(col)
     else:
-        item = _number(col)
+        item = _number_rule(col)
         if col.kind == "spacing-list":
             span = {
                 "description": "A spacing that may vary between low and high "

@@ -123,7 +123,7 @@ def _number_token(token: str, whole: str) -> float | int | Note:
     return int(token) if token.lstrip("+-").isdigit() else number
 
 
-def _number(value: object) -> CellValue:
+def _cell_number(value: object) -> CellValue:
     common = _common(value)
     if common is not ...:
         return common
@@ -248,7 +248,7 @@ def read_cell(
     one number); ``choices`` the allowed spellings of a ``choice`` cell.
     """
     if kind == "number":
-        return _number(value)
+        return _cell_number(value)
     if kind in ("list", "spacing-list"):
         return _list(value, number_format, ranges=kind == "spacing-list")
     if kind == "choice":

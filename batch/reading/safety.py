@@ -21,9 +21,9 @@ from pathlib import Path
 from batch.reading.problems import Problem, file_problem
 
 __all__ = [
-    "MAX_COLUMNS",
     "MAX_FILE_BYTES",
-    "MAX_ROWS",
+    "MAX_INPUT_COLUMNS",
+    "MAX_INPUT_ROWS",
     "MAX_UNCOMPRESSED_BYTES",
     "MAX_ZIP_MEMBERS",
     "WORKBOOK_SUFFIXES",
@@ -47,9 +47,9 @@ ZIP_RATIO_FLOOR = 16 * 2**20
 #: Most members in a workbook's zip archive.
 MAX_ZIP_MEMBERS = 10_000
 #: Most data rows read from one input sheet (the header row not counted).
-MAX_ROWS = 100_000
+MAX_INPUT_ROWS = 100_000
 #: Most columns in an input sheet's header row.
-MAX_COLUMNS = 200
+MAX_INPUT_COLUMNS = 200
 #: File name endings read as workbooks.
 WORKBOOK_SUFFIXES = (".xlsx", ".xlsm")
 

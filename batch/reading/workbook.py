@@ -5,8 +5,8 @@ The workbook is opened twice from its bytes, read-only: once for the values
 formulas, to tell a formula with no saved value (a file written by a program
 that does not calculate) from a blank cell. Only the columns declared in
 :mod:`batch.model.columns` are read, and never more than
-:data:`~batch.reading.safety.MAX_ROWS` rows of
-:data:`~batch.reading.safety.MAX_COLUMNS` columns.
+:data:`~batch.reading.safety.MAX_INPUT_ROWS` rows of
+:data:`~batch.reading.safety.MAX_INPUT_COLUMNS` columns.
 
 Every value taken into the document has its (sheet, cell) recorded in the
 :class:`~batch.reading.problems.WorkbookLocator`, so schema errors and
@@ -40,7 +40,7 @@ from batch.reading.problems import (
     WorkbookLocator,
     file_problem,
 )
-from batch.reading.safety import MAX_COLUMNS, MAX_ROWS, xml_entities_problem
+from batch.reading.safety import MAX_INPUT_COLUMNS, MAX_INPUT_ROWS, xml_entities_problem
 
 __all__ = ["read_workbook"]
 
@@ -71,15 +71,15 @@ def _is_blank(value: object) -> bool:
 
 def _raw_sheet(values: Any, formulas: Any | None, spec: InputSheet, title: str) -> _RawSheet:
     ws = values[title]
-    first = next(iter(ws.iter_rows(min_row=1, max_row=1, max_col=MAX_COLUMNS + 1)), ())
+    first = next(iter(ws.iter_rows(min_row=1, max_row=1, max_col=MAX_INPUT_COLUMNS + 1)), ())
     header = [(f"{get_column_letter(i)}1", c.value) for i, c in enumerate(first, start=1)]
-    too_wide = len(header) > MAX_COLUMNS and not _is_blank(header[MAX_COLUMNS][1])
-    match = match_headers(spec, header[:MAX_COLUMNS])
+    too_wide = len(header) > MAX_INPUT_COLUMNS and not _is_blank(header[MAX_INPUT_COLUMNS][1])
+    match = match_headers(spec, header[:MAX_INPUT_COLUMNS])
     wanted = sorted(set(match.columns.values()))
     rows: list[tuple[int, dict[int, _Cell]]] = []
     too_long = False
     if wanted:
-        last = MAX_ROWS + 2  # one row past the cap shows whether the cap is exceeded
+        last = MAX_INPUT_ROWS + 2  # one row past the cap shows whether the cap is exceeded
         value_rows = ws.iter_rows(min_row=2, max_row=last, max_col=wanted[-1])
         formula_rows = (
             itertools.repeat(None)
@@ -100,7 +100,7 @@ def _raw_sheet(values: Any, formulas: Any | None, spec: InputSheet, title: str) 
                     cells[col] = _Cell(cell.value, fmt, formula)
             if not cells:
                 continue
-            if number > MAX_ROWS + 1:
+            if number > MAX_INPUT_ROWS + 1:
                 too_long = True
                 break
             rows.append((number, cells))
@@ -220,7 +220,7 @@ class _Builder:
                 "too-many-columns",
                 sheet,
                 "",
-                f"row 1 has more than {MAX_COLUMNS} columns; delete the unused columns",
+                f"row 1 has more than {MAX_INPUT_COLUMNS} columns; delete the unused columns",
             )
         for text, first, second in match.duplicates:
             self.add(
@@ -263,7 +263,7 @@ class _Builder:
                 "too-many-rows",
                 sheet,
                 "",
-                f"the sheet has more than {MAX_ROWS:,} rows of data; split the inventory "
+                f"the sheet has more than {MAX_INPUT_ROWS:,} rows of data; split the inventory "
                 "into several workbooks",
             )
         return not match.missing(spec) and not raw.too_many_rows

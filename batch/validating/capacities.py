@@ -21,19 +21,13 @@ from typing import Any
 from batch.model import Settings
 from batch.model.layout import STATION_TOL, station_row
 from batch.reading.problems import DocPath, Locator, Severity
-from batch.validating.fields import shown
+from batch.validating.fields import finite_number, shown
 
 __all__ = ["capacity_problems"]
 
 Found = tuple[DocPath, str, str, Severity]
 
 _RESISTANCES = ("resistance_m_pos", "resistance_m_neg", "resistance_v")
-
-
-def _number(value: object) -> float | None:
-    if isinstance(value, bool) or not isinstance(value, int | float):
-        return None
-    return float(value) if math.isfinite(value) else None
 
 
 def _spans(member: dict[str, Any], ok: Callable[[DocPath], bool], at: DocPath) -> int | None:
@@ -49,7 +43,7 @@ def _stations(document: dict[str, Any], ok: Callable[[DocPath], bool]) -> int | 
     value = settings.get("stations_per_span") if isinstance(settings, dict) else None
     if value is None:
         return Settings().stations_per_span
-    number = _number(value)
+    number = finite_number(value)
     if number is None or not ok(("settings", "stations_per_span")) or number < 1:
         return None
     return int(number) if number.is_integer() else None
@@ -118,7 +112,7 @@ def _row_problems(row: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[Fo
     index, member = found
     yield from _dead_load_warning(row, member, at, cx.warned)
     n_spans = _spans(member, cx.ok, ("members", index))
-    span = _number(row.get("span"))
+    span = finite_number(row.get("span"))
     if span is None or not cx.ok((*at, "span")) or n_spans is None:
         return
     if not 1 <= span <= n_spans:
@@ -151,7 +145,7 @@ def _station_problems(
     cx: _Context,
 ) -> Iterator[Found]:
     """The row's station must be one of the span's stations, and listed only once."""
-    station, n_per_span = _number(row.get("station")), cx.n_per_span
+    station, n_per_span = finite_number(row.get("station")), cx.n_per_span
     if station is None or not cx.ok((*at, "station")) or n_per_span is None:
         return
     place = station_row(span, station, n_spans, n_per_span)
@@ -187,7 +181,7 @@ def _dead_load_warning(
     """Once per member: no DC load on the member and none given here, so DC is taken as 0."""
     ident = member["id"].strip()
     needs = "dc_m" not in row or "dc_v" not in row
-    if ident in warned or not needs or _number(member.get("dc_load")) not in (None, 0.0):
+    if ident in warned or not needs or finite_number(member.get("dc_load")) not in (None, 0.0):
         return
     warned.add(ident)
     yield (

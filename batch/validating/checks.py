@@ -29,7 +29,7 @@ from batch.model.case import MAX_RANGES
 from batch.model.layout import POSITION_TOL, mechanism_parts
 from batch.reading.problems import DocPath, Locator, PathSet, Problem, Severity
 from batch.validating.capacities import capacity_problems
-from batch.validating.fields import label, shown
+from batch.validating.fields import finite_number, label, shown
 
 __all__ = ["LIMITS", "Limit", "check_document"]
 
@@ -78,24 +78,18 @@ LOWEST_CAPACITY_FACTORS = {
 _Found = tuple[DocPath, str, str, Severity]
 
 
-def _number(value: object) -> float | None:
-    if isinstance(value, bool) or not isinstance(value, int | float):
-        return None
-    return float(value) if math.isfinite(value) else None
-
-
 def _numbers(value: object) -> list[float] | None:
     if not isinstance(value, list):
         return None
-    out = [_number(v) for v in value]
+    out = [finite_number(v) for v in value]
     return None if any(v is None for v in out) else [v for v in out if v is not None]
 
 
 def _spacing(value: object) -> tuple[float, float] | None:
     if isinstance(value, dict):
-        low, high = _number(value.get("low")), _number(value.get("high"))
+        low, high = finite_number(value.get("low")), finite_number(value.get("high"))
         return None if low is None or high is None else (low, high)
-    single = _number(value)
+    single = finite_number(value)
     return None if single is None else (single, single)
 
 
@@ -147,11 +141,11 @@ def _member(m: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[_Found]:
     spans = _numbers(m.get("spans")) if cx.ok((*at, "spans")) else None
     hinges = _numbers(m.get("hinges", [])) if cx.ok((*at, "hinges")) else None
     for key in ("df_moment", "df_shear"):
-        value = _number(m.get(key))
+        value = finite_number(m.get(key))
         if value is not None and cx.ok((*at, key)):
             yield from cx.magnitude((*at, key), "df", value)
     for key in ("dc_load", "dw_load"):
-        value = _number(m.get(key))
+        value = finite_number(m.get(key))
         if value is not None and cx.ok((*at, key)):
             yield from cx.magnitude((*at, key), "dead_load", value)
     yield from _capacity_factors(m, at, cx)
@@ -181,7 +175,7 @@ def _capacity_factors(m: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[
     """Condition and system factors: each within the MBE's values, their product floored."""
     values = {}
     for key, (lowest, published) in LOWEST_CAPACITY_FACTORS.items():
-        value = _number(m.get(key, 1.0))
+        value = finite_number(m.get(key, 1.0))
         if value is None or not cx.ok((*at, key)):
             return
         if value < lowest:
@@ -208,12 +202,12 @@ def _capacity_factors(m: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[
 
 def _settings(settings: dict[str, Any], vehicles: list[Any], cx: _Context) -> Iterator[_Found]:
     """The dynamic load allowance, rating load factors and the screening reference."""
-    impact = _number(settings.get("impact"))
+    impact = finite_number(settings.get("impact"))
     if impact is not None and cx.ok(("settings", "impact")):
         yield from cx.magnitude(("settings", "impact"), "impact", impact)
     for key, (low, high) in PUBLISHED_FACTORS.items():
         path = ("settings", key)
-        value = _number(settings.get(key))
+        value = finite_number(settings.get(key))
         if value is None or not cx.ok(path) or low - 1e-9 <= value <= high + 1e-9:
             continue
         published = shown(low) if low == high else f"{shown(low)} to {shown(high)}"
@@ -294,7 +288,7 @@ def _vehicle(v: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[_Found]:
     name = v.get("library")
     has = {k: k in v or not cx.ok((*at, k)) for k in ("axle_loads", "spacings", "lane_load")}
     # A lane load of 0 says "no lane load of my own", which a library row may say too.
-    has["lane_load"] = has["lane_load"] and _number(v.get("lane_load")) != 0
+    has["lane_load"] = has["lane_load"] and finite_number(v.get("lane_load")) != 0
     if isinstance(name, str) and cx.ok((*at, "library")):
         yield from _library(name, has, at)
         return
@@ -316,7 +310,7 @@ def _vehicle(v: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[_Found]:
     if cx.ok((*at, "spacings")):
         yield from _spacings(v.get("spacings", []), axles, (*at, "spacings"), cx)
     for key, limit in (("lane_load", "lane_load"), ("factor", "factor")):
-        value = _number(v.get(key))
+        value = finite_number(v.get(key))
         if value is not None and cx.ok((*at, key)):
             yield from cx.magnitude((*at, key), limit, value)
 

@@ -8,12 +8,13 @@ message; the declarations come from :mod:`batch.model.sheets`.
 from __future__ import annotations
 
 import json
+import math
 
 from batch.model.declare import InputColumn
 from batch.model.sheets import SETTING_ROWS, TABLE_SHEETS
 from batch.reading.problems import DocPath
 
-__all__ = ["declaration", "entry", "label", "shown"]
+__all__ = ["declaration", "entry", "finite_number", "label", "shown"]
 
 _TABLES = {sheet.key: sheet for sheet in TABLE_SHEETS}
 
@@ -63,3 +64,10 @@ def shown(value: object) -> str:
         return json.dumps(value)
     except (TypeError, ValueError):
         return repr(value)
+
+
+def finite_number(value: object) -> float | None:
+    """A document value as a finite float, or None when it is not one (text, bool, NaN)."""
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        return None
+    return float(value) if math.isfinite(value) else None

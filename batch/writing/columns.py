@@ -376,7 +376,7 @@ class ScreenedMember(NamedTuple):
     case: Case
 
 
-def _number(value: float) -> float | None:
+def _finite_or_blank(value: float) -> float | None:
     """A finite number, or an empty cell."""
     return float(value) if np.isfinite(value) else None
 
@@ -493,7 +493,7 @@ RATINGS: ResultTable[RatedMember] = ResultTable(
             header="RF",
             number_format=FORMAT_RATIO,
             width=8,
-            values=_per_vehicle(lambda b, v: _number(b.rating.rf[v])),
+            values=_per_vehicle(lambda b, v: _finite_or_blank(b.rating.rf[v])),
             fill=_rf_fill,
             meaning="Governing rating factor: the smallest over the member's rated stations and "
             "effects (inventory level for design loads); blank: the vehicle loads none of them. "
@@ -539,7 +539,7 @@ RATINGS: ResultTable[RatedMember] = ResultTable(
             quantity="weight",
             number_format=FORMAT_VALUE,
             width=12,
-            values=_per_vehicle(lambda b, v: _number(b.rating.posting[v])),
+            values=_per_vehicle(lambda b, v: _finite_or_blank(b.rating.posting[v])),
             meaning="Legal loads with 0.3 <= RF < 1: the posting load (W/0.7)(RF - 0.3), "
             "MBE 6A.8.3.",
         ),
@@ -547,7 +547,7 @@ RATINGS: ResultTable[RatedMember] = ResultTable(
             header="RF operating",
             number_format=FORMAT_RATIO,
             width=10,
-            values=_per_vehicle(lambda b, v: _number(b.rating.rf_operating[v])),
+            values=_per_vehicle(lambda b, v: _finite_or_blank(b.rating.rf_operating[v])),
             fill=_rf_fill,
             meaning="Design loads: the operating-level rating factor at the same place.",
         ),
@@ -609,7 +609,7 @@ RATING_MATRIX: ResultTable[RatedMember] = ResultTable(
         ),
     ),
     per_vehicle=_vehicle_columns(
-        lambda b, j: _number(b.rating.rf[j]),
+        lambda b, j: _finite_or_blank(b.rating.rf[j]),
         _rf_fill,
         "The vehicle's governing RF on the member (design loads: inventory); blank: not "
         "loaded at the rated stations. Colour: "
@@ -652,7 +652,7 @@ SCREENING: ResultTable[ScreenedMember] = ResultTable(
         ),
     ),
     per_vehicle=_vehicle_columns(
-        lambda b, j: _number(b.screening.ratio[j]),
+        lambda b, j: _finite_or_blank(b.screening.ratio[j]),
         _exceeded_fill,
         "The largest ratio of the vehicle's effect to the reference's on the member; above 1 "
         "(muted red) it exceeds the reference; blank: nothing to compare.",
@@ -693,7 +693,7 @@ SCREENING_DETAIL: ResultTable[ScreenedMember] = ResultTable(
             header="Ratio",
             number_format=FORMAT_RATIO,
             width=8,
-            values=_per_vehicle(lambda b, v: _number(b.screening.ratio[v])),
+            values=_per_vehicle(lambda b, v: _finite_or_blank(b.screening.ratio[v])),
             fill=_exceeded_fill,
             meaning="Largest ratio of the vehicle's effect to the reference's (muted red above 1).",
         ),

@@ -53,7 +53,7 @@ def column_letter(j: int) -> str:
     return letters
 
 
-def _number(value: object) -> int | float | None:
+def _xml_number(value: object) -> int | float | None:
     """``value`` as a Python number (numpy scalars included), or None if it is not one."""
     if isinstance(value, int | float):
         return value
@@ -185,7 +185,7 @@ class SheetStream:
             return f'<c r="{ref}"{s} t="b"><v>{int(value)}</v></c>'
         if isinstance(value, str):
             return f'<c r="{ref}"{s} t="inlineStr">{self._inline(value)}</c>'
-        number = _number(value)
+        number = _xml_number(value)
         if number is not None:
             if not math.isfinite(number):
                 raise ValueError(f"{self.name}!{ref}: {number} is not a number a cell can hold")
