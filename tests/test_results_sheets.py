@@ -26,7 +26,7 @@ from defusedxml import ElementTree
 from openpyxl import load_workbook
 from tolerances import REL_TOL_EXACT
 
-from batch.engine.effects import EFFECTS, effect_named, governing_row
+from batch.engine.effects import EFFECTS, governing_row
 from batch.engine.envelope import member_envelope
 from batch.loads.fleet import fleet_cases
 from batch.model import Case, Member, Settings, Spacing, Vehicle
@@ -41,6 +41,9 @@ from batch.writing.tables import HIGHLIGHT_RGB, OWNER_MARK
 
 P_AXLE = 20.0  # kip, one-axle test vehicle
 CHART_NS = "http://schemas.openxmlformats.org/drawingml/2006/chart"
+
+
+_EFFECT = {e.name: e for e in EFFECTS}
 
 
 def _single_axle(ident: str = "KVHA single 20") -> Vehicle:
@@ -213,7 +216,7 @@ def test_governing_equals_the_highlighted_cells(written: tuple[Case, Path]) -> N
         ws = wb[table.sheet]
         header = [c.value for c in ws[1]]
         for name in table.highlights:
-            eff = effect_named(name)
+            eff = _EFFECT[name]
             unit = "kip-ft" if eff.quantity == "moment" else "kip"
             col = header.index(f"{name} ({unit})") + 1
             marked = [
@@ -240,12 +243,12 @@ def test_governing_row_is_the_extreme_and_ties_go_left() -> None:
     # Symmetric simple span: the moment envelope is symmetric; the left peak is chosen.
     member = Member(id="SYM", spans=(40.0,))
     env = member_envelope(member, fleet_cases((_truck(),), Settings()), 8, "both")
-    i = governing_row(effect_named("M max"), env)
+    i = governing_row(_EFFECT["M max"], env)
     assert i is not None
     values = env.m_max.value
     assert values[i] == pytest.approx(values.max(), rel=REL_TOL_EXACT)
     assert np.all(values[:i] < values.max() * (1 - 1e-9))
-    assert governing_row(effect_named("M min"), env) is None
+    assert governing_row(_EFFECT["M min"], env) is None
 
 
 def test_number_formats_filter_and_widths(written: tuple[Case, Path]) -> None:

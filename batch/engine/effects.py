@@ -24,7 +24,6 @@ __all__ = [
     "Effect",
     "Governing",
     "MemberEnvelope",
-    "effect_named",
     "governing_row",
 ]
 
@@ -150,8 +149,6 @@ EFFECTS: tuple[Effect, ...] = (
     ),
 )
 
-_EFFECT = {e.name: e for e in EFFECTS}
-
 
 def governing_row(effect: Effect, env: MemberEnvelope) -> int | None:
     """Row of the member's governing (extreme) value of ``effect``, or None.
@@ -169,8 +166,3 @@ def governing_row(effect: Effect, env: MemberEnvelope) -> int | None:
     if best <= 0.0 or not np.any(ext.case >= 0):
         return None
     return int(np.flatnonzero(signed >= best * (1.0 - TIE_REL_TOL))[0])
-
-
-def effect_named(name: str) -> Effect:
-    """The :class:`Effect` called ``name`` (e.g. ``"M max"``)."""
-    return _EFFECT[name]

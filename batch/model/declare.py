@@ -62,11 +62,6 @@ class InputColumn:
     example: str | float | None = None
     default: str | float | int | None = None
 
-    @property
-    def is_list(self) -> bool:
-        """True for the columns that hold several numbers in one cell."""
-        return self.kind in ("list", "spacing-list")
-
 
 def column(
     header: str,

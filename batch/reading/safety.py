@@ -27,7 +27,6 @@ __all__ = [
     "MAX_UNCOMPRESSED_BYTES",
     "MAX_ZIP_MEMBERS",
     "WORKBOOK_SUFFIXES",
-    "inspect_zip",
     "read_bytes",
     "refusal",
     "sniff",

@@ -23,7 +23,7 @@ from batch.writing.package.stream import column_letter
 from batch.writing.package.xmltext import attr, text
 from batch.writing.tables import column_format, write_header
 
-__all__ = ["CHART_COLOURS", "write_moment_charts"]
+__all__ = ["write_moment_charts"]
 
 #: Line colours of the two series (dark teal for M max, brick red for M min).
 CHART_COLOURS = {"M max": "1F6F8B", "M min": "B5452F"}

@@ -42,9 +42,7 @@ __all__ = [
     "CellValue",
     "case_rows",
     "case_workbook",
-    "example_rows",
     "input_workbook",
-    "save_workbook",
     "write_case_workbook",
     "write_template",
 ]

@@ -19,7 +19,12 @@ import tempfile
 from pathlib import Path
 from typing import BinaryIO, Protocol
 
-__all__ = ["TEMP_PREFIX", "SaveError", "atomic_save", "open_elsewhere", "sha256_file"]
+__all__ = [
+    "TEMP_PREFIX",
+    "SaveError",
+    "atomic_save",
+    "open_elsewhere",
+]
 
 #: Temporary files start with this (hidden on Unix; unlike a spreadsheet program's lock files).
 TEMP_PREFIX = ".~spanfleet-"

@@ -26,7 +26,6 @@ __all__ = [
     "CellFormat",
     "StyleSheet",
     "highlighted",
-    "number_cell",
 ]
 
 HIGHLIGHT_RGB = "FFE3B3"  # soft amber: the governing value of an effect
@@ -89,11 +88,6 @@ class CellFormat:
 HEADER = CellFormat(bold=True, fill=HEADER_RGB, wrap=True, vertical="center")
 
 
-def number_cell(number_format: str) -> CellFormat:
-    """A plain data cell with ``number_format``."""
-    return CellFormat(number_format=number_format)
-
-
 def highlighted(fmt: CellFormat) -> CellFormat:
     """``fmt`` marked as a governing value: soft amber fill and bold type."""
     return CellFormat(
@@ -119,7 +113,6 @@ class StyleSheet:
     """
 
     def __init__(self, data: bytes | None, part: str = "xl/styles.xml") -> None:
-        self.existed = data is not None
         self._data, self._root = parse(data if data is not None else _EMPTY_STYLES, part)
         self._p = self._root.prefix
         self._formats: dict[CellFormat, int] = {}

@@ -24,7 +24,7 @@ from xml.parsers import expat
 
 from defusedxml import ElementTree
 
-__all__ = ["Node", "Splice", "XmlPartError", "attr", "parse", "strip_illegal", "text"]
+__all__ = ["Node", "Splice", "XmlPartError", "attr", "parse", "text"]
 
 #: Characters XML 1.0 does not allow anywhere (C0 controls but tab, LF, CR; surrogates; two
 #: non-characters).
