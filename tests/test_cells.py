@@ -55,8 +55,17 @@ QUIRKS = [
     ("list", "60, 80, 60", "General", [60, 80, 60]),
     ("list", "60;80;60", "General", [60, 80, 60]),
     ("list", "60 80  60", "General", [60, 80, 60]),
-    ("list", " 60,80 , 60, ", "General", [60, 80, 60]),
-    ("list", "1,5", "General", [1, 5]),  # in a list cell the comma separates
+    ("list", " 60, 80 , 60, ", "General", [60, 80, 60]),
+    ("list", "60,,80", "General", [60, 80]),
+    # the number rule (batch/reading/cells.py): a comma between two digits is never guessed at
+    ("list", "1,5", "General", "ambiguous-decimal-comma"),
+    ("list", "12,5, 14", "General", "ambiguous-decimal-comma"),
+    ("list", "60,80,60", "General", "ambiguous-decimal-comma"),
+    ("list", "1 250, 1 250", "General", "mixed-separators"),  # a space between thousands
+    ("list", "60, 80 60", "General", "mixed-separators"),
+    ("list", "1\u00a0250", "General", "thousands-separator"),
+    ("number", "1\u202f250", "General", "thousands-separator"),
+    ("number", "1,250,000", "General", "ambiguous-decimal-comma"),
     ("list", "42.5", "General", [42.5]),
     ("list", 75, "General", [75]),
     ("list", 75.0, "General", [75.0]),
@@ -85,6 +94,7 @@ QUIRKS = [
     ("spacing-list", "14, 30 - 14", "General", "inverted-range"),
     ("spacing-list", "14-30-40", "General", "bad-range"),
     ("spacing-list", "14-x", "General", "not-a-number"),
+    ("spacing-list", "14, 14,5-30", "General", "ambiguous-decimal-comma"),
     # choices: case, spaces and hyphens ignored; unknown text passed on for the schema
     ("choice", "si", "General", "SI"),
     ("choice", " Left to Right ", "General", "left-to-right"),

@@ -160,7 +160,7 @@ def test_headers_match_forgivingly_and_blank_rows_are_skipped(make_workbook, tmp
             {"  MEMBER ": "KV-0101 G2", "spans (FT) ": 42},
             {},  # a blank row
             {"  MEMBER ": "   "},  # only spaces: blank too
-            {"  MEMBER ": "KV-0102 G1", "spans (FT) ": "30,30"},
+            {"  MEMBER ": "KV-0102 G1", "spans (FT) ": "30, 30"},
         ],
         vehicles=[{"vehicle (id)": "KV-L2", "AXLE LOADS": "20, 25", "Axle Spacings": 4}],
     )

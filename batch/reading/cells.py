@@ -9,7 +9,17 @@ booleans and dates in number columns, a decimal comma, text that looks like a
 formula, formula error values, and a list typed into a cell formatted with a
 thousands separator (which the spreadsheet silently turned into one number).
 
-Value kinds are those of :data:`batch.model.columns.ValueKind`:
+**Separators and decimal marks.** One rule for every number and list cell, in both
+unit systems (:data:`NUMBER_RULE`, which the template and docs/workbook.md state too):
+a point is the decimal mark; list entries are separated by commas or semicolons
+(spaces around them allowed) or by spaces alone, not by a mix of both in one cell; a
+comma with a digit on each side and no space (``12,5``, ``1,250``, ``60,80``) is never
+read, nor a no-break space between digits (a thousands separator). Each of these may
+be a decimal comma, a thousands separator or list entries typed without a space, and
+a guess would be silently wrong one way or the other, so such a cell is refused with
+the fix.
+
+Value kinds are those of :data:`batch.model.declare.ValueKind`:
 
 * ``number``: one finite number;
 * ``list``: numbers separated by commas, semicolons or spaces (``"60, 80, 60"``),
@@ -30,13 +40,18 @@ import math
 import re
 from dataclasses import dataclass
 
-__all__ = ["PLACEHOLDERS", "CellValue", "Note", "read_cell"]
+__all__ = ["NUMBER_RULE", "PLACEHOLDERS", "CellValue", "Note", "read_cell"]
 
 #: Typed into a number, list or choice cell, these mean "nothing here" (blank).
 PLACEHOLDERS = frozenset({"-", "–", "—", "n/a", "na"})
 
 _NUMBER = re.compile(r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?")
-_DECIMAL_COMMA = re.compile(r"[+-]?\d+,\d+")
+# A comma with a digit on each side and no space: the ambiguity the number rule refuses.
+_COMMA_BETWEEN_DIGITS = re.compile(r"(\d+),(\d+)")
+# A no-break or narrow no-break space between digits: a thousands separator.
+_GROUPED_DIGITS = re.compile(r"\d[\u00a0\u202f\u2009]\d")
+# Between list entries: a comma or semicolon with any spaces around it (repeats collapse).
+_LIST_COMMA = re.compile(r"\s*[,;][,;\s]*")
 _WITH_UNIT = re.compile(r"([+-]?(?:\d+(?:\.\d*)?|\.\d+))\s*([a-zA-Z][a-zA-Z/\-·.]*)")
 _SEPARATORS = re.compile(r"[,;\s]+")
 # A range separator between two numbers: "-", en or em dash, or the word "to".
@@ -44,6 +59,15 @@ _RANGE = re.compile(r"(?<=[\d.])\s*(?:-|–|—|\bto\b)\s*(?=[+\d.])", re.IGNORE
 _FORMULA_ERROR = re.compile(r"#(?:N/A|[A-Z0-9/_]+[!?]?)")
 _THOUSANDS_FORMAT = re.compile(r"[#0],[#0]")
 _DATES = (dt.datetime, dt.date, dt.time, dt.timedelta)
+
+#: The rule for separators and decimal marks, in the words the template and the docs use.
+NUMBER_RULE = (
+    "A point is the decimal mark (12.5); give no thousands separators. Separate list "
+    "entries with commas or semicolons (60, 80, 60), or with spaces alone (60 80 60), not "
+    "a mix of both. A comma between two digits with no space (12,5 or 60,80) is refused in "
+    "every number and list cell, whatever the Units: it may be a decimal comma, a "
+    "thousands separator or entries typed without a space, and spanfleet does not guess."
+)
 
 #: What a cell reader gives: a document value, ``None`` (blank) or a :class:`Note`.
 CellValue = object
@@ -123,6 +147,55 @@ def _number_token(token: str, whole: str) -> float | int | Note:
     return int(token) if token.lstrip("+-").isdigit() else number
 
 
+def _ambiguous(text: str, single: bool) -> Note | None:
+    """The note of the number rule (module docstring) when ``text`` breaks it, else None."""
+    grouped = _GROUPED_DIGITS.search(text)
+    if grouped is not None:
+        return Note(
+            "thousands-separator",
+            f"'{text}' has a no-break space between two digits, which is a thousands "
+            "separator; type the numbers without thousands separators",
+        )
+    found = _COMMA_BETWEEN_DIGITS.search(text)
+    if found is None:
+        return None
+    whole, frac = found.groups()
+    readings = [f"the decimal {whole}.{frac}"]
+    if len(frac) == 3 and whole.lstrip("0"):
+        readings.append(f"the number {whole}{frac}")
+    if not single:
+        readings.append(f"the two entries {whole} and {frac}")
+    fix = (
+        "type it with a decimal point and no thousands separator"
+        if single
+        else f"write a decimal with a point ({whole}.{frac}) and separate entries with a "
+        f"comma and a space ({whole}, {frac}) or a semicolon"
+    )
+    return Note(
+        "ambiguous-decimal-comma",
+        f"'{text}' is not read, as {found.group(0)} may be {' or '.join(readings)} "
+        f"(spanfleet never guesses at a comma between two digits); {fix}",
+    )
+
+
+def _entries(text: str, whole: str) -> list[str] | Note:
+    """The entries of list text (ranges joined by ``~``) of the cell ``whole``, or the note."""
+    text = text.strip(" ,;")
+    if not _LIST_COMMA.search(text):
+        return text.split()
+    tokens = _LIST_COMMA.split(text)
+    mixed = next((t for t in tokens if len(t.split()) > 1), None)
+    if mixed is not None:
+        shown = mixed.replace("~", "-")
+        return Note(
+            "mixed-separators",
+            f"'{whole}' separates its entries with commas or semicolons but has a space "
+            f"inside '{shown}', so it is not clear where one entry ends (a space may also "
+            "be a thousands separator); separate every entry the same way, e.g. 60, 80, 60",
+        )
+    return tokens
+
+
 def _cell_number(value: object) -> CellValue:
     common = _common(value)
     if common is not ...:
@@ -135,17 +208,9 @@ def _cell_number(value: object) -> CellValue:
         if not math.isfinite(number):
             return _not_finite(number)
         return int(s) if s.lstrip("+-").isdigit() else number
-    if _DECIMAL_COMMA.fullmatch(s):
-        whole, frac = s.split(",")
-        if len(frac) == 3 and whole.lstrip("+-") not in ("", "0"):
-            meant = f"the decimal {whole}.{frac} or the number {whole}{frac}"
-        else:
-            meant = f"the decimal {whole}.{frac} typed with a decimal comma"
-        return Note(
-            "ambiguous-decimal-comma",
-            f"'{s}' is not read, as it may be {meant}; type it with a decimal point "
-            "and no thousands separator",
-        )
+    comma = _ambiguous(s, single=True)
+    if comma is not None:
+        return comma
     if s.endswith("%"):
         return Note(
             "not-a-number",
@@ -185,9 +250,15 @@ def _list(value: object, number_format: str, ranges: bool) -> CellValue:
     if isinstance(value, int | float):
         return _thousands_trap(value, number_format) or [value]
     whole = str(value).strip()
+    comma = _ambiguous(whole, single=False)
+    if comma is not None:
+        return comma
     text = _RANGE.sub("~", whole) if ranges else whole
+    tokens = _entries(text, whole)
+    if isinstance(tokens, Note):
+        return tokens
     out: list[object] = []
-    for token in _SEPARATORS.split(text.strip(" ,;")):
+    for token in tokens:
         if "~" not in token:
             number = _number_token(token, whole)
             if isinstance(number, Note):
