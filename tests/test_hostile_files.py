@@ -21,6 +21,7 @@ import struct
 import zipfile
 from pathlib import Path
 
+import openpyxl
 import openpyxl.xml
 import pytest
 
@@ -230,9 +231,23 @@ def test_row_and_column_caps(make_workbook, tmp_path, monkeypatch):
     report = read_input(path)
     assert sorted((p.sheet, p.cell, p.code) for p in report.problems) == [
         ("Members", "", "too-many-columns"),
-        ("Members", "", "too-many-rows"),
+        ("Members", "A5", "too-many-rows"),  # the first row past the cap, named by its cell
     ]
     assert all("; " in p.message for p in report.problems)
+
+
+def test_data_far_below_the_cap_is_refused_by_its_cell(make_workbook, tmp_path, monkeypatch):
+    # Rows past the cap are never dropped in silence, however far below the last row read
+    # (issue 13: "whatever the size of a sheet").
+    monkeypatch.setattr(workbook, "MAX_INPUT_ROWS", 3)
+    path = make_workbook(tmp_path, members=[{"Member": "KV-0001 G1", "Spans": 40}])
+    wb = openpyxl.load_workbook(path)
+    wb["Members"]["B9000"] = 55
+    wb.save(path)
+    report = read_input(path)
+    assert [(p.sheet, p.cell, p.code) for p in report.problems] == [
+        ("Members", "B9000", "too-many-rows")
+    ]
 
 
 def test_rows_within_the_cap_are_read(make_workbook, tmp_path, monkeypatch):

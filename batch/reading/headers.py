@@ -1,10 +1,12 @@
 """Match a sheet's header row to the declared columns, and check header units.
 
-Headers are matched with :func:`batch.model.columns.header_key` (case, outer spaces
-and a trailing part in parentheses ignored). When that trailing part names a
-unit (``"Spans (m)"``), it must be the unit of the run's unit system for that
-column's quantity: a workbook whose Spans are headed in metres while Units is
-US would otherwise be read as feet.
+Headers are matched with :func:`batch.model.declare.header_key` (case, outer spaces
+and a trailing part in parentheses ignored). On a column that has a unit, that
+trailing part must be the unit of the run's unit system for the column's quantity:
+a workbook whose Spans are headed in metres while Units is US would otherwise be
+read as feet, and one headed in a unit spanfleet does not know (``"Spans (yards)"``,
+``"Spans (left to right)"``) would be read in the run's unit whatever was meant, so
+both are refused, the latter with the units spanfleet does know.
 """
 
 from __future__ import annotations
@@ -84,22 +86,34 @@ def match_headers(sheet: InputSheet, row: list[tuple[str, object]]) -> HeaderMat
     )
 
 
-def unit_in_header(header: object, column: InputColumn, units: str) -> str | None:
-    """Why the unit in ``header`` contradicts the run's ``units``, or ``None`` when it does not.
+def unit_in_header(header: object, column: InputColumn, units: str) -> tuple[str, str] | None:
+    """Why the unit in ``header`` cannot be read with the run's ``units``, as (code, message).
 
-    Only a recognised unit spelling in a trailing ``(...)`` is judged; other
-    notes in parentheses, and columns without a quantity, are left alone.
+    ``None`` when the header has no trailing ``(...)``, when it is the run's unit,
+    or when the column has no unit. A trailing ``(...)`` on a column with a unit
+    that is no unit spanfleet knows is refused (``header-unit-unknown``): it
+    would otherwise be read in the run's unit whatever it says; a unit of the
+    wrong quantity or system gives ``header-unit-mismatch``.
     """
     if not column.quantity or units not in UNIT_LABELS:
         return None
     found = re.search(r"\(([^()]*)\)\s*$", str(header))
     if not found:
         return None
+    expected = UNIT_LABELS[units][column.quantity]
     spelled = re.sub(r"\s+", "", found.group(1)).lower().replace("*", "·")
     quantity, system = _UNIT_SPELLINGS.get(spelled, (None, None))
     if quantity is None:
-        return None
-    expected = UNIT_LABELS[units][column.quantity]
+        known = " or ".join(
+            f"{labels[column.quantity]} (Units {system})" for system, labels in UNIT_LABELS.items()
+        )
+        return (
+            "header-unit-unknown",
+            f"the header says the values are in {found.group(1).strip()!r}, which is not a unit "
+            f"spanfleet knows (it reads {column.header} in {known}), so the values would be "
+            f"read in {expected} whatever was meant; give them in {expected} and head the "
+            f"column '{column.header} ({expected})' or '{column.header}'",
+        )
     if quantity == column.quantity and system == units:
         return None
     other = "US" if units == "SI" else "SI"
@@ -112,6 +126,7 @@ def unit_in_header(header: object, column: InputColumn, units: str) -> str | Non
     else:
         fix = f"give the values in {expected} and head the column '{column.header} ({expected})'"
     return (
+        "header-unit-mismatch",
         f"the header says the values are in {found.group(1).strip()}, but with Units "
-        f"{units} spanfleet reads {column.header} in {expected}; {fix}"
+        f"{units} spanfleet reads {column.header} in {expected}; {fix}",
     )

@@ -20,6 +20,7 @@ import itertools
 import re
 import warnings
 import zipfile
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -32,6 +33,7 @@ from batch.model.declare import InputSheet, header_key
 from batch.model.sheets import INPUT_SHEETS, SETTING_ROWS, SETTINGS, TABLE_SHEETS
 from batch.reading.cells import Note, read_cell
 from batch.reading.headers import HeaderMatch, match_headers, unit_in_header
+from batch.reading.hidden import Hidden, hidden_in_part
 from batch.reading.problems import (
     DocPath,
     Problem,
@@ -57,60 +59,106 @@ class _Cell:
 
 @dataclass(frozen=True)
 class _RawSheet:
+    """One input sheet as found: header, the rows of the columns read, and what was not read.
+
+    ``beyond`` is the first cell holding data below the last row read (row
+    :data:`MAX_INPUT_ROWS` + 1); ``unheaded`` the first cell with data of each column
+    with no header; ``unread_rows`` the first data cell of each row whose data is
+    all in columns spanfleet does not read; ``hidden_rows`` the data rows the
+    sheet hides (by hand or by a filter), ``hidden_columns`` the read columns it
+    hides.
+    """
+
     title: str
     header: list[tuple[str, object]]  # (cell, value) of row 1
     match: HeaderMatch
     rows: list[tuple[int, dict[int, _Cell]]]  # non-blank rows: (row number, column -> cell)
     too_many_columns: bool
-    too_many_rows: bool
+    beyond: str | None = None
+    unheaded: tuple[str, ...] = ()
+    unread_rows: tuple[str, ...] = ()
+    hidden_rows: tuple[int, ...] = ()
+    hidden_columns: tuple[int, ...] = ()
 
 
 def _is_blank(value: object) -> bool:
     return value is None or (isinstance(value, str) and not value.strip())
 
 
-def _raw_sheet(values: Any, formulas: Any | None, spec: InputSheet, title: str) -> _RawSheet:
+def _formula(frow: Any, col: int) -> str | None:
+    """The formula text of a cell of the formulas pass, when it holds one."""
+    if frow is None or col > len(frow) or frow[col - 1].data_type != "f":
+        return None
+    value = frow[col - 1].value
+    return str(getattr(value, "text", value))
+
+
+def _raw_sheet(
+    values: Any, formulas: Any | None, spec: InputSheet, title: str, hidden: Hidden
+) -> _RawSheet:
     ws = values[title]
+    # Each row as long as its own last cell, whatever size the sheet's dimension claims.
+    ws.reset_dimensions()
     first = next(iter(ws.iter_rows(min_row=1, max_row=1, max_col=MAX_INPUT_COLUMNS + 1)), ())
     header = [(f"{get_column_letter(i)}1", c.value) for i, c in enumerate(first, start=1)]
     too_wide = len(header) > MAX_INPUT_COLUMNS and not _is_blank(header[MAX_INPUT_COLUMNS][1])
     match = match_headers(spec, header[:MAX_INPUT_COLUMNS])
     wanted = sorted(set(match.columns.values()))
+    unread = [c for c in range(1, MAX_INPUT_COLUMNS + 1) if c not in set(wanted)]
+    headed = {i for i, (_, v) in enumerate(header[:MAX_INPUT_COLUMNS], start=1) if not _is_blank(v)}
     rows: list[tuple[int, dict[int, _Cell]]] = []
-    too_long = False
-    if wanted:
-        last = MAX_INPUT_ROWS + 2  # one row past the cap shows whether the cap is exceeded
-        value_rows = ws.iter_rows(min_row=2, max_row=last, max_col=wanted[-1])
-        formula_rows = (
-            itertools.repeat(None)
-            if formulas is None
-            else formulas[title].iter_rows(min_row=2, max_row=last, max_col=wanted[-1])
-        )
-        # The values pass ends the rows; the formula pass (or the endless None) follows it.
-        paired = zip(value_rows, formula_rows, strict=False)
-        for number, (row, frow) in enumerate(paired, start=2):
-            cells = {}
-            for col in wanted:
-                cell = row[col - 1]
-                formula = None
-                if cell.value is None and frow is not None and frow[col - 1].data_type == "f":
-                    formula = str(getattr(frow[col - 1].value, "text", frow[col - 1].value))
-                if formula or not _is_blank(cell.value):
-                    fmt = getattr(cell, "number_format", None) or "General"
-                    cells[col] = _Cell(cell.value, fmt, formula)
-            if not cells:
-                continue
-            if number > MAX_INPUT_ROWS + 1:
-                too_long = True
+    unheaded: dict[int, str] = {}
+    unread_rows: list[str] = []
+    beyond = None
+    if formulas is not None:
+        formulas[title].reset_dimensions()
+    value_rows = ws.iter_rows(min_row=2)
+    formula_rows = (
+        itertools.repeat(None) if formulas is None else formulas[title].iter_rows(min_row=2)
+    )
+    # The values pass ends the rows; the formula pass (or the endless None) follows it.
+    paired = zip(value_rows, formula_rows, strict=False)
+    for number, (row, frow) in enumerate(paired, start=2):
+        cells = {}
+        for col in wanted:
+            if col > len(row):
                 break
-            rows.append((number, cells))
+            cell = row[col - 1]
+            formula = _formula(frow, col) if cell.value is None else None
+            if formula or not _is_blank(cell.value):
+                fmt = getattr(cell, "number_format", None) or "General"
+                cells[col] = _Cell(cell.value, fmt, formula)
+        # Data in a column that is not read: under no header, or under an unknown one.
+        width = max(len(row), 0 if frow is None else len(frow))
+        other = [
+            col
+            for col in itertools.chain(unread, range(MAX_INPUT_COLUMNS + 1, width + 1))
+            if col <= width
+            and ((col <= len(row) and not _is_blank(row[col - 1].value)) or _formula(frow, col))
+        ]
+        if not cells and not other:
+            continue
+        if number > MAX_INPUT_ROWS + 1:
+            beyond = f"{get_column_letter((sorted(cells) or other)[0])}{number}"
+            break
+        if not cells:
+            unread_rows.append(f"{get_column_letter(other[0])}{number}")
+            continue
+        for col in other:
+            if col not in headed:
+                unheaded.setdefault(col, f"{get_column_letter(col)}{number}")
+        rows.append((number, cells))
     return _RawSheet(
         title=title,
         header=header,
         match=match,
         rows=rows,
         too_many_columns=too_wide,
-        too_many_rows=too_long,
+        beyond=beyond,
+        unheaded=tuple(unheaded[c] for c in sorted(unheaded)),
+        unread_rows=tuple(unread_rows),
+        hidden_rows=tuple(n for n, _ in rows if n in hidden.rows),
+        hidden_columns=tuple(c for c in wanted if c in hidden.columns),
     )
 
 
@@ -127,8 +175,17 @@ def _has_formulas(data: bytes) -> bool:
     return False
 
 
-def _extract(data: bytes) -> tuple[dict[str, _RawSheet], set[str]]:
-    """The raw input sheets by declared name, and the lower-cased titles of all sheets."""
+@dataclass(frozen=True)
+class _Extracted:
+    """What the workbook holds for the reader: the input sheets, and every sheet's title."""
+
+    raw: dict[str, _RawSheet]
+    titles: set[str]  # lower-cased, outer spaces removed
+    twins: dict[str, tuple[str, ...]]  # input sheet name -> titles of every sheet matching it
+
+
+def _extract(data: bytes) -> _Extracted:
+    """The raw input sheets by declared name, and the sheet titles of the workbook."""
     with warnings.catch_warnings():
         # openpyxl warns about features it drops (data validation extensions, odd
         # dates); reading values only, none of them matters here.
@@ -140,17 +197,52 @@ def _extract(data: bytes) -> tuple[dict[str, _RawSheet], set[str]]:
             else None
         )
         try:
-            titles = {t.strip().lower(): t for t in values.sheetnames}
+            matching: dict[str, list[str]] = {}
+            for t in values.sheetnames:
+                matching.setdefault(t.strip().lower(), []).append(t)
             raw = {}
-            for spec in INPUT_SHEETS:
-                title = titles.get(spec.name.lower())
-                if title is not None and hasattr(values[title], "iter_rows"):
-                    raw[spec.name] = _raw_sheet(values, formulas, spec, title)
-            return raw, set(titles)
+            with zipfile.ZipFile(io.BytesIO(data)) as archive:
+                for spec in INPUT_SHEETS:
+                    found = matching.get(spec.name.lower(), [])
+                    if len(found) != 1 or not hasattr(values[found[0]], "iter_rows"):
+                        continue
+                    # (openpyxl's read-only sheet keeps the name of its part privately)
+                    part = getattr(values[found[0]], "_worksheet_path", None)
+                    hidden = (
+                        Hidden()
+                        if not isinstance(part, str)
+                        else hidden_in_part(archive, part, MAX_INPUT_COLUMNS)
+                    )
+                    raw[spec.name] = _raw_sheet(values, formulas, spec, found[0], hidden)
+            twins = {
+                spec.name: tuple(matching[spec.name.lower()])
+                for spec in INPUT_SHEETS
+                if len(matching.get(spec.name.lower(), [])) > 1
+            }
+            return _Extracted(raw=raw, titles=set(matching), twins=twins)
         finally:
             values.close()
             if formulas is not None:
                 formulas.close()
+
+
+#: What one row of each input sheet is, for messages.
+_NOUNS = {
+    "settings": "setting",
+    "members": "member",
+    "vehicles": "vehicle",
+    "capacities": "station",
+}
+
+
+def _listed(items: Sequence[str], noun: str, verb: tuple[str, str] = ("", "")) -> str:
+    """``"rows 7, 9 and 12 are"``: five items named, the rest counted; ``verb`` (one, many)."""
+    named = [*items[:5]]
+    if len(items) > len(named):
+        named.append(f"{len(items) - len(named):,} more")
+    if len(items) == 1:
+        return f"{noun} {named[0]} {verb[0]}".strip()
+    return f"{noun}s {', '.join(named[:-1])} and {named[-1]} {verb[1]}".strip()
 
 
 @dataclass
@@ -160,6 +252,7 @@ class _Builder:
     cells: dict[DocPath, tuple[str, str]] = field(default_factory=dict)
     problems: list[Problem] = field(default_factory=list)
     blocked: set[DocPath] = field(default_factory=set)
+    twins: dict[str, tuple[str, ...]] = field(default_factory=dict)
 
     def add(
         self,
@@ -203,6 +296,17 @@ class _Builder:
 
     def headers(self, spec: InputSheet, raw: _RawSheet | None, units: str | None) -> bool:
         """Report header problems of one sheet; True when its rows can be read."""
+        if spec.name in self.twins:
+            titles = " and ".join(repr(t) for t in self.twins[spec.name])
+            self.add(
+                "duplicate-sheet",
+                spec.name,
+                "",
+                f"the workbook has sheets {titles}, which are the same name once case and "
+                "spaces are ignored, so it is not clear which to read; rename or delete all "
+                f"but one of them",
+            )
+            return False
         if raw is None:
             names = ", ".join(c.header for c in spec.columns if c.required)
             self.add(
@@ -257,16 +361,69 @@ class _Builder:
                 continue
             why = unit_in_header(header_text[ref], column, units)
             if why:
-                self.add("header-unit-mismatch", sheet, ref, why, value=header_text[ref])
-        if raw.too_many_rows:
+                self.add(why[0], sheet, ref, why[1], value=header_text[ref])
+        if match.missing(spec):
+            return False
+        self.unread(spec, raw)
+        return raw.beyond is None
+
+    def unread(self, spec: InputSheet, raw: _RawSheet) -> None:
+        """Report data the sheet holds where spanfleet does not read, and what it hides."""
+        sheet, noun = raw.title, _NOUNS[spec.key]
+        if raw.beyond is not None:
             self.add(
                 "too-many-rows",
                 sheet,
-                "",
-                f"the sheet has more than {MAX_INPUT_ROWS:,} rows of data; split the inventory "
-                "into several workbooks",
+                raw.beyond,
+                f"this cell holds data below row {MAX_INPUT_ROWS + 1:,}, and spanfleet reads at "
+                f"most {MAX_INPUT_ROWS:,} rows of one sheet, so the rows there would be left out; "
+                f"split the inventory into workbooks of at most {MAX_INPUT_ROWS:,} {noun}s",
             )
-        return not match.missing(spec) and not raw.too_many_rows
+        if raw.unheaded:
+            letters = [ref.rstrip("0123456789") for ref in raw.unheaded]
+            absent = [c.header for c in spec.columns if c.key not in raw.match.columns]
+            example = f" (e.g. {absent[0]})" if absent else ""
+            self.add(
+                "data-without-header",
+                sheet,
+                raw.unheaded[0],
+                f"there is data in {_listed(letters, 'column')} under no header in row 1 "
+                f"(first at {raw.unheaded[0]}), which spanfleet would not read; give each such "
+                f"column the header it belongs under{example}, or delete its values",
+            )
+        if raw.unread_rows:
+            needs = ", ".join(c.header for c in spec.columns if c.required)
+            numbers = [ref.lstrip("ABCDEFGHIJKLMNOPQRSTUVWXYZ") for ref in raw.unread_rows]
+            self.add(
+                "row-not-read",
+                sheet,
+                raw.unread_rows[0],
+                f"{_listed(numbers, 'row', ('holds', 'hold'))} data only in columns spanfleet "
+                "does not read, so it would be left out; put the values under the right "
+                f"headers (a {noun} row needs {needs}) or delete them",
+            )
+        if raw.hidden_rows:
+            id_col = get_column_letter(raw.match.columns[spec.columns[0].key])
+            numbers = [str(n) for n in raw.hidden_rows]
+            self.add(
+                "hidden-rows",
+                sheet,
+                f"{id_col}{raw.hidden_rows[0]}",
+                f"{_listed(numbers, 'row', ('is', 'are'))} hidden (by hand or by a filter); "
+                f"spanfleet reads hidden rows like any other, so each {noun} there is used; "
+                "delete the rows you do not want used",
+                severity="warning",
+            )
+        for col in raw.hidden_columns:
+            ref = f"{get_column_letter(col)}1"
+            self.add(
+                "hidden-column",
+                sheet,
+                ref,
+                f"the column {dict(raw.header)[ref]} is hidden; spanfleet reads hidden "
+                "columns like any other, so its values are used; show it to check them",
+                severity="warning",
+            )
 
     def settings(self, raw: _RawSheet | None) -> dict[str, object]:
         """The Settings sheet as the document's ``settings`` object."""
@@ -363,7 +520,7 @@ def _refused_xml(exc: BaseException | None) -> bool:
 def read_workbook(data: bytes) -> Reading:
     """Read a workbook's bytes into the normalised document; never raises for bad input."""
     try:
-        raw, titles = _extract(data)
+        found = _extract(data)
     except Exception as exc:
         # Whatever openpyxl trips over inside a damaged file, the fix is the same,
         # except for XML that defusedxml refused (openpyxl may wrap that error).
@@ -382,7 +539,8 @@ def read_workbook(data: bytes) -> Reading:
                 ),
             ),
         )
-    build = _Builder()
+    raw, titles = found.raw, found.titles
+    build = _Builder(twins=found.twins)
     settings = build.settings(raw.get(SETTINGS.name))
     units = settings.get("units", Settings().units)
     if units not in UNIT_SYSTEMS or ("settings", "units") in build.blocked:
