@@ -404,6 +404,12 @@ _COMMANDS = {
 
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line ``argv`` (default ``sys.argv[1:]``); returns the exit status."""
+    for stream in (sys.stdout, sys.stderr):
+        # A message may quote text that the terminal cannot encode (a lone surrogate from
+        # JSON): escape it rather than fail while printing.
+        reconfigure = getattr(stream, "reconfigure", None)
+        if reconfigure is not None:
+            reconfigure(errors="backslashreplace")
     parser = build_parser()
     try:
         args = parser.parse_args(argv)

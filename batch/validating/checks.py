@@ -51,7 +51,9 @@ class Limit:
 #: Every magnitude limit, in one table. The plausible bounds are common practice:
 #: the longest girder spans built are about 300 m, the heaviest permit axles a few
 #: hundred kip; 75 % is the largest dynamic load allowance of AASHTO LRFD Table
-#: 3.6.2.1-1 (deck joints).
+#: 3.6.2.1-1 (deck joints). The refusals of distribution factors, vehicle factors and
+#: dead loads keep a value typed in the wrong place (a weight in a factor's cell, 1e300)
+#: from giving results that are finite but meaningless (common practice).
 LIMITS: dict[str, Limit] = {
     "span": Limit(what="span length", quantity="length", warn=(1000, 300), refuse=(10000, 3000)),
     "spans": Limit(what="number of spans", refuse=(30, 30)),
@@ -62,11 +64,21 @@ LIMITS: dict[str, Limit] = {
         what="axle spacing", quantity="length", warn=(1000, 300), refuse=(10000, 3000)
     ),
     "lane_load": Limit(what="lane load", quantity="line_load", warn=(10, 150), refuse=(100, 1500)),
-    "dead_load": Limit(what="dead load", quantity="line_load", warn=(30, 450)),
-    "df": Limit(what="distribution factor", warn=(2, 2)),
-    "factor": Limit(what="vehicle factor", warn=(10, 10)),
+    "dead_load": Limit(what="dead load", quantity="line_load", warn=(30, 450), refuse=(300, 4500)),
+    "df": Limit(what="distribution factor", warn=(2, 2), refuse=(100, 100)),
+    "factor": Limit(what="vehicle factor", warn=(10, 10), refuse=(1000, 1000)),
     "impact": Limit(warn=(0.75, 0.75)),
 }
+
+#: The shortest span accepted, (US ft, SI m): a girder span shorter than a foot is a
+#: typing or unit mistake (common practice).
+MIN_SPAN = (1.0, 0.3)
+#: The shortest span accepted as a fraction of the member's longest. Shorter spans make
+#: the stiffness model lose precision: the engine's reactions to a unit load sum to 1
+#: within 2e-14 at 1/100, 2e-13 at 1/1000, 2e-11 at 1/100,000 and not at all at 1e-12
+#: (measured on 60-x-60 ft members), so below 1/1000 a result could lose more digits
+#: than a rating reports; no real girder line has such spans (common practice).
+MIN_SPAN_RATIO = 1e-3
 
 #: The lowest condition factor (poor, 0.85) and system factor (0.85, the least redundant
 #: members) of the MBE's tables (6A.4.2.3 and 6A.4.2.4, from memory).
@@ -167,8 +179,36 @@ def _member(m: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[_Found]:
             "relative EI per span, or leave it empty for all 1",
             "error",
         )
-    if hinges:
+    short = [*_short_spans(spans, sp, cx)]
+    yield from short
+    if hinges and not short:
         yield from _hinges(spans, hinges, (*at, "hinges"), cx)
+
+
+def _short_spans(spans: list[float], at: DocPath, cx: _Context) -> Iterator[_Found]:
+    """A span shorter than :data:`MIN_SPAN`, or than :data:`MIN_SPAN_RATIO` of the longest."""
+    unit = UNIT_LABELS[cx.units]["length"]
+    least = cx.bound(MIN_SPAN)
+    shortest, longest = min(spans), max(spans)
+    if least is not None and shortest < least:
+        yield (
+            at,
+            "span-too-short",
+            f"Spans: a span of {shown(shortest)} {unit} is shorter than {shown(least)} {unit}, "
+            "the least spanfleet accepts; check the value, the Units setting and the "
+            "separators (a decimal point, and a comma and a space between spans)",
+            "error",
+        )
+    elif shortest < MIN_SPAN_RATIO * longest:
+        yield (
+            at,
+            "span-too-short",
+            f"Spans: a span of {shown(shortest)} {unit} is less than {shown(MIN_SPAN_RATIO)} "
+            f"of the longest ({shown(longest)} {unit}), too short for the stiffness model "
+            "to keep its precision; check the value (two supports that close act as one: "
+            "leave the short span out)",
+            "error",
+        )
 
 
 def _capacity_factors(m: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[_Found]:
