@@ -1,23 +1,28 @@
 """Every problem an engineer can meet in an input, as a table of (sheet, cell, code).
 
 Sources, by rule:
-* sheets, headers, list syntax, settings and their choices: the workbook
-  contract (/work/shared/contract/workbook.md);
+* sheets, headers, list syntax (the number rule of batch/reading/cells.py),
+  settings and their choices: the workbook format, docs/workbook.md;
 * hinge stability: statics of a line of rigid parts joined by hinges: each part
   has two freedoms (deflection and rotation), each support and each hinge takes
   one, so a member with n spans is a mechanism with more than n - 1 hinges, and
   a hinge at an end releases nothing (common practice);
 * dynamic load allowance above 75 %: AASHTO LRFD Table 3.6.2.1-1, whose largest
-  value is 75 % for deck joints (published-facts.md, [F S3]);
+  value is 75 % for deck joints;
 * condition × system factor of at least 0.85: MBE 6A.4.2.1 (from memory);
 * condition and system factors of at least 0.85 each (the lowest of the MBE's
   tables, from memory), rating load factors from 1.0 to 2.5 with a warning away
   from the published values (MBE Table 6A.4.2.2-1 and the legal and permit
-  tables, from memory; published-facts 2.1);
-* Capacities rows: the workbook contract ("Capacities": member, span and
+  tables, from memory);
+* Capacities rows: the workbook format ("Capacities": member, span and
   station as in Envelopes; resistances; a blank resistance is not rated);
 * JSON: RFC 8259 (no NaN or Infinity; object names should be unique) and RFC
-  6901 (JSON pointers).
+  6901 (JSON pointers);
+* text a cell cannot hold: W3C XML 1.0 (Fifth Edition) §2.2, production [2] Char,
+  and the 32,767 characters of a cell (Microsoft's "Excel specifications and limits");
+* the least span and the least ratio of spans, and the refusals of factors and dead
+  loads: batch/validating/checks.py (MIN_SPAN, MIN_SPAN_RATIO, LIMITS; common practice,
+  and the engine's precision measured in tests/test_refusals.py).
 """
 
 from __future__ import annotations
@@ -90,6 +95,41 @@ WORKBOOK_CASES = [
         "unknown-column",
         {"vehicles": [V | {"Remarks": "x"}]},
         [("Vehicles", "D1", "unknown-column", W)],
+    ),
+    (
+        "unknown-unit-header",
+        {"members": [{"Member": "M1", "Spans (furlongs)": 60}]},
+        [("Members", "B1", "header-unit-unknown", E)],
+    ),
+    (
+        "a-note-in-a-unit-header",
+        {
+            "vehicles": [
+                {"Vehicle": "V1", "Axle loads (front first)": "10, 30", "Axle spacings": 14}
+            ]
+        },
+        [("Vehicles", "B1", "header-unit-unknown", E)],
+    ),
+    (
+        "two-members-sheets",
+        {"extra": {" members ": _sheet(["Member", "Spans"], ["KV-0207 G2", 70])}},
+        [("Members", "", "duplicate-sheet", E)],
+    ),
+    (
+        "data-without-header",
+        {"extra": {"Members": _sheet(["Member", "Spans"], ["KV-0101 G1", 60, "30"])}},
+        [("Members", "C2", "data-without-header", E)],
+    ),
+    (
+        "row-with-data-only-in-unread-columns",
+        {
+            "extra": {
+                "Members": _sheet(
+                    ["Member", "Spans", "Remarks"], ["KV-0101 G1", 60], [None, None, "KV-0102?"]
+                )
+            }
+        },
+        [("Members", "C1", "unknown-column", W), ("Members", "C3", "row-not-read", E)],
     ),
     (
         "capacities-headers-only",
@@ -301,7 +341,45 @@ WORKBOOK_CASES = [
         {"members": [M | {"DF moment": "0,62"}]},
         [("Members", "C2", "ambiguous-decimal-comma", E)],
     ),
+    (
+        "si-decimal-comma-in-spans",
+        {
+            "settings": {"Units": "SI"},
+            "members": [{"Member": "M1", "Spans": "12,5, 14"}],
+            "vehicles": [{"Vehicle": "V1", "Axle loads": "100, 100", "Axle spacings": 1.2}],
+        },
+        [("Members", "B2", "ambiguous-decimal-comma", E)],
+    ),
+    (
+        "si-decimal-comma-in-spacings",
+        {
+            "settings": {"Units": "SI"},
+            "members": [{"Member": "M1", "Spans": "18"}],
+            "vehicles": [{"Vehicle": "V1", "Axle loads": "100, 100", "Axle spacings": "1,2"}],
+        },
+        [("Vehicles", "C2", "ambiguous-decimal-comma", E)],
+    ),
+    (
+        "list-typed-without-spaces",
+        {"members": [{"Member": "M1", "Spans": "60,80,60"}]},
+        [("Members", "B2", "ambiguous-decimal-comma", E)],
+    ),
+    (
+        "thousands-separated-by-spaces-in-a-list",
+        {"vehicles": [V | {"Axle loads": "1 250, 30, 30"}]},
+        [("Vehicles", "B2", "mixed-separators", E)],
+    ),
+    (
+        "no-break-space-thousands",
+        {"members": [M | {"DC load": "1\u00a0250"}]},
+        [("Members", "C2", "thousands-separator", E)],
+    ),
     ("overflow", {"members": [M | {"DF shear": "1e999"}]}, [("Members", "C2", "not-finite", E)]),
+    (
+        "overflow-in-a-list",
+        {"members": [{"Member": "M1", "Spans": "60, 1e999"}]},
+        [("Members", "B2", "not-finite", E)],
+    ),
     (
         "error-value",
         {"members": [M | {"DF shear": "#DIV/0!"}]},
@@ -432,7 +510,23 @@ WORKBOOK_CASES = [
         {"members": [{"Member": "M1", "Spans": 1200}]},
         [("Members", "B2", "implausible-value", W)],
     ),
+    (
+        "span-half-a-foot",
+        {"members": [{"Member": "M1", "Spans": "60, 0.5, 60"}]},
+        [("Members", "B2", "span-too-short", E)],
+    ),
+    (
+        "span-a-thousandth-of-the-longest",
+        {"members": [{"Member": "M1", "Spans": "1500, 1.2"}]},
+        [("Members", "B2", "implausible-value", W), ("Members", "B2", "span-too-short", E)],
+    ),
     ("df-2.5", {"members": [M | {"DF shear": 2.5}]}, [("Members", "C2", "implausible-value", W)]),
+    ("df-1e300", {"members": [M | {"DF moment": 1e300}]}, [("Members", "C2", "limit-exceeded", E)]),
+    (
+        "dead-load-500",
+        {"members": [M | {"DC load": 500}]},
+        [("Members", "C2", "limit-exceeded", E)],
+    ),
     (
         "dead-load-40",
         {"members": [M | {"DW load": 40}]},
@@ -517,6 +611,11 @@ WORKBOOK_CASES = [
         [("Vehicles", "D2", "implausible-value", W)],
     ),
     ("factor-20", {"vehicles": [V | {"Factor": 20}]}, [("Vehicles", "D2", "implausible-value", W)]),
+    (
+        "factor-5000",
+        {"vehicles": [V | {"Factor": 5000}]},
+        [("Vehicles", "D2", "limit-exceeded", E)],
+    ),
 ]
 
 
@@ -708,6 +807,27 @@ JSON_CASES = [
         json.dumps(_doc(members=[GOOD_MEMBER, GOOD_MEMBER])),
         [("/members/1/id", "duplicate-id")],
     ),
+    (
+        "control-character-in-an-id",
+        json.dumps(_doc(members=[{"id": "KV-0101\u0007 G1", "spans": [60]}])),
+        [("/members/0/id", "text-control-character")],
+    ),
+    (
+        "unpaired-surrogate-in-a-description",
+        '{"members": [{"id": "M", "spans": [60], "description": "Heron \\ud800 Creek"}], '
+        '"vehicles": [{"id": "V", "axle_loads": [5]}]}',
+        [("/members/0/description", "text-not-unicode")],
+    ),
+    (
+        "text-longer-than-a-cell",
+        json.dumps(_doc(vehicles=[GOOD_VEHICLE | {"description": "x" * 32_768}])),
+        [("/vehicles/0/description", "text-too-long")],
+    ),
+    (
+        "tab-and-line-feed-are-text",
+        json.dumps(_doc(vehicles=[GOOD_VEHICLE | {"description": "KVHA\tgravel\ntruck"}])),
+        [],
+    ),
 ]
 
 
@@ -720,7 +840,7 @@ def test_json_problem_table(tmp_path, text, expected):
         p.render() for p in report.problems
     ]
     assert all(p.sheet == JSON_SHEET for p in report.problems)
-    assert report.case is None
+    assert (report.case is None) == bool(expected)
 
 
 @pytest.mark.parametrize(

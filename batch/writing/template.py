@@ -34,6 +34,7 @@ from batch.model import UNIT_LABELS, UNIT_SYSTEMS, Case, Spacing
 from batch.model.declare import InputColumn, InputSheet
 from batch.model.sheets import INPUT_SHEETS, SETTING_ROWS, SETTINGS
 from batch.model.units import UnitSystem
+from batch.reading.cells import NUMBER_RULE
 from batch.writing.cautions import CAUTIONS, SIGN_CONVENTIONS
 from batch.writing.package.save import SaveError, atomic_save
 
@@ -82,7 +83,10 @@ def _header_note(column: InputColumn) -> str:
         return ""
     lines = [column.meaning, "Required." if column.required else ""]
     if column.kind in ("list", "spacing-list"):
-        lines.append("A list: numbers separated by commas, semicolons or spaces.")
+        lines.append(
+            "A list: numbers separated by commas, semicolons or spaces (not a mix); decimals "
+            "with a point. A comma between two digits (12,5 or 60,80) is refused."
+        )
     if column.choices:
         lines.append("One of: " + ", ".join(column.choices) + ".")
     lines.append(_unit_note(column))
@@ -272,15 +276,17 @@ def _guide_lines(units: UnitSystem) -> list[tuple[str, Font | None]]:
             "gives the worst effect is used.",
             plain,
         ),
+        (f"5. Numbers and lists: {NUMBER_RULE}", plain),
         (
-            "5. Capacities is optional: every station listed there is rated against every "
+            "6. Capacities is optional: every station listed there is rated against every "
             "vehicle (Ratings and Rating Matrix sheets). Delete its example row, or the whole "
             "sheet, when you want envelopes only. Without capacities, a Reference vehicle in "
             "Settings compares every vehicle with that load (Screening sheets).",
             plain,
         ),
         (
-            "6. Blank rows are skipped. Keep the sheet names; you may add sheets of your own.",
+            "7. Blank rows are skipped; hidden and filtered rows are read like any other. Keep the "
+            "sheet names; you may add sheets of your own.",
             plain,
         ),
         ("", plain),

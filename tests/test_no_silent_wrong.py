@@ -1,0 +1,258 @@
+"""No silent wrong answer: each class of issue 13, met as an engineer meets it.
+
+Every case is a workbook (or a JSON document) and a command line. Each asserts the
+exit status (1 for a refusal, never 3), that the message names the sheet and cell
+and says what to do (``Sheet!Cell: what is wrong; how to fix it``, DEVELOPERS.md,
+"House rules"), that ``check`` refuses what ``run`` refuses, and that the input is
+byte-identical afterwards.
+
+Sources: the number rule, header units, sheet names and the rows read are the
+workbook format (docs/workbook.md, "Reading rules"); what a cell can hold is W3C
+XML 1.0 (Fifth Edition) §2.2, production [2] Char; the least span ratio rests on
+the engine's equilibrium measured here (a unit load's reactions sum to 1 and their
+moment about the left end is the load's position: statics, common practice).
+"""
+
+from __future__ import annotations
+
+import contextlib
+import io
+import json
+import subprocess
+import sys
+from collections.abc import Callable
+from pathlib import Path
+
+import numpy as np
+import openpyxl
+import pytest
+
+from batch.command.cli import EXIT_OK, EXIT_PROBLEMS, main
+from batch.engine.influence import influence_lines
+from batch.reading import workbook
+from batch.validating.checks import MIN_SPAN_RATIO
+
+#: The reactions of a unit load sum to 1 within this at the least span ratio accepted.
+EQUILIBRIUM_TOL = 1e-12
+
+VEHICLE = {"Vehicle": "KV-T3", "Axle loads (kip)": "10, 30, 30", "Axle spacings (ft)": "14, 16"}
+
+
+def spanfleet(*argv: str) -> tuple[int, str]:
+    """``spanfleet ARGV`` in this process: exit status and everything it printed."""
+    out, err = io.StringIO(), io.StringIO()
+    with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
+        status = main(list(argv))
+    return status, out.getvalue() + err.getvalue()
+
+
+def assert_refused(book: Path, where: str, *words: str) -> str:
+    """``check``, ``run`` in place and ``run --out`` all refuse ``book`` at ``where``."""
+    before = book.read_bytes()
+    out = book.with_name("results.xlsx")
+    texts = []
+    for argv in (["check"], ["run"], ["run", "--out", str(out)]):
+        status, text = spanfleet(argv[0], str(book), *argv[1:])
+        assert status == EXIT_PROBLEMS, text
+        assert "Traceback" not in text and "internal error" not in text, text
+        line = next((ln for ln in text.splitlines() if ln.startswith(f"{where}: ")), None)
+        assert line is not None, text
+        assert "; " in line, f"no fix given: {line}"
+        for word in words:
+            assert word in line, line
+        assert book.read_bytes() == before
+        assert not out.exists()
+        texts.append(line)
+    assert len(set(texts)) == 1, "check says the same as run"
+    return texts[0]
+
+
+# ---------------------------------------------------------------- never drop a row
+
+
+def test_data_below_the_last_row_read_is_refused_by_its_cell(
+    tmp_path: Path, make_workbook: Callable[..., Path], monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # The cap is lowered so the test stays small; the rule is the same at 100,000 rows.
+    monkeypatch.setattr(workbook, "MAX_ROWS", 4)
+    members = [{"Member": f"KV-{k:04d} G1", "Spans (ft)": 40 + k} for k in range(3)]
+    book = make_workbook(tmp_path, members=members, vehicles=[VEHICLE])
+    wb = openpyxl.load_workbook(book)
+    wb["Members"]["A7000"] = "KV-7000 G1"  # far below, after thousands of blank rows
+    wb["Members"]["B7000"] = 55
+    wb.save(book)
+    assert_refused(book, "Members!A7000", "below row 5")
+
+
+def test_a_value_under_no_header_is_refused(tmp_path: Path, make_workbook) -> None:
+    # Hinges typed one column to the right of the table, where no header is: read as
+    # nothing, the member would be analysed as continuous.
+    book = make_workbook(
+        tmp_path,
+        extra={"Members": [["Member", "Spans (ft)"], ["KV-0311 G1", "50, 60, 50", 75]]},
+        vehicles=[VEHICLE],
+    )
+    assert_refused(book, "Members!C2", "no header", "Hinges")
+
+
+def test_a_row_with_data_only_where_nothing_is_read_is_refused(
+    tmp_path: Path, make_workbook
+) -> None:
+    book = make_workbook(
+        tmp_path,
+        extra={
+            "Members": [
+                ["Member", "Spans (ft)", "Remarks"],
+                ["KV-0101 G1", 60, "deck replaced 2011"],
+                [None, None, "KV-0102 G1 60 ft"],
+            ]
+        },
+        vehicles=[VEHICLE],
+    )
+    assert_refused(book, "Members!C3", "row 3", "left out")
+
+
+def test_hidden_and_filtered_rows_are_analysed_and_the_run_says_so(
+    tmp_path: Path, make_workbook
+) -> None:
+    members = [{"Member": f"KV-{k:04d} G1", "Spans (ft)": 40 + 5 * k} for k in range(4)]
+    book = make_workbook(tmp_path, members=members, vehicles=[VEHICLE])
+    wb = openpyxl.load_workbook(book)
+    wb["Members"].row_dimensions[3].hidden = True
+    wb["Members"].row_dimensions[5].hidden = True
+    wb.save(book)
+    status, text = spanfleet("run", str(book), "-q")
+    assert status == EXIT_OK, text
+    assert "warning: Members!A3: rows 3 and 5 are hidden" in text
+    log = openpyxl.load_workbook(io.BytesIO(book.read_bytes()), read_only=True)["Run Log"]
+    rows = {row[0]: row[1] for row in log.iter_rows(values_only=True)}
+    assert rows["Members"] == 4, "hidden members are analysed"
+    logged = [v for k, v in log.iter_rows(values_only=True) if k == "warning"]
+    assert any(str(v).startswith("Members!A3: rows 3 and 5 are hidden") for v in logged)
+
+
+# ---------------------------------------------------------------- never guess a number
+
+
+@pytest.mark.parametrize(
+    ("column", "text", "cell", "decimal"),
+    [
+        ("Spans (m)", "12,5, 14", "Members!B2", "12.5"),
+        ("Spans (m)", "12,5", "Members!B2", "12.5"),
+        ("DF moment", "0,62", "Members!C2", "0.62"),
+    ],
+)
+def test_a_decimal_comma_in_an_si_workbook_is_refused_alike_in_lists_and_numbers(
+    tmp_path: Path, make_workbook, column: str, text: str, cell: str, decimal: str
+) -> None:
+    member = {"Member": "KV-0101 G1", "Spans (m)": 18} | {column: text}
+    book = make_workbook(
+        tmp_path,
+        settings={"Units": "SI"},
+        members=[member],
+        vehicles=[{"Vehicle": "KV-TS", "Axle loads (kN)": "120, 120", "Axle spacings (m)": 1.2}],
+    )
+    assert_refused(book, cell, f"the decimal {decimal}", "never guesses")
+
+
+def test_spacings_typed_without_spaces_are_refused_not_split(tmp_path: Path, make_workbook) -> None:
+    # 3 axles and "4,3-9" would otherwise be read as three spacings 4, 3-9: wrong count, or
+    # worse, a silently different truck.
+    book = make_workbook(
+        tmp_path,
+        vehicles=[
+            {"Vehicle": "KV-T3", "Axle loads (kip)": "8, 32, 32", "Axle spacings (ft)": "14,5"}
+        ],
+    )
+    assert_refused(book, "Vehicles!C2", "14.5", "14, 5")
+
+
+@pytest.mark.parametrize(
+    ("member", "cell", "word"),
+    [
+        ({"Spans (ft)": "60, 0.01, 60"}, "Members!B2", "shorter than 1 ft"),
+        ({"Spans (ft)": "60, 1e999"}, "Members!B2", "not a finite number"),
+        ({"Spans (ft)": 60, "DF moment": "1e300"}, "Members!C2", "the most spanfleet accepts"),
+        ({"Spans (ft)": 60, "DF shear": "NaN"}, "Members!C2", "not a number"),
+    ],
+)
+def test_numbers_the_engine_cannot_honour_are_refused_by_cell(
+    tmp_path: Path, make_workbook, member: dict, cell: str, word: str
+) -> None:
+    book = make_workbook(tmp_path, members=[{"Member": "KV-0101 G1"} | member], vehicles=[VEHICLE])
+    assert_refused(book, cell, word)
+
+
+def test_the_least_span_ratio_accepted_keeps_the_engine_in_equilibrium() -> None:
+    # Statics: the reactions to a unit load sum to 1, and their moment about the left end
+    # equals the load's position (common practice). At the least ratio accepted
+    # (batch/validating/checks.py, MIN_SPAN_RATIO) both hold to EQUILIBRIUM_TOL.
+    spans = (60.0, 60.0 * MIN_SPAN_RATIO, 60.0)
+    lines = influence_lines(spans, stations_per_span=4)
+    x = np.linspace(0.0, sum(spans), 2001)
+    reactions = lines.evaluate(x)[lines.reaction_rows]
+    supports = np.concatenate(([0.0], np.cumsum(spans)))
+    assert np.abs(reactions.sum(axis=0) - 1.0).max() < EQUILIBRIUM_TOL
+    assert np.abs(supports @ reactions - x).max() / sum(spans) < EQUILIBRIUM_TOL
+
+
+# ---------------------------------------------------------------- never ignore a unit
+
+
+def test_a_header_unit_spanfleet_does_not_know_is_refused(tmp_path: Path, make_workbook) -> None:
+    book = make_workbook(
+        tmp_path, members=[{"Member": "KV-0101 G1", "Spans (chains)": 3}], vehicles=[VEHICLE]
+    )
+    assert_refused(book, "Members!B1", "'chains'", "not a unit spanfleet knows", "Spans (ft)")
+
+
+# ---------------------------------------------------------------- one sheet, one name
+
+
+def test_two_sheets_with_one_name_are_refused_naming_both(tmp_path: Path, make_workbook) -> None:
+    book = make_workbook(
+        tmp_path,
+        vehicles=[VEHICLE],
+        extra={"VEHICLES ": [["Vehicle", "Axle loads"], ["KV-HEAVY", "40, 40"]]},
+    )
+    assert_refused(book, "Vehicles", "'Vehicles' and 'VEHICLES '")
+
+
+# ---------------------------------------------------------------- characters
+
+
+@pytest.mark.parametrize(
+    ("escaped", "code"), [("\\u0007", "U+0007"), ("\\ud83d", "U+D83D"), ("\\uffff", "U+FFFF")]
+)
+def test_characters_a_workbook_cannot_hold_are_refused_by_check(
+    tmp_path: Path, escaped: str, code: str
+) -> None:
+    doc = tmp_path / "case.json"
+    doc.write_text(
+        '{"members": [{"id": "KV-0101 G1", "spans": [60]}], "vehicles": [{"id": "KV-T3'
+        + escaped
+        + '", "axle_loads": [10, 30, 30], "spacings": [14, 16]}]}'
+    )
+    before = doc.read_bytes()
+    out = tmp_path / "results.xlsx"
+    for argv in (["check", str(doc)], ["run", str(doc), "--out", str(out)]):
+        status, text = spanfleet(*argv)
+        assert status == EXIT_PROBLEMS, text
+        assert "JSON /vehicles/0/id: Vehicle: 'KV-T3\\" in text and code in text, text
+        assert "internal error" not in text
+    assert doc.read_bytes() == before
+    assert not out.exists()
+
+
+def test_a_key_with_a_lone_surrogate_is_printed_not_crashed_on(tmp_path: Path) -> None:
+    # The message quotes the key; a real terminal's UTF-8 stream cannot encode a lone
+    # surrogate, so this runs in a real process.
+    doc = tmp_path / "case.json"
+    doc.write_text(json.dumps({"members": [], "vehicles": []})[:-1] + ', "KV\\udc00": 1}')
+    for argv in (["check", str(doc)], ["run", str(doc), "--out", str(tmp_path / "r.xlsx")]):
+        done = subprocess.run(
+            [sys.executable, "-m", "batch", *argv], capture_output=True, check=False, timeout=60
+        )
+        text = (done.stdout + done.stderr).decode("utf-8", "replace")
+        assert done.returncode == EXIT_PROBLEMS, text
+        assert "JSON /KV\\udc00: " in text and "internal error" not in text, text
