@@ -1,7 +1,7 @@
 """The cell reader against the quirks of cells typed by people and stored by spreadsheets.
 
-Sources: the list and range syntax is the workbook contract
-(/work/shared/contract/workbook.md, "Input sheets"); how spreadsheets store
+Sources: the list and range syntax is the workbook format
+(docs/workbook.md, "Reading rules"); how spreadsheets store
 cells (integers stored as floats, booleans, dates as serial numbers shown with
 a date format, the error values #DIV/0!, #N/A, #REF! ...) is ECMA-376 Part 1,
 §18.3.1.4 (c, cell) and §18.17.2 (error values), from memory; "-" and "N/A" as
