@@ -74,7 +74,7 @@ def test_data_below_the_last_row_read_is_refused_by_its_cell(
     tmp_path: Path, make_workbook: Callable[..., Path], monkeypatch: pytest.MonkeyPatch
 ) -> None:
     # The cap is lowered so the test stays small; the rule is the same at 100,000 rows.
-    monkeypatch.setattr(workbook, "MAX_ROWS", 4)
+    monkeypatch.setattr(workbook, "MAX_INPUT_ROWS", 4)
     members = [{"Member": f"KV-{k:04d} G1", "Spans (ft)": 40 + k} for k in range(3)]
     book = make_workbook(tmp_path, members=members, vehicles=[VEHICLE])
     wb = openpyxl.load_workbook(book)
