@@ -29,6 +29,7 @@ results show the new values in a spreadsheet program.
 
 from __future__ import annotations
 
+import contextlib
 import posixpath
 import re
 import shutil
@@ -208,6 +209,17 @@ class ResultBook:
         fh.close()
         if entry.drawing is not None:
             self._write_drawing(entry)
+
+    def abandon(self) -> None:
+        """Let go of the open sheet after a failure, whatever state its stream is in."""
+        if self._open is None:
+            return
+        entry, fh = self._open
+        self._open = None
+        with contextlib.suppress(Exception):
+            entry.stream.close()
+        with contextlib.suppress(Exception):
+            fh.close()
 
     def _write(self, part: str, data: bytes) -> None:
         self.out.writestr(part, data)
@@ -486,13 +498,22 @@ class ResultPackage:
             )
         }
         dropped = src.dropped
-        with zipfile.ZipFile(
-            filename, "w", zipfile.ZIP_DEFLATED, compresslevel=SHEET_COMPRESSION
-        ) as out:
+        out = zipfile.ZipFile(filename, "w", zipfile.ZIP_DEFLATED, compresslevel=SHEET_COMPRESSION)
+        book: ResultBook | None = None
+        try:
             for info in src.infos:
                 if info.filename not in dropped and info.filename.lower() not in edited:
                     _copy(src, info, out)
             book = ResultBook(src, out, self.fallback_active)
             self.write(book)
             book.finish()
+        except BaseException:
+            # The file is abandoned (the caller removes it); what failed (a full disk, say)
+            # must reach the caller, not zipfile's complaint that a sheet is still open.
+            if book is not None:
+                book.abandon()
+            with contextlib.suppress(Exception):
+                out.close()
+            raise
+        out.close()
         self.sheets = book.names
