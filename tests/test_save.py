@@ -304,7 +304,7 @@ def test_a_full_disk_gives_a_clear_message(tmp_path: Path, monkeypatch) -> None:
         raise OSError(errno.ENOSPC, "No space left on device")
 
     monkeypatch.setattr(os, "replace", full)
-    with pytest.raises(SaveError, match=r"full; free some space.*was not changed"):
+    with pytest.raises(SaveError, match=r"disk is full.*free some space.*was not changed"):
         atomic_save(result_package(_package(target), run_case(CASE), INFO), target)
     assert target.read_bytes() == before
     assert not [p for p in tmp_path.iterdir() if p.name.startswith(TEMP_PREFIX)]
