@@ -9,6 +9,10 @@ Commands::
     spanfleet template NEW.xlsx              a blank, documented input workbook
     spanfleet library [--units SI]           the built-in load models
 
+``--out`` never replaces a file spanfleet did not write unless ``--overwrite`` is
+given; a read-only target, one open in a spreadsheet program, and a folder that
+does not exist or cannot be written are refused before any work is done.
+
 Exit status: 0 success; 1 the input has problems, or the results could not be
 saved (each problem printed as ``Sheet!Cell: message``); 2 usage error; 3 an
 internal error (please report it); 130 interrupted. A run that fails never
@@ -73,6 +77,16 @@ def _positive_int(text: str) -> int:
     return value
 
 
+def _positive_seconds(text: str) -> float:
+    try:
+        value = float(text)
+    except ValueError:
+        value = 0.0
+    if not value > 0 or value == float("inf"):
+        raise argparse.ArgumentTypeError(f"{text!r} is not a number of seconds above 0")
+    return value
+
+
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser of the ``spanfleet`` command."""
     parser = argparse.ArgumentParser(
@@ -104,6 +118,19 @@ def build_parser() -> argparse.ArgumentParser:
         metavar="ADDRESS",
         help="run the members on an existing Dask cluster (e.g. tcp://10.0.0.5:8786); "
         "needs the 'cluster' extra",
+    )
+    run.add_argument(
+        "--cluster-timeout",
+        type=_positive_seconds,
+        default=30.0,
+        metavar="SECONDS",
+        help="how long to wait for the cluster to answer before giving up (default 30)",
+    )
+    run.add_argument(
+        "--overwrite",
+        action="store_true",
+        help="let --out replace an existing workbook that spanfleet did not write "
+        "(one it wrote is replaced without asking)",
     )
     run.add_argument(
         "--no-store",
@@ -209,16 +236,77 @@ def _json_source(report: InputReport) -> SourcePackage:
     return SourcePackage(buffer.getvalue(), "(JSON input)", keep_active=False)
 
 
-def _guard_in_place(target: Path) -> None:
+def _guard_target(target: Path, in_place: bool, overwrite: bool) -> None:
+    """Refuse, before any work, a target the results could not or should not replace.
+
+    The folder must exist and be writable (the workbook's temporary file and the
+    checkpoint store go there); an existing target must be writable, not open in a
+    spreadsheet program, and, for --out, a workbook spanfleet wrote (or --overwrite).
+    """
     from batch.writing.package.save import open_elsewhere
 
+    folder = target.parent
+    elsewhere = "write the results elsewhere with --out" if in_place else "choose another --out"
+    if not folder.is_dir():
+        raise Refused(
+            f"{target.name}: the folder {folder} does not exist; create it, or {elsewhere}"
+        )
+    if not os.access(folder, os.W_OK | os.X_OK):
+        raise Refused(
+            f"{target.name}: the folder {folder} is read-only for you, so neither the results "
+            f"nor the checkpoint store can be written there; {elsewhere}"
+        )
+    if not target.exists():
+        return
+    unchanged = f"{target.name} was not changed."
+    if not os.access(target, os.W_OK):
+        raise Refused(
+            f"{target.name}: the workbook is read-only, so spanfleet will not replace it; make "
+            f"it writable, or {elsewhere}. {unchanged}"
+        )
     lock = open_elsewhere(target)
     if lock is not None:
         raise Refused(
             f"{target.name}: seems to be open in a spreadsheet program (lock file {lock.name}); "
-            f"close it and run again (delete the lock file if no program has it open), or use "
-            f"--out. {target.name} was not changed."
+            f"close it and run again (delete the lock file if no program has it open), or "
+            f"{elsewhere}. {unchanged}"
         )
+    if not in_place and not overwrite and not _spanfleet_copy(target):
+        raise Refused(
+            f"{target.name}: the file exists and is not a copy spanfleet wrote with --out, so "
+            f"it will not be replaced; give --out a new name, or add --overwrite to replace it. "
+            f"{unchanged}"
+        )
+
+
+def _spanfleet_copy(path: Path) -> bool:
+    """Whether ``path`` is a workbook spanfleet wrote with --out (safe to replace).
+
+    It must hold result sheets spanfleet marked as its own, and its Run Log must
+    name an input other than itself: a workbook run in place is the engineer's own.
+    """
+    import warnings
+
+    import openpyxl
+
+    from batch.writing.columns import RUN_LOG_SHEET
+    from batch.writing.package.save import written_by_spanfleet
+    from batch.writing.runlog import INPUT_FILE_ITEM, OUTPUT_FILE_ITEM
+
+    if not written_by_spanfleet(path):
+        return False
+    try:
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            wb = openpyxl.load_workbook(path, read_only=True)
+        try:
+            rows = wb[RUN_LOG_SHEET].iter_rows(max_col=2, max_row=200, values_only=True)
+            log = {str(item): value for item, value in rows if item is not None}
+        finally:
+            wb.close()
+    except Exception:  # whatever is wrong with the file, it is not known to be a copy
+        return False
+    return log.get(INPUT_FILE_ITEM) != log.get(OUTPUT_FILE_ITEM)
 
 
 def _progress(quiet: bool) -> ProgressFn | None:
@@ -260,7 +348,7 @@ def _run_key(report: InputReport) -> str:
 
 
 def _cmd_run(args: argparse.Namespace) -> int:
-    from batch.running.executor import RunError, RunOptions, run_case
+    from batch.running.executor import ClusterError, RunError, RunOptions, run_case
     from batch.running.store import StoreError, store_path_for
     from batch.writing.package.save import SaveError, atomic_save
     from batch.writing.package.splice import BookProblem
@@ -272,6 +360,7 @@ def _cmd_run(args: argparse.Namespace) -> int:
     is_json = src.suffix.lower() == ".json"
     target, in_place = _target(src, args.out)
     _check_names(src, target, is_json, args.out is not None)
+    _guard_target(target, in_place, args.overwrite)
     report = _read(src)
     if (status := _report_problems(report, src.name)) != EXIT_OK:
         _say(f"{src.name} was not changed.")
@@ -282,8 +371,6 @@ def _cmd_run(args: argparse.Namespace) -> int:
     else:
         keep_vba = src.suffix.lower() == ".xlsm" and target.suffix.lower() == ".xlsm"
         source = _open_input(src, report, keep_vba)
-        if in_place:
-            _guard_in_place(target)
         for what in source.lacks:
             _warn(
                 f"{target.name} will lack {what}: an .xlsx workbook cannot hold them; "
@@ -292,6 +379,7 @@ def _cmd_run(args: argparse.Namespace) -> int:
     options = RunOptions(
         jobs=args.jobs,
         cluster=args.cluster,
+        cluster_timeout=args.cluster_timeout,
         store=None if args.no_store else store_path_for(target),
         key=_run_key(report),
     )
@@ -307,7 +395,7 @@ def _cmd_run(args: argparse.Namespace) -> int:
         # With a store, results are read back from it as the workbook is saved.
         package = result_package(source, result, info)
         atomic_save(package, target, expect_sha256=report.digest if in_place else None)
-    except (RunError, StoreError) as exc:
+    except (RunError, StoreError, ClusterError) as exc:
         raise Refused(f"{exc}. {src.name} was not changed.") from exc
     except (SaveError, BookProblem) as exc:
         raise Refused(str(exc)) from exc

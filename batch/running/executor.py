@@ -45,6 +45,7 @@ from batch.rating.lrfr import VehicleEffects, vehicle_effects
 from batch.running.store import CheckpointStore
 
 __all__ = [
+    "ClusterError",
     "MemberResult",
     "ProgressFn",
     "RunError",
@@ -79,6 +80,10 @@ class RunError(Exception):
         return (RunError, (self.member, self.reason))  # survives the trip from a worker
 
 
+class ClusterError(Exception):
+    """The Dask cluster cannot be used; the message says why and what to do."""
+
+
 @dataclass(frozen=True, kw_only=True)
 class MemberResult:
     """One member's results: envelope, per-vehicle peaks (n_vehicles, 6), warnings.
@@ -100,6 +105,7 @@ class RunOptions:
 
     jobs: int | None = 1
     cluster: str | None = None
+    cluster_timeout: float = 30.0  # seconds to wait for the cluster to answer
     store: Path | None = None
     key: str = ""  # identifies the input (and version) for the store
 
@@ -246,17 +252,37 @@ def _local(chunks: list[_Chunk], workers: int) -> Iterator[list[MemberResult]]:
         pool.shutdown(wait=True, cancel_futures=True)
 
 
-def _cluster(chunks: list[_Chunk], address: str) -> Iterator[list[MemberResult]]:
+def _cluster(chunks: list[_Chunk], address: str, timeout: float) -> Iterator[list[MemberResult]]:
+    """Each chunk's results from the Dask cluster at ``address``, as they finish.
+
+    Connecting may take at most ``timeout`` seconds. Raises :class:`ClusterError`
+    when the cluster cannot be reached or stops answering; a member the engine
+    cannot analyse still raises :class:`RunError`.
+    """
     try:
         from dask.distributed import Client, as_completed
     except ImportError as exc:  # the optional extra is missing
-        raise RunError(
-            "(all)", "--cluster needs dask.distributed: pip install 'spanfleet[cluster]'"
+        raise ClusterError(
+            f"--cluster {address}: running on a cluster needs dask.distributed; install it "
+            "with pip install 'spanfleet[cluster]', or run without --cluster"
         ) from exc
-    with Client(address) as client:
+    try:
+        client = Client(address, timeout=timeout)
+    except Exception as exc:  # refused, timed out, a bad address, or no Dask scheduler there
+        raise ClusterError(
+            f"--cluster {address}: no Dask scheduler answered within {timeout:g} s ({exc}); "
+            "check the address and that the scheduler is running, or run without --cluster"
+        ) from exc
+    with client:
         futures = [client.submit(_analyse_chunk, c, pure=False) for c in chunks]
-        for future in as_completed(futures):
-            yield future.result()
+        try:
+            for future in as_completed(futures):
+                yield future.result()
+        except (OSError, TimeoutError) as exc:  # the scheduler or a worker went away
+            raise ClusterError(
+                f"--cluster {address}: the cluster stopped answering ({exc}); run the same "
+                "command again to carry on from the members already finished"
+            ) from exc
 
 
 def _open_store(
@@ -347,7 +373,11 @@ def run_case(
         todo = [(i, m) for i, m in enumerate(case.members) if i not in finished]
         workers = 1 if options.cluster else _workers(options, len(todo) * len(cases))
         chunks = _chunks(todo, cases, case, plan, workers)
-        source = _cluster(chunks, options.cluster) if options.cluster else _local(chunks, workers)
+        source = (
+            _cluster(chunks, options.cluster, options.cluster_timeout)
+            if options.cluster
+            else _local(chunks, workers)
+        )
         gathered = _gather(source, store, peaks, progress, len(finished), n_members)
         if store is None:
             envelopes: Sequence[MemberEnvelope] = tuple(

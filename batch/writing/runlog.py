@@ -25,7 +25,12 @@ from batch.writing.columns import RUN_LOG_SHEET
 from batch.writing.package.splice import ResultBook
 from batch.writing.package.styles import HEADER_RGB, HIGHLIGHT_RGB, CellFormat
 
-__all__ = ["InputInfo", "write_run_log"]
+__all__ = ["INPUT_FILE_ITEM", "OUTPUT_FILE_ITEM", "InputInfo", "write_run_log"]
+
+#: The Run Log items naming the input file and the workbook the results went to: equal
+#: after a run in place, different in a copy written with --out.
+INPUT_FILE_ITEM = "Input file"
+OUTPUT_FILE_ITEM = "Results written to"
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -93,10 +98,10 @@ def _rows(
     )
     yield "Environment", versions, _PLAIN
     yield "Input", None, _SECTION
-    yield "Input file", info.name, _PLAIN
+    yield INPUT_FILE_ITEM, info.name, _PLAIN
     yield "Input type", info.source, _PLAIN
     yield "Input SHA-256", info.digest, _PLAIN
-    yield "Results written to", info.output, _PLAIN
+    yield OUTPUT_FILE_ITEM, info.output, _PLAIN
     yield "Settings used", None, _SECTION
     for row in SETTING_ROWS:
         yield row.header, getattr(settings, row.key), _PLAIN
