@@ -7,9 +7,10 @@ moments: half of them anywhere before the save, half while the temporary file is
 being written or just after its rename. After every kill the workbook must open
 in openpyxl and be byte-for-byte the original; only when the kill came after the
 rename may it be the finished result workbook instead, with the same envelopes
-as an uninterrupted run. Temporary files may be left behind, but they never take
-the workbook's place, and neither they nor a partly written checkpoint store
-stop a later run or change its results.
+as an uninterrupted run. A killed run may leave its temporary file behind, but
+it never takes the workbook's place, the next run removes it (issue 13), and
+neither it nor a partly written checkpoint store stops a later run or changes
+its results.
 
 Why this holds: results are written to a temporary file in the same folder and
 swapped in with one rename, which POSIX rename(2) makes atomic (common practice
@@ -177,6 +178,7 @@ def test_killed_runs_never_damage_the_workbook(tmp_path: Path, make_workbook) ->
     _, err = proc.communicate(timeout=RUN_TIMEOUT_S)
     assert proc.returncode == 0, err.decode()
     assert _envelopes(book.read_bytes()) == reference
+    assert not _temp_files(tmp_path), "the next run removes what killed runs left behind"
     print(
         f"kill test: save from {until_save:.2f} s, taking {save_time:.2f} s; {kills} kills in "
         f"{attempts} attempts; {finished} runs got to the rename first; {len(leftovers)} "

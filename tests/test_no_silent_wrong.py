@@ -18,6 +18,7 @@ from __future__ import annotations
 import contextlib
 import io
 import json
+import os
 import subprocess
 import sys
 from collections.abc import Callable
@@ -31,6 +32,8 @@ from batch.command.cli import EXIT_OK, EXIT_PROBLEMS, main
 from batch.engine.influence import influence_lines
 from batch.reading import workbook
 from batch.validating.checks import MIN_SPAN_RATIO
+from batch.writing.package import save
+from batch.writing.package.save import TEMP_PREFIX
 
 #: The reactions of a unit load sum to 1 within this at the least span ratio accepted.
 EQUILIBRIUM_TOL = 1e-12
@@ -256,3 +259,164 @@ def test_a_key_with_a_lone_surrogate_is_printed_not_crashed_on(tmp_path: Path) -
         text = (done.stdout + done.stderr).decode("utf-8", "replace")
         assert done.returncode == EXIT_PROBLEMS, text
         assert "JSON /KV\\udc00: " in text and "internal error" not in text, text
+
+
+# ---------------------------------------------------------------- never replace what is not ours
+
+
+def _inventory(tmp_path: Path, make_workbook: Callable[..., Path], name: str) -> Path:
+    return make_workbook(
+        tmp_path,
+        members=[{"Member": "KV-0101 G1", "Spans (ft)": "40, 50"}],
+        vehicles=[VEHICLE],
+        name=name,
+    )
+
+
+def test_out_onto_a_workbook_spanfleet_did_not_write_asks_for_overwrite(
+    tmp_path: Path, make_workbook
+) -> None:
+    book = _inventory(tmp_path, make_workbook, "kvha-book.xlsx")
+    theirs = make_workbook(tmp_path, name="bridge-notes.xlsx")  # the engineer's own workbook
+    mine = book.read_bytes()
+    before = theirs.read_bytes()
+    status, text = spanfleet("run", str(book), "--out", str(theirs), "-q")
+    assert status == EXIT_PROBLEMS, text
+    assert text.startswith("bridge-notes.xlsx: the file exists and is not a copy spanfleet wrote")
+    assert "--overwrite" in text
+    assert theirs.read_bytes() == before and book.read_bytes() == mine
+    status, text = spanfleet("run", str(book), "--out", str(theirs), "-q", "--overwrite")
+    assert status == EXIT_OK, text
+    assert "Envelopes" in openpyxl.load_workbook(theirs, read_only=True).sheetnames
+
+
+def test_out_onto_a_copy_spanfleet_wrote_replaces_it_without_asking(
+    tmp_path: Path, make_workbook
+) -> None:
+    book = _inventory(tmp_path, make_workbook, "kvha-book.xlsx")
+    out = tmp_path / "results.xlsx"
+    assert spanfleet("run", str(book), "--out", str(out), "-q")[0] == EXIT_OK
+    status, text = spanfleet("run", str(book), "--out", str(out), "-q")
+    assert status == EXIT_OK, text
+
+
+def test_out_onto_a_workbook_run_in_place_asks_first(tmp_path: Path, make_workbook) -> None:
+    # A workbook that was run in place holds spanfleet's sheets, but its input sheets are
+    # the engineer's: another input's results must not replace it unasked.
+    first = _inventory(tmp_path, make_workbook, "alder-brook.xlsx")
+    assert spanfleet("run", str(first), "-q")[0] == EXIT_OK
+    before = first.read_bytes()
+    other = _inventory(tmp_path, make_workbook, "heron-creek.xlsx")
+    status, text = spanfleet("run", str(other), "--out", str(first), "-q")
+    assert status == EXIT_PROBLEMS and "--overwrite" in text, text
+    assert first.read_bytes() == before
+
+
+def _honour_mode_bits(monkeypatch: pytest.MonkeyPatch) -> None:
+    """As root, make os.access answer as it would for an ordinary user (mode bits count)."""
+    if os.geteuid() != 0:
+        return
+    real = os.access
+
+    def access(path: object, mode: int, **kw: object) -> bool:
+        if mode & os.W_OK and not os.stat(str(path)).st_mode & 0o222:
+            return False
+        return real(path, mode, **kw)  # type: ignore[arg-type]
+
+    monkeypatch.setattr(os, "access", access)
+
+
+def test_a_read_only_workbook_run_in_place_is_refused(
+    tmp_path: Path, make_workbook, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    book = _inventory(tmp_path, make_workbook, "kvha-book.xlsx")
+    book.chmod(0o444)
+    _honour_mode_bits(monkeypatch)
+    before = book.read_bytes()
+    status, text = spanfleet("run", str(book), "-q")
+    assert status == EXIT_PROBLEMS, text
+    assert text.startswith("kvha-book.xlsx: the workbook is read-only")
+    assert "--out" in text
+    assert book.read_bytes() == before
+    assert not list(tmp_path.glob("*.sqlite")), "refused before any work"
+
+
+def test_a_read_only_folder_is_refused_before_any_work(
+    tmp_path: Path, make_workbook, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # The workbook's temporary file and the checkpoint store both go beside the target.
+    book = _inventory(tmp_path, make_workbook, "kvha-book.xlsx")
+    shared = tmp_path / "shared"
+    shared.mkdir()
+    there = _inventory(shared, make_workbook, "on-the-share.xlsx")
+    before = there.read_bytes()
+    shared.chmod(0o555)
+    _honour_mode_bits(monkeypatch)
+    try:
+        for argv in (
+            ["run", str(book), "--out", str(shared / "results.xlsx")],
+            ["run", str(there)],
+        ):
+            status, text = spanfleet(*argv, "-q")
+            assert status == EXIT_PROBLEMS, text
+            assert "is read-only for you" in text and "checkpoint store" in text, text
+        assert [p.name for p in shared.iterdir()] == [there.name]
+        assert there.read_bytes() == before
+    finally:
+        shared.chmod(0o755)
+
+
+def test_out_into_a_folder_that_does_not_exist(tmp_path: Path, make_workbook) -> None:
+    book = _inventory(tmp_path, make_workbook, "kvha-book.xlsx")
+    status, text = spanfleet("run", str(book), "--out", str(tmp_path / "2027" / "r.xlsx"), "-q")
+    assert status == EXIT_PROBLEMS, text
+    assert text.startswith(f"r.xlsx: the folder {tmp_path / '2027'} does not exist; create it")
+
+
+def test_an_out_target_open_in_a_spreadsheet_program_is_refused(
+    tmp_path: Path, make_workbook
+) -> None:
+    book = _inventory(tmp_path, make_workbook, "kvha-book.xlsx")
+    out = tmp_path / "results.xlsx"
+    assert spanfleet("run", str(book), "--out", str(out), "-q")[0] == EXIT_OK
+    (tmp_path / "~$results.xlsx").write_text("owner")  # Excel's owner file
+    before = out.read_bytes()
+    status, text = spanfleet("run", str(book), "--out", str(out), "-q")
+    assert status == EXIT_PROBLEMS and "open in a spreadsheet program" in text, text
+    assert out.read_bytes() == before
+
+
+def test_temporary_files_of_killed_saves_are_removed_by_the_next_run(
+    tmp_path: Path, make_workbook
+) -> None:
+    # Names as atomic_save makes them: the prefix, this machine's tag, the process id.
+    book = _inventory(tmp_path, make_workbook, "kvha-book.xlsx")
+    dead = subprocess.Popen([sys.executable, "-c", "pass"])
+    dead.wait()
+    stale = tmp_path / f"{TEMP_PREFIX}{save._HOST}-{dead.pid}-x1y2.tmp"
+    live = tmp_path / f"{TEMP_PREFIX}{save._HOST}-{os.getpid()}-x1y2.tmp"
+    other_host = tmp_path / f"{TEMP_PREFIX}00000000-{dead.pid}-x1y2.tmp"
+    for path in (stale, live, other_host):
+        path.write_bytes(b"PK half a workbook")
+    assert spanfleet("run", str(book), "-q")[0] == EXIT_OK
+    assert not stale.exists(), "a dead process's temporary file is removed"
+    assert live.exists() and other_host.exists(), "a save that may be going on is left alone"
+
+
+# ---------------------------------------------------------------- every failure is a message
+
+
+def test_a_cluster_that_does_not_answer_is_a_message_after_the_time_limit(
+    tmp_path: Path, make_workbook
+) -> None:
+    # Port 1 of this machine: nothing listens there (a privileged port, common practice).
+    book = _inventory(tmp_path, make_workbook, "kvha-book.xlsx")
+    before = book.read_bytes()
+    argv = ["--cluster", "tcp://127.0.0.1:1", "--cluster-timeout", "1", "-q"]
+    status, text = spanfleet("run", str(book), *argv)
+    assert status == EXIT_PROBLEMS, text
+    assert text.startswith("--cluster tcp://127.0.0.1:1: no Dask scheduler answered within 1 s")
+    assert "kvha-book.xlsx was not changed" in text
+    assert book.read_bytes() == before
+    status, text = spanfleet("run", str(book), "--cluster", "KVHA-cluster", "-q")
+    assert status == EXIT_PROBLEMS and "check the address" in text, text
