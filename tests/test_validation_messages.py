@@ -16,6 +16,11 @@ Sources, by rule:
   tables, from memory);
 * Capacities rows: the workbook format ("Capacities": member, span and
   station as in Envelopes; resistances; a blank resistance is not rated);
+* Segments rows: a stretch lies on its member and runs forwards, stretches of one
+  member do not overlap (one stiffness per point), a haunch has a stiffness at
+  each end; a stiffness twenty times away from the member's is a likely typing
+  slip (common practice: cover plates add tens of percent, deep haunches a few
+  times);
 * JSON: RFC 8259 (no NaN or Infinity; object names should be unique) and RFC
   6901 (JSON pointers);
 * text a cell cannot hold: W3C XML 1.0 (Fifth Edition) §2.2, production [2] Char,
@@ -40,6 +45,7 @@ from batch.validating import read_input
 M = {"Member": "KV-0101 G1", "Spans": 60}
 MC = M | {"DC load": 1.1}  # a member with a dead load, as rating needs
 CAP = ["Member", "Span", "Station", "Resistance M+"]
+SEG = ["Member", "From", "To", "EI"]
 V = {"Vehicle": "KV-T3", "Axle loads": "10, 30, 30", "Axle spacings": "14, 16"}
 E, W = "error", "warning"
 
@@ -232,6 +238,62 @@ WORKBOOK_CASES = [
             "extra": {"Capacities": _sheet([*CAP, "DC M"], ["KV-0101 G1", 1, 0.5, 900, "lots"])},
         },
         [("Capacities", "E2", "not-a-number", E)],
+    ),
+    # members as built: stiffness along a member (Segments)
+    (
+        "segment-ok-haunch",
+        {
+            "extra": {
+                "Segments": _sheet(
+                    [*SEG, "EI at To", "Haunch"], ["KV-0101 G1", 40, 60, 1, 3, "parabolic"]
+                )
+            }
+        },
+        [],
+    ),
+    (
+        "segment-unknown-member",
+        {"extra": {"Segments": _sheet(SEG, ["KV-9999", 10, 20, 1.4])}},
+        [("Segments", "A2", "unknown-member", E)],
+    ),
+    (
+        "segment-backwards",
+        {"extra": {"Segments": _sheet(SEG, ["KV-0101 G1", 30, 20, 1.4])}},
+        [("Segments", "C2", "segment-backwards", E)],
+    ),
+    (
+        "segment-beyond-the-member",
+        {"extra": {"Segments": _sheet(SEG, ["KV-0101 G1", 50, 61, 1.4])}},
+        [("Segments", "C2", "segment-off-member", E)],
+    ),
+    (
+        "segments-overlap",
+        {
+            "extra": {
+                "Segments": _sheet(SEG, ["KV-0101 G1", 0, 20, 1.4], ["kv-0101 g1", 15, 30, 1.2])
+            }
+        },
+        [("Segments", "B3", "segment-overlap", E)],
+    ),
+    (
+        "segment-haunch-without-end",
+        {"extra": {"Segments": _sheet([*SEG, "Haunch"], ["KV-0101 G1", 40, 60, 1, "linear"])}},
+        [("Segments", "E2", "haunch-without-end", E)],
+    ),
+    (
+        "segment-end-without-haunch",
+        {"extra": {"Segments": _sheet([*SEG, "EI at To"], ["KV-0101 G1", 40, 60, 1, 2])}},
+        [("Segments", "E2", "end-without-haunch", E)],
+    ),
+    (
+        "segment-ei-typing-slip",
+        {"extra": {"Segments": _sheet(SEG, ["KV-0101 G1", 40, 60, 140])}},
+        [("Segments", "D2", "implausible-stiffness", W)],
+    ),
+    (
+        "segment-unknown-haunch",
+        {"extra": {"Segments": _sheet([*SEG, "Haunch"], ["KV-0101 G1", 40, 60, 1, "curved"])}},
+        [("Segments", "E2", "not-a-choice", E)],
     ),
     # settings
     (

@@ -55,7 +55,13 @@ DIRECTION_CODES: dict[str, tuple[int, ...]] = {
 
 def member_influence(member: Member, stations_per_span: int) -> InfluenceLines:
     """Influence lines of a model member (see :func:`influence_lines`)."""
-    return influence_lines(member.spans, member.stiffness, member.hinges, stations_per_span)
+    return influence_lines(
+        member.spans,
+        member.stiffness,
+        member.hinges,
+        stations_per_span,
+        pieces=member.stiffness_pieces,
+    )
 
 
 def _scoped(il: InfluenceLines, scope: str) -> NDArray[np.bool_]:

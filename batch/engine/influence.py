@@ -3,7 +3,8 @@
 Method
 ------
 The member is a line of Euler–Bernoulli beam elements between *nodes* (supports,
-hinges and the two ends), each span with its own constant EI. For a unit
+hinges, the two ends and the ends of stretches of other stiffness), each element
+with one constant EI (its span's, or that of the stretch that holds it). For a unit
 downward load at a point of an element, the consistent (Hermite) nodal load
 vector is the exact fixed-end action, so the direct stiffness method gives exact
 nodal displacements and exact support reactions. The reactions are therefore
@@ -35,14 +36,15 @@ t = x - breaks[j] of each piece.
 from __future__ import annotations
 
 import functools
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from fractions import Fraction
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 from numpy.typing import NDArray
 
-from batch.model.exact import solve
+from batch.model.exact import Matrix, solve
 from batch.model.layout import POSITION_TOL, mechanism_parts
 
 if TYPE_CHECKING:
@@ -52,8 +54,12 @@ __all__ = ["InfluenceLines", "UnstableMemberError", "influence_lines"]
 
 #: Above this condition number (of the diagonally scaled stiffness matrix) the
 #: double-precision solve could lose more than about six of its sixteen digits,
-#: so the system is solved in exact rational arithmetic instead.
+#: so it is refined against residuals in exact rational arithmetic (see _Stiffness).
 COND_LIMIT = 1e6
+#: Above it, the double solution is refined against exact residuals, at most this many
+#: times, until a step changes it by less than REFINED of its size.
+REFINE_STEPS = 4
+REFINED = 1e-15
 
 # Cubic Hermite shape functions in power basis of xi (rows N1..N4, columns xi^0..xi^3).
 _HERMITE = np.array(
@@ -292,17 +298,50 @@ def _merge(points: NDArray[np.float64], tol: float) -> NDArray[np.float64]:
     return merged
 
 
+def _element_stiffness(
+    nodes: NDArray[np.float64],
+    supports: NDArray[np.float64],
+    span_ei: NDArray[np.float64],
+    pieces: NDArray[np.float64],
+) -> NDArray[np.float64]:
+    """EI of each element: that of the piece holding its middle, else its span's Span EI."""
+    mid = 0.5 * (nodes[:-1] + nodes[1:])
+    span = np.minimum(np.searchsorted(supports, mid) - 1, span_ei.size - 1)
+    ei = span_ei[span].astype(float)
+    for start, end, value in pieces:
+        ei[(mid > start) & (mid < end)] = value
+    return ei
+
+
+def _checked_pieces(
+    pieces: Sequence[tuple[float, float, float]], length: float, tol: float
+) -> NDArray[np.float64]:
+    """Stiffness pieces as an (n, 3) array sorted by start; ValueError when malformed."""
+    out = np.asarray(pieces, dtype=float).reshape(-1, 3)
+    if not np.all(np.isfinite(out)):
+        raise ValueError("stiffness pieces must be finite numbers")
+    out = out[np.argsort(out[:, 0], kind="stable")]
+    if np.any(out[:, 2] <= 0):
+        raise ValueError("the EI of a stiffness piece must be greater than zero")
+    if np.any(out[:, 1] - out[:, 0] <= tol) or np.any(out[:, 0] < -tol):
+        raise ValueError("a stiffness piece must run forwards from 0 or more")
+    if np.any(out[:, 1] > length + tol):
+        raise ValueError("a stiffness piece must end on the member")
+    if np.any(out[1:, 0] < out[:-1, 1] - tol):
+        raise ValueError("two stiffness pieces overlap; give each part of the member once")
+    return out
+
+
 def _assemble(
     elements: list[tuple[float, float, float, NDArray[np.int64]]],
-    n_dof: int,
     number: type[float] | type[Fraction],
-) -> list[list]:
+) -> dict[tuple[int, int], Any]:
     """Global stiffness matrix of Euler-Bernoulli elements (a, b, EI, dofs), in ``number``.
 
-    With ``Fraction`` every entry is exact (the float inputs are exact rationals).
+    Sparse: a dict of the nonzero entries by (row, column). With ``Fraction``
+    every entry is exact (the float inputs are exact rationals).
     """
-    zero = number(0)
-    k = [[zero] * n_dof for _ in range(n_dof)]
+    k: dict[tuple[int, int], Any] = {}
     for a, b, ei, g in elements:
         h = number(b) - number(a)
         c = number(ei) / (h * h * h)
@@ -314,18 +353,92 @@ def _assemble(
         ]
         for r in range(4):
             for q in range(4):
-                k[g[r]][g[q]] += c * ke[r][q]
+                key = (int(g[r]), int(g[q]))
+                k[key] = k.get(key, number(0)) + c * ke[r][q]
     return k
+
+
+@dataclass(frozen=True)
+class _Stiffness:
+    """The stiffness system of a member's elements, solved for its free degrees of freedom.
+
+    Ordinary members are solved in double precision. When the diagonally scaled
+    free-free matrix is ill-conditioned (hinges close to a mechanism, or many
+    short elements beside long ones, e.g. a finely cut haunch), the double
+    solution is refined against residuals computed in exact rational arithmetic
+    until it no longer changes (iterative refinement); only if that fails is the
+    whole system solved exactly.
+    """
+
+    elements: list[tuple[float, float, float, NDArray[np.int64]]]
+    n_dof: int
+    free: NDArray[np.int64]
+
+    @functools.cached_property
+    def matrix(self) -> NDArray[np.float64]:
+        """The whole stiffness matrix, dense, in double precision."""
+        k = np.zeros((self.n_dof, self.n_dof))
+        for (i, j), value in _assemble(self.elements, float).items():
+            k[i, j] = value
+        return k
+
+    @functools.cached_property
+    def exact(self) -> dict[tuple[int, int], Fraction]:
+        """The nonzero entries of the stiffness matrix, exact."""
+        return _assemble(self.elements, Fraction)
+
+    def exact_block(self, rows: NDArray[np.int64], cols: NDArray[np.int64]) -> Matrix:
+        """The block of the stiffness matrix at ``rows`` and ``cols``, exact."""
+        zero = Fraction(0)
+        return [[self.exact.get((int(i), int(j)), zero) for j in cols] for i in rows]
+
+    def solve(
+        self, rhs: NDArray[np.float64], rhs_exact: Callable[[], Matrix]
+    ) -> NDArray[np.float64]:
+        """X with K_ff X = rhs; ``rhs_exact()`` gives the same right-hand side, exact."""
+        free = self.free
+        k_ff = self.matrix[np.ix_(free, free)]
+        scale = 1.0 / np.sqrt(np.diag(k_ff))
+        x = np.asarray(np.linalg.solve(k_ff, rhs), dtype=np.float64)
+        if np.linalg.cond(k_ff * scale[:, None] * scale[None, :]) < COND_LIMIT:
+            return x
+        where = {int(dof): i for i, dof in enumerate(free)}
+        rows: list[list[tuple[int, Fraction]]] = [[] for _ in free]
+        for (i, j), value in self.exact.items():
+            if i in where and j in where and value != 0:
+                rows[where[i]].append((where[j], value))
+        exact_rhs = rhs_exact()
+        for _ in range(REFINE_STEPS):
+            xs = [[Fraction(float(v)) for v in row] for row in x]
+            residual = np.array(
+                [
+                    [
+                        float(exact_rhs[i][c] - sum(v * xs[j][c] for j, v in rows[i]))
+                        for c in range(x.shape[1])
+                    ]
+                    for i in range(len(rows))
+                ]
+            )
+            step = np.linalg.solve(k_ff, residual)
+            x = np.add(x, step)
+            if np.max(np.abs(step), initial=0.0) <= REFINED * np.max(np.abs(x), initial=0.0):
+                return x
+        # Refinement did not settle (nearly a mechanism): solve the system exactly.
+        solution = solve(self.exact_block(free, free), exact_rhs)
+        return np.array(solution, dtype=float)
 
 
 def _reaction_cubics(
     nodes: NDArray[np.float64],
     supports: NDArray[np.float64],
     hinges: NDArray[np.float64],
-    span_ei: NDArray[np.float64],
+    element_ei: NDArray[np.float64],
     tol: float,
 ) -> NDArray[np.float64]:
-    """Reaction influence cubics per element: shape (n_supports, n_elements, 4), basis (x - a)^n."""
+    """Reaction influence cubics per element: shape (n_supports, n_elements, 4), basis (x - a)^n.
+
+    ``element_ei`` is the EI of each element between consecutive nodes.
+    """
     n_nodes = nodes.size
     is_hinge = np.array([np.any(np.abs(hinges - x) <= tol) for x in nodes])
     # Degrees of freedom: v at every node; one rotation, or two at a hinge (left, right).
@@ -344,25 +457,15 @@ def _reaction_cubics(
     n_dof = nxt
     elements = []
     for e in range(n_nodes - 1):
-        a, b = nodes[e], nodes[e + 1]
-        span = min(int(np.searchsorted(supports, 0.5 * (a + b))) - 1, span_ei.size - 1)
         g = np.array([v_dof[e], rot_right[e], v_dof[e + 1], rot_left[e + 1]])
-        elements.append((a, b, float(span_ei[span]), g))
+        elements.append((nodes[e], nodes[e + 1], float(element_ei[e]), g))
     restrained = np.array([v_dof[int(np.argmin(np.abs(nodes - s)))] for s in supports], dtype=int)
     free = np.setdiff1d(np.arange(n_dof), restrained)
-    k = np.array(_assemble(elements, n_dof, float), dtype=float)
-    k_ff, k_fr = k[np.ix_(free, free)], k[np.ix_(free, restrained)]
-    scale = 1.0 / np.sqrt(np.diag(k_ff))
+    system = _Stiffness(elements, n_dof, free)
     transfer = np.zeros((restrained.size, n_dof))
-    if np.linalg.cond(k_ff * scale[:, None] * scale[None, :]) < COND_LIMIT:
-        transfer[:, free] = np.linalg.solve(k_ff, k_fr).T
-    else:  # nearly a mechanism: solve the same system in exact rational arithmetic
-        exact = _assemble(elements, n_dof, Fraction)
-        solution = solve(
-            [[exact[i][j] for j in free] for i in free],
-            [[exact[i][j] for j in restrained] for i in free],
-        )
-        transfer[:, free] = np.array(solution, dtype=float).T
+    k_fr = system.matrix[np.ix_(free, restrained)]
+    if free.size:
+        transfer[:, free] = system.solve(k_fr, lambda: system.exact_block(free, restrained)).T
     transfer[np.arange(restrained.size), restrained] = -1.0
     out = np.empty((restrained.size, n_nodes - 1, 4))
     for e, (a, b, _, g) in enumerate(elements):
@@ -392,15 +495,19 @@ def influence_lines(
     span_ei: tuple[float, ...] | list[float] | None = None,
     hinges: tuple[float, ...] | list[float] = (),
     stations_per_span: int = 10,
+    pieces: Sequence[tuple[float, float, float]] = (),
 ) -> InfluenceLines:
     """Exact influence lines of moment and shear at every station and of every reaction.
 
     ``spans`` are the span lengths left to right (any consistent length unit);
     ``span_ei`` the relative EI of each span (default all 1); ``hinges`` the
     internal moment releases, measured from the left end, strictly inside the
-    member. Stations are at fractions 0, 1/n, ..., 1 of every span. Raises
-    :class:`UnstableMemberError` when the layout is a mechanism and
-    ``ValueError`` for malformed geometry.
+    member. ``pieces`` are prismatic stretches ``(start, end, EI)`` (from the
+    left end; they may cross supports, must not overlap) whose EI replaces the
+    span's: each of their ends becomes a node, so every element keeps one EI and
+    the lines stay exact piecewise cubics. Stations are at fractions 0, 1/n,
+    ..., 1 of every span. Raises :class:`UnstableMemberError` when the layout is
+    a mechanism and ``ValueError`` for malformed geometry.
     """
     spans_a = np.asarray(spans, dtype=float)
     if (
@@ -442,8 +549,12 @@ def influence_lines(
             "without resistance; remove a hinge or move it so that every part between "
             "hinges rests on at least two supports, or on one support and a neighbouring part"
         )
-    nodes = _merge(np.concatenate([supports, hinge_a]), tol)
-    element_cubics = _reaction_cubics(nodes, supports, hinge_a, ei, tol)
+    piece_a = _checked_pieces(pieces, length, tol)
+    cuts = piece_a[:, :2].reshape(-1)
+    cuts = cuts[(cuts > tol) & (cuts < length - tol)]
+    nodes = _merge(np.concatenate([supports, hinge_a, cuts]), tol)
+    element_ei = _element_stiffness(nodes, supports, ei, piece_a)
+    element_cubics = _reaction_cubics(nodes, supports, hinge_a, element_ei, tol)
 
     span_no, fraction, sx = _station_positions(supports, stations_per_span)
     # A station on a node (a support or a hinge typed at a station) takes the node's

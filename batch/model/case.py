@@ -19,6 +19,7 @@ conventions of the workbook contract: sagging moment positive, shear V = dM/dx
 
 from __future__ import annotations
 
+import itertools
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass, field
@@ -29,9 +30,11 @@ from batch.model.units import UNIT_LABELS, UnitSystem
 
 Directions = Literal["both", "left-to-right", "right-to-left"]
 Category = Literal["design", "legal", "permit"]
+Haunch = Literal["none", "linear", "parabolic"]
 
 DIRECTIONS: tuple[str, ...] = get_args(Directions)
 CATEGORIES: tuple[str, ...] = get_args(Category)
+HAUNCHES: tuple[str, ...] = get_args(Haunch)
 
 #: Most spacing ranges in one vehicle (the engine sweeps 3**n combinations).
 MAX_RANGES = 4
@@ -195,6 +198,121 @@ class Settings:
         return UNIT_LABELS[self.units]
 
 
+# ---------------------------------------------------------------- members as built: stiffness
+# along a member (the Segments sheet).
+
+
+@dataclass(frozen=True, kw_only=True)
+class Segment:
+    """One stretch of a member whose flexural stiffness is not its span's Span EI.
+
+    ``start`` and ``end`` are measured from the member's left end (length unit);
+    the stretch may cross supports. ``ei`` is on the same scale as Span EI
+    (relative, or absolute through the member's EI scale). A haunch (``haunch``
+    linear or parabolic) has ``ei`` at ``start`` and ``ei_end`` at ``end``; its
+    depth varies linearly, or along a parabola whose vertex is at the shallower
+    end, EI is taken proportional to the cube of the depth (a solid section),
+    and the stretch is modelled as ``pieces`` prismatic pieces of equal length,
+    each with the EI at its middle (see :meth:`prismatic`).
+    """
+
+    member: str = column(
+        "Member",
+        "id",
+        required=True,
+        meaning="Id of a member listed on the Members sheet.",
+        example=_EXAMPLE_MEMBER,
+    )
+    start: float = column(
+        "From",
+        "number",
+        required=True,
+        quantity="length",
+        minimum=0.0,
+        meaning="Start of the stretch, measured from the member's left end.",
+        example=52,
+    )
+    end: float = column(
+        "To",
+        "number",
+        required=True,
+        quantity="length",
+        above=0.0,
+        meaning="End of the stretch, measured from the member's left end; it may cross supports.",
+        example=68,
+    )
+    ei: float = column(
+        "EI",
+        "number",
+        required=True,
+        above=0.0,
+        meaning="Flexural stiffness over the stretch, on the scale of Span EI (e.g. 1.4 where "
+        "cover plates stiffen a girder of Span EI 1); for a haunch, the value at From. It "
+        "replaces Span EI over the stretch.",
+        example=1.4,
+    )
+    ei_end: float | None = column(
+        "EI at To",
+        "number",
+        default=None,
+        above=0.0,
+        meaning="For a haunch only: the stiffness at To (EI is then the value at From).",
+    )
+    haunch: Haunch = column(
+        "Haunch",
+        "choice",
+        default="none",
+        choices=HAUNCHES,
+        meaning="none: prismatic (EI throughout). linear or parabolic: the depth varies so "
+        "from From to To (a parabola's vertex at the shallower end), EI as the cube of the "
+        "depth; modelled as Pieces prismatic pieces, each with the EI at its middle (an "
+        "approximation: more pieces, smaller error).",
+    )
+    pieces: int = column(
+        "Pieces",
+        "number",
+        default=12,
+        whole=True,
+        minimum=1,
+        maximum=200,
+        meaning="Haunch only: prismatic pieces of equal length the stretch is cut into.",
+    )
+    description: str = column(
+        "Description",
+        "text",
+        default="",
+        meaning="Free text.",
+        example="EXAMPLE, replace or delete: cover plates over pier 1",
+    )
+
+    def stiffness_at(self, x: float) -> float:
+        """EI at ``x`` inside the stretch (the haunch law; ``ei`` when prismatic)."""
+        if self.haunch == "none" or self.ei_end is None:
+            return self.ei
+        t = (x - self.start) / (self.end - self.start)
+        # Depths relative to the depth at From: EI ~ depth**3.
+        d0, d1 = 1.0, float((self.ei_end / self.ei) ** (1.0 / 3.0))
+        if self.haunch == "linear":
+            depth = d0 + (d1 - d0) * t
+        elif d1 >= d0:  # parabola, vertex (zero slope) at the shallower end From
+            depth = d0 + (d1 - d0) * t * t
+        else:  # vertex at To
+            depth = d1 + (d0 - d1) * (1.0 - t) ** 2
+        return float(self.ei * depth**3)
+
+    def prismatic(self) -> tuple[tuple[float, float, float], ...]:
+        """The stretch as prismatic pieces ``(start, end, EI)``: one, or ``pieces`` for a haunch.
+
+        A haunch piece takes the EI at its middle (the midpoint rule), so the
+        error in the effects shrinks as the square of the piece length.
+        """
+        if self.haunch == "none" or self.ei_end is None:
+            return ((self.start, self.end, self.ei),)
+        cuts = [self.start + (self.end - self.start) * k / self.pieces for k in range(self.pieces)]
+        cuts.append(self.end)
+        return tuple((a, b, self.stiffness_at(0.5 * (a + b))) for a, b in itertools.pairwise(cuts))
+
+
 @dataclass(frozen=True, kw_only=True)
 class Member:
     """One girder line: consecutive spans supported at both ends of every span.
@@ -204,6 +322,10 @@ class Member:
     releases measured from the left end. Distribution factors multiply the
     live-load effects (``df_moment`` moments; ``df_shear`` shears and reactions).
     ``dc_load`` and ``dw_load`` are uniform dead loads per unit length.
+
+    As built (filled in from the other input sheets, not Members columns):
+    ``segments`` are the member's rows of the Segments sheet, stretches whose
+    stiffness replaces Span EI.
     """
 
     id: str = column(
@@ -299,6 +421,8 @@ class Member:
         meaning="Free text.",
         example="EXAMPLE, replace or delete: Harlow Creek overpass, girder 1 (KVHA)",
     )
+    # As built: filled in from the Segments sheet (not a column of Members).
+    segments: tuple[Segment, ...] = ()
 
     @property
     def stiffness(self) -> tuple[float, ...]:
@@ -309,6 +433,11 @@ class Member:
     def length(self) -> float:
         """Total length of the member."""
         return float(sum(self.spans))
+
+    @property
+    def stiffness_pieces(self) -> tuple[tuple[float, float, float], ...]:
+        """Prismatic ``(start, end, EI)`` pieces that replace Span EI (haunches cut up)."""
+        return tuple(piece for s in self.segments for piece in s.prismatic())
 
 
 @dataclass(frozen=True, kw_only=True)

@@ -8,13 +8,14 @@ the JSON Schema and the docs read these, so nothing here is declared twice.
 
 from __future__ import annotations
 
-from batch.model.case import Capacity, Member, Settings, Vehicle
+from batch.model.case import Capacity, Member, Segment, Settings, Vehicle
 from batch.model.declare import InputColumn, InputSheet, columns_of
 
 __all__ = [
     "CAPACITIES",
     "INPUT_SHEETS",
     "MEMBERS",
+    "SEGMENTS",
     "SETTINGS",
     "SETTING_ROWS",
     "TABLE_SHEETS",
@@ -48,6 +49,16 @@ MEMBERS = InputSheet(
     columns=columns_of(Member),
 )
 
+SEGMENTS = InputSheet(
+    name="Segments",
+    key="segments",
+    purpose="Optional: stretches of a member whose stiffness is not its Span EI (cover plates, "
+    "flange changes, cracked or haunched regions), one row each. A haunch is modelled as "
+    "prismatic pieces, each with the EI at its middle: an approximation whose error shrinks "
+    "with the number of pieces.",
+    columns=columns_of(Segment),
+)
+
 VEHICLES = InputSheet(
     required=True,
     name="Vehicles",
@@ -64,7 +75,7 @@ CAPACITIES = InputSheet(
 )
 
 #: The sheets of one row per item (all but Settings), in workbook order.
-TABLE_SHEETS: tuple[InputSheet, ...] = (MEMBERS, VEHICLES, CAPACITIES)
+TABLE_SHEETS: tuple[InputSheet, ...] = (MEMBERS, SEGMENTS, VEHICLES, CAPACITIES)
 
-#: The sheets a run reads, in workbook order (Capacities is optional).
+#: The sheets a run reads, in workbook order (Segments and Capacities are optional).
 INPUT_SHEETS: tuple[InputSheet, ...] = (SETTINGS, *TABLE_SHEETS)

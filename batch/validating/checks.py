@@ -30,6 +30,7 @@ from batch.model.layout import POSITION_TOL, mechanism_parts
 from batch.reading.problems import DocPath, Locator, PathSet, Problem, Severity
 from batch.validating.capacities import capacity_problems
 from batch.validating.fields import finite_number, label, shown
+from batch.validating.segments import segment_problems
 
 __all__ = ["LIMITS", "Limit", "check_document"]
 
@@ -481,6 +482,10 @@ def check_document(
     capacities = document.get("capacities")
     if isinstance(capacities, list):
         found += capacity_problems(capacities, document, locator, cx.ok)
+    # Members as built: stiffness along a member (the Segments sheet).
+    segments = document.get("segments")
+    if isinstance(segments, list):
+        found += segment_problems(segments, document, cx.ok, UNIT_LABELS[cx.units]["length"])
     out = []
     for path, code, message, severity in found:
         sheet, cell = locator.where(path)

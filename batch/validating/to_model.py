@@ -8,7 +8,8 @@ floats, or ints where the model's field is an int; text loses its outer spaces
 
 A vehicle row that names a library model and leaves Category blank takes the
 model's category. A capacity row names its member by the member's id exactly
-as the Members sheet spells it (ids match ignoring case and outer spaces).
+as the Members sheet spells it (ids match ignoring case and outer spaces). Each
+member carries its Segments rows (:attr:`batch.model.Member.segments`).
 """
 
 from __future__ import annotations
@@ -16,9 +17,9 @@ from __future__ import annotations
 from typing import Any
 
 from batch.loads import library
-from batch.model import Capacity, Case, Member, Settings, Spacing, Vehicle
+from batch.model import Capacity, Case, Member, Segment, Settings, Spacing, Vehicle
 from batch.model.declare import InputColumn
-from batch.model.sheets import CAPACITIES, MEMBERS, SETTING_ROWS, VEHICLES
+from batch.model.sheets import CAPACITIES, MEMBERS, SEGMENTS, SETTING_ROWS, VEHICLES
 
 __all__ = ["to_case"]
 
@@ -58,10 +59,25 @@ def _capacity(doc: dict[str, Any], ids: dict[str, str]) -> Capacity:
     return Capacity(**values)
 
 
+def _segments(document: dict[str, Any], ids: dict[str, str]) -> dict[str, tuple[Segment, ...]]:
+    """Each member's Segments rows by member id (spelled as on Members), in sheet order."""
+    out: dict[str, list[Segment]] = {}
+    for row in document.get("segments", []):
+        values = _fields(SEGMENTS.columns, row)
+        values["member"] = ids[values["member"].casefold()]
+        out.setdefault(values["member"], []).append(Segment(**values))
+    return {member: tuple(rows) for member, rows in out.items()}
+
+
 def to_case(document: dict[str, Any]) -> Case:
     """The model of a document that passed validation with no errors."""
-    members = tuple(Member(**_fields(MEMBERS.columns, m)) for m in document["members"])
-    ids = {m.id.casefold(): m.id for m in members}
+    rows = document["members"]
+    ids = {str(m["id"]).strip().casefold(): str(m["id"]).strip() for m in rows}
+    segments = _segments(document, ids)
+    members = tuple(
+        Member(**_fields(MEMBERS.columns, m), segments=segments.get(str(m["id"]).strip(), ()))
+        for m in rows
+    )
     return Case(
         settings=Settings(**_fields(SETTING_ROWS, document.get("settings", {}))),
         members=members,

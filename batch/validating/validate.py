@@ -12,6 +12,7 @@ from __future__ import annotations
 import re
 
 from batch.model import Case
+from batch.model.sheets import INPUT_SHEETS
 from batch.reading.problems import JSON_SHEET, PathSet, Problem, Reading
 from batch.validating.characters import character_problems
 from batch.validating.checks import check_document
@@ -20,15 +21,16 @@ from batch.validating.to_model import to_case
 
 __all__ = ["validate"]
 
-_SHEET_ORDER = {"": 0, JSON_SHEET: 1, "Settings": 1, "Members": 2, "Vehicles": 3, "Capacities": 4}
-_SECTION_ORDER = {"settings": 1, "members": 2, "vehicles": 3, "capacities": 4}
+# Problems are listed file first, then sheet by sheet in workbook order.
+_SHEET_ORDER = {"": 0, JSON_SHEET: 1} | {s.name: i for i, s in enumerate(INPUT_SHEETS, 1)}
+_SECTION_ORDER = {s.key: i for i, s in enumerate(INPUT_SHEETS, 1)}
 
 _Key = tuple[int, int | str]
 
 
 def _position(problem: Problem) -> tuple[int, tuple[_Key, ...]]:
     """Sort key: file first, then sheets in workbook order, then row and column (or pointer)."""
-    rank = _SHEET_ORDER.get(problem.sheet, 5)
+    rank = _SHEET_ORDER.get(problem.sheet, len(_SHEET_ORDER))
     cell = re.fullmatch(r"([A-Z]+)(\d+)", problem.cell)
     if cell:
         column = 0

@@ -137,7 +137,7 @@ def _put(cell: Cell | MergedCell, value: CellValue) -> None:
 
 
 def case_rows(case: Case) -> dict[str, list[dict[str, CellValue]]]:
-    """The Members, Vehicles and (when it has any) Capacities rows of a model case.
+    """The Members, Vehicles and (when it has any) Capacities and Segments rows of a case.
 
     Rows are keyed by the declared column keys. Empty values (no hinges, no
     library, a blank resistance, ...) become blank cells; every other value is
@@ -146,6 +146,9 @@ def case_rows(case: Case) -> dict[str, list[dict[str, CellValue]]]:
     objects: dict[str, tuple[object, ...]] = {"Members": case.members, "Vehicles": case.vehicles}
     if case.capacities:
         objects["Capacities"] = case.capacities
+    segments = tuple(s for m in case.members for s in m.segments)
+    if segments:
+        objects["Segments"] = segments
     sheets = {sheet.name: sheet for sheet in INPUT_SHEETS}
     return {
         name: [
@@ -285,7 +288,13 @@ def _guide_lines(units: UnitSystem) -> list[tuple[str, Font | None]]:
             plain,
         ),
         (
-            "7. Blank rows are skipped; hidden and filtered rows are read like any other. Keep the "
+            "7. Segments is optional: stretches of a member whose stiffness is not its Span "
+            "EI (cover plates, flange changes, haunches). Delete its example row, or the whole "
+            "sheet, when every span is prismatic.",
+            plain,
+        ),
+        (
+            "8. Blank rows are skipped; hidden and filtered rows are read like any other. Keep the "
             "sheet names; you may add sheets of your own.",
             plain,
         ),
