@@ -45,7 +45,12 @@ import numpy as np
 from numpy.typing import NDArray
 
 from batch.model.exact import Matrix, solve
-from batch.model.layout import POSITION_TOL, mechanism_parts
+from batch.model.layout import (
+    POSITION_TOL,
+    mechanism_parts,
+    station_positions,
+    support_positions,
+)
 
 if TYPE_CHECKING:
     from batch.engine.kernel import SweepPlan
@@ -276,19 +281,6 @@ class InfluenceLines:
         positive = np.where(part > 0, part, 0.0).sum(axis=(1, 2))
         negative = np.where(part < 0, part, 0.0).sum(axis=(1, 2))
         return positive, negative
-
-
-def _station_positions(
-    supports: NDArray[np.float64], n_per_span: int
-) -> tuple[NDArray[np.int64], NDArray[np.float64], NDArray[np.float64]]:
-    n_spans = supports.size - 1
-    frac = np.arange(n_per_span + 1) / n_per_span
-    span = np.repeat(np.arange(1, n_spans + 1), n_per_span + 1)
-    fraction = np.tile(frac, n_spans)
-    start, end = supports[span - 1], supports[span]
-    x = start + fraction * (end - start)
-    x[fraction == 1.0] = end[fraction == 1.0]  # exact support positions
-    return span, fraction, x
 
 
 def _merge(points: NDArray[np.float64], tol: float) -> NDArray[np.float64]:
@@ -531,7 +523,7 @@ def influence_lines(
     ):
         raise ValueError("stations per span must be a whole number of at least 1")
     stations_per_span = int(stations_per_span)
-    supports = np.concatenate([[0.0], np.cumsum(spans_a)])
+    supports = support_positions(spans_a.tolist())
     length = float(supports[-1])
     tol = POSITION_TOL * length
     hinge_a = np.sort(np.asarray(hinges, dtype=float).reshape(-1))
@@ -556,7 +548,7 @@ def influence_lines(
     element_ei = _element_stiffness(nodes, supports, ei, piece_a)
     element_cubics = _reaction_cubics(nodes, supports, hinge_a, element_ei, tol)
 
-    span_no, fraction, sx = _station_positions(supports, stations_per_span)
+    span_no, fraction, sx = station_positions(spans_a.tolist(), stations_per_span)
     # A station on a node (a support or a hinge typed at a station) takes the node's
     # exact position, so that the node's element boundary stays where it is.
     on_node = np.abs(sx[:, None] - nodes[None, :]) <= tol
