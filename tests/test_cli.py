@@ -30,6 +30,7 @@ RESULT_SHEETS = {
     "Governing",
     "Vehicle Summary",
     "Moment Charts",
+    "Shear Charts",
     "Result Guide",
     "Run Log",
 }

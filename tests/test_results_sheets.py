@@ -41,6 +41,8 @@ from batch.writing.tables import HIGHLIGHT_RGB, OWNER_MARK
 
 P_AXLE = 20.0  # kip, one-axle test vehicle
 CHART_NS = "http://schemas.openxmlformats.org/drawingml/2006/chart"
+MAIN_NS = "http://schemas.openxmlformats.org/spreadsheetml/2006/main"
+REL_NS = "http://schemas.openxmlformats.org/officeDocument/2006/relationships"
 
 
 _EFFECT = {e.name: e for e in EFFECTS}
@@ -103,6 +105,7 @@ def test_sheets_and_headers_follow_the_contract(written: tuple[Case, Path]) -> N
         "Governing",
         "Vehicle Summary",
         "Moment Charts",
+        "Shear Charts",
         "Result Guide",
         "Run Log",
     ]
@@ -296,21 +299,40 @@ def test_envelopes_continue_on_numbered_sheets_past_the_row_limit(tmp_path: Path
     assert any(isinstance(v, str) and "continue on Envelopes 2" in v for v in log)
 
 
-def test_moment_charts_hold_one_chart_per_member_and_their_own_data(tmp_path: Path) -> None:
+@pytest.mark.parametrize(
+    ("sheet", "effects"),
+    [
+        ("Moment Charts", ("M max (kip-ft)", "M min (kip-ft)")),
+        ("Shear Charts", ("V max (kip)", "V min (kip)")),
+    ],
+)
+def test_chart_sheets_hold_one_chart_per_member_and_their_own_data(
+    tmp_path: Path, sheet: str, effects: tuple[str, str]
+) -> None:
     case = _case(chart_members=2)
     path = _write(tmp_path, case)
     wb = load_workbook(path)
-    chart_rows = _rows(wb["Moment Charts"])
+    chart_rows = _rows(wb[sheet])
     env_rows = _rows(wb["Envelopes"])
     charted = [m.id for m in case.members[:2]]
     assert [r["Member"] for r in chart_rows] == [
         r["Member"] for r in env_rows if r["Member"] in charted
     ]
     for c, e in zip(chart_rows, env_rows, strict=False):
-        assert c["M max (kip-ft)"] == e["M max (kip-ft)"]
-        assert c["M min (kip-ft)"] == e["M min (kip-ft)"]
+        assert [c[name] for name in effects] == [e[name] for name in effects]
     with zipfile.ZipFile(path) as zf:
-        charts = sorted(n for n in zf.namelist() if n.startswith("xl/charts/chart"))
+        workbook = ElementTree.fromstring(zf.read("xl/workbook.xml"))
+        rels = ElementTree.fromstring(zf.read("xl/_rels/workbook.xml.rels"))
+        rid = next(
+            s.get(f"{{{REL_NS}}}id")
+            for s in workbook.iter(f"{{{MAIN_NS}}}sheet")
+            if s.get("name") == sheet
+        )
+        part = "xl/" + next(r.get("Target") for r in rels if r.get("Id") == rid)
+        drawing_rels = ElementTree.fromstring(zf.read(_rels(part)))
+        drawing = "xl/drawings/" + drawing_rels[0].get("Target").split("/")[-1]
+        chart_rels = ElementTree.fromstring(zf.read(_rels(drawing)))
+        charts = ["xl/charts/" + r.get("Target").split("/")[-1] for r in chart_rels]
         assert len(charts) == 2
         chart = ElementTree.fromstring(zf.read(charts[0]))
     # DrawingML chart part (ECMA-376 Part 1, §21.2.2.161 scatterChart): two series, y against
@@ -319,16 +341,20 @@ def test_moment_charts_hold_one_chart_per_member_and_their_own_data(tmp_path: Pa
     refs = [[f.text for f in ser.iter(f"{{{CHART_NS}}}f")] for ser in series]
     rows = sum(1 for r in chart_rows if r["Member"] == charted[0]) + 1
     assert refs == [
-        [f"'Moment Charts'!$B$2:$B${rows}", f"'Moment Charts'!${col}$2:${col}${rows}"]
-        for col in ("C", "D")
+        [f"'{sheet}'!$B$2:$B${rows}", f"'{sheet}'!${col}$2:${col}${rows}"] for col in ("C", "D")
     ]
     log = [r["Value"] for r in _rows(wb["Run Log"])]
-    assert any(isinstance(v, str) and "shows 2 of 3 members" in v for v in log)
+    assert any(isinstance(v, str) and f"{sheet} shows 2 of 3 members" in v for v in log)
+
+
+def _rels(part: str) -> str:
+    folder, name = part.rsplit("/", 1)
+    return f"{folder}/_rels/{name}.rels"
 
 
 def test_no_chart_sheet_when_chart_members_is_zero(tmp_path: Path) -> None:
     wb = load_workbook(_write(tmp_path, _case(chart_members=0)))
-    assert "Moment Charts" not in wb.sheetnames
+    assert "Moment Charts" not in wb.sheetnames and "Shear Charts" not in wb.sheetnames
 
 
 def test_run_log_records_the_run_and_the_cautions(written: tuple[Case, Path]) -> None:

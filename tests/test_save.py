@@ -252,6 +252,7 @@ def test_a_second_run_replaces_the_result_sheets(tmp_path: Path) -> None:
         "Governing",
         "Vehicle Summary",
         "Moment Charts",
+        "Shear Charts",
         "Result Guide",
         "Run Log",
     )

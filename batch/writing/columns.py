@@ -63,6 +63,7 @@ __all__ = [
     "SCREENING",
     "SCREENING_DETAIL",
     "SCREEN_EXCEEDED_RGB",
+    "SHEAR_CHARTS_SHEET",
     "VEHICLE_SUMMARY",
     "MemberPeaks",
     "RatedMember",
@@ -76,6 +77,7 @@ DIRECTION_TEXT: dict[int, str] = {1: "left-to-right", -1: "right-to-left"}
 
 RUN_LOG_SHEET = "Run Log"
 CHARTS_SHEET = "Moment Charts"
+SHEAR_CHARTS_SHEET = "Shear Charts"
 
 #: Fills of a rating factor, by band: (lowest RF of the band, fill RGB, words).
 #: spanfleet's own palette: failures stand out, a thin margin is marked, the rest is calm.
@@ -191,12 +193,14 @@ def _governing_columns(effect: Effect) -> tuple[Column, ...]:
                 number_format=FORMAT_WHOLE,
                 width=8,
                 values=one(lambda env, _ext, i: int(env.station_span[i]), None),
+                meaning="Span of the station where the extreme occurs, from 1 at the left end.",
             ),
             ResultColumn(
                 header=f"{effect.name} station",
                 number_format=FORMAT_FRACTION,
                 width=9,
                 values=one(lambda env, _ext, i: float(env.station_fraction[i]), None),
+                meaning="Fraction of that span's length.",
             ),
             ResultColumn(
                 header=f"{effect.name} x",
@@ -204,6 +208,7 @@ def _governing_columns(effect: Effect) -> tuple[Column, ...]:
                 number_format=FORMAT_VALUE,
                 width=9,
                 values=one(lambda env, _ext, i: float(env.station_x[i]), None),
+                meaning="Distance of that station from the member's left end.",
             ),
         )
     else:
@@ -213,6 +218,7 @@ def _governing_columns(effect: Effect) -> tuple[Column, ...]:
                 number_format=FORMAT_WHOLE,
                 width=9,
                 values=one(lambda _env, _ext, i: i + 1, None),
+                meaning="Support where the extreme occurs, 1 = the left end.",
             ),
             ResultColumn(
                 header=f"{effect.name} x",
@@ -220,6 +226,7 @@ def _governing_columns(effect: Effect) -> tuple[Column, ...]:
                 number_format=FORMAT_VALUE,
                 width=9,
                 values=one(lambda env, _ext, i: float(env.support_x[i]), None),
+                meaning="Distance of that support from the member's left end.",
             ),
         )
     value, vehicle, at, direction = _effect_columns(effect)
@@ -786,6 +793,7 @@ RESULT_GUIDE: ResultTable[list[GuideRow]] = ResultTable(
             width=18,
             values=lambda rows: [r.sheet for r in rows],
             text=True,
+            wrap=True,
             meaning="A result sheet of this run.",
         ),
         ResultColumn(
@@ -793,6 +801,7 @@ RESULT_GUIDE: ResultTable[list[GuideRow]] = ResultTable(
             width=22,
             values=lambda rows: [r.column for r in rows],
             text=True,
+            wrap=True,
             meaning="A column of that sheet (blank: the sheet as a whole).",
         ),
         ResultColumn(
@@ -800,13 +809,15 @@ RESULT_GUIDE: ResultTable[list[GuideRow]] = ResultTable(
             width=9,
             values=lambda rows: [r.unit for r in rows],
             text=True,
+            wrap=True,
             meaning="The column's unit in this run (blank: none).",
         ),
         ResultColumn(
             header="Meaning",
-            width=100,
+            width=80,
             values=lambda rows: [r.meaning for r in rows],
             text=True,
+            wrap=True,
             meaning="What the sheet or column holds.",
         ),
     ),
@@ -829,6 +840,7 @@ _RESULT_NAMES = {
     *(t.sheet.lower() for t in RESULT_TABLES),
     RESULT_GUIDE.sheet.lower(),
     CHARTS_SHEET.lower(),
+    SHEAR_CHARTS_SHEET.lower(),
     RUN_LOG_SHEET.lower(),
 }
 #: Tables that continue on numbered sheets (``Envelopes 2``, ...) past one sheet's rows.

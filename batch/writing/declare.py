@@ -65,7 +65,8 @@ class ResultColumn(Generic[B]):
     empty cell). ``highlight`` names the table's highlight rule that marks a
     row of the block in this column (``""``: never). ``fill`` gives a cell's
     fill colour (RGB hex) from its value, or None for none. ``text`` cells are
-    always written as text, never as formulas.
+    always written as text, never as formulas; ``wrap`` cells wrap within the
+    column's width, their rows as tall as the text needs.
     """
 
     header: str
@@ -76,6 +77,7 @@ class ResultColumn(Generic[B]):
     highlight: str = ""
     fill: Callable[[object], str | None] | None = None
     text: bool = False
+    wrap: bool = False
     meaning: str = ""
 
     def title(self, unit_labels: Mapping[str, str]) -> str:

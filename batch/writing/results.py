@@ -10,9 +10,8 @@ result sheets are streamed in (:mod:`batch.writing.package.stream`).
 from __future__ import annotations
 
 from batch.running.executor import RunResult
-from batch.writing.charts import write_moment_charts
+from batch.writing.charts import CHART_SHEETS, write_charts
 from batch.writing.columns import (
-    CHARTS_SHEET,
     GOVERNING,
     RESULT_GUIDE,
     RESULT_TABLES,
@@ -65,13 +64,13 @@ def write_results(
             f"{result.n_members - rated} of {result.n_members} members have no Capacities rows "
             "and are not rated."
         )
-    units = settings.unit_labels
-    charted = write_moment_charts(book, result.envelopes, units, settings.chart_members)
-    if charted < result.n_members:
-        remarks.append(
-            f"{CHARTS_SHEET} shows {charted} of {result.n_members} members; set "
-            "'Chart members' in Settings to chart more."
-        )
+    for kind in CHART_SHEETS:
+        charted = write_charts(book, kind, result.envelopes, settings)
+        if charted < result.n_members:
+            remarks.append(
+                f"{kind.sheet} shows {charted} of {result.n_members} members; set "
+                "'Chart members' in Settings to chart more."
+            )
     write_table(book, RESULT_GUIDE, result, max_rows)
     sheets = (*book.names, RUN_LOG_SHEET)
     write_run_log(book, result, info, sheets, remarks)

@@ -23,7 +23,9 @@ from batch.running.executor import RunResult
 from batch.writing.cautions import CAUTIONS, SIGN_CONVENTIONS
 from batch.writing.columns import RUN_LOG_SHEET
 from batch.writing.package.splice import ResultBook
+from batch.writing.package.stream import header_widths
 from batch.writing.package.styles import HEADER_RGB, HIGHLIGHT_RGB, CellFormat
+from batch.writing.printing import page_setup, wrapped_height
 
 __all__ = ["INPUT_FILE_ITEM", "OUTPUT_FILE_ITEM", "InputInfo", "write_run_log"]
 
@@ -168,7 +170,10 @@ def write_run_log(
     """Add the Run Log sheet; ``sheets`` are the result sheets written, ``notes`` about them."""
     rows = list(_rows(result, info, sheets, notes))
     ws = book.new_sheet(RUN_LOG_SHEET, rows=len(rows) + 1, columns=2)
-    ws.header(("Item", "Value"), (30, 100))
+    titles, widths = ("Item", "Value"), (30.0, 100.0)
+    ws.page = page_setup(header_widths(titles, widths), 1, result.case.settings.units)
+    ws.header(titles, widths)  # the titles fit on one line
     looks = {kind: [book.styles.xf(f) for f in pair] for kind, pair in _LOOKS.items()}
     for item, value, style in rows:
-        ws.row((item, value), looks[style])
+        height = wrapped_height([(str(item), widths[0]), (str(value or ""), widths[1])])
+        ws.row((item, value), looks[style], height)

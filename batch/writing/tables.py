@@ -2,9 +2,11 @@
 
 The tables and their columns come from :mod:`batch.writing.columns`, each declared
 once. Every sheet gets one bold header row with units, frozen with the table's
-identifying columns, an autofilter over the data and the declared widths and
-number formats (text columns use the text format ``@``). Text is always written
-as a text cell, so an id such as ``=cmd|...`` can never become a live formula.
+identifying columns, an autofilter over the data, the declared widths and
+number formats (text columns use the text format ``@``; wrapped columns give their
+rows the height their text needs) and a page setup (:mod:`batch.writing.printing`).
+Text is always written as a text cell, so an id such as ``=cmd|...`` can never
+become a live formula.
 
 For each member, the cell holding the member's governing (extreme) value of each
 highlighted effect, and its vehicle, position and direction cells in the same
@@ -21,10 +23,12 @@ from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
+from batch.model.units import UnitSystem
 from batch.writing.declare import FORMAT_TEXT, WEIGHT_LABELS, AnyTable, ResultColumn
 from batch.writing.package.splice import OWNER_MARK, ResultBook
-from batch.writing.package.stream import MAX_COLUMNS, MAX_ROWS, SheetStream
+from batch.writing.package.stream import MAX_COLUMNS, MAX_ROWS, SheetStream, header_widths
 from batch.writing.package.styles import HIGHLIGHT_RGB, CellFormat, StyleSheet, highlighted
+from batch.writing.printing import page_setup, wrapped_height
 
 if TYPE_CHECKING:
     from batch.running.executor import RunResult
@@ -57,19 +61,42 @@ class WrittenTable:
 
 
 def column_format(col: ResultColumn[Any]) -> CellFormat:
-    """The cell format of a result column's data cells."""
-    return CellFormat(number_format=FORMAT_TEXT if col.text else col.number_format)
+    """The cell format of a result column's data cells (wrapped ones aligned to the top)."""
+    return CellFormat(
+        number_format=FORMAT_TEXT if col.text else col.number_format,
+        wrap=col.wrap,
+        vertical="top" if col.wrap else None,
+    )
 
 
 def write_header(
     ws: SheetStream,
     columns: Sequence[ResultColumn[Any]],
     unit_labels: Mapping[str, str],
+    units: UnitSystem,
     frozen_columns: int = 0,
 ) -> None:
-    """Header row of result columns: titles with units, bold on the header fill, frozen."""
+    """Page setup, then the header row: titles with units, bold on the header fill, frozen.
+
+    The header row is tall enough for a title that wraps. The page setup
+    (:func:`batch.writing.printing.page_setup`) is for the paper of ``units``.
+    """
     titles = [col.title(unit_labels) for col in columns]
-    ws.header(titles, [col.width for col in columns], min(frozen_columns, len(columns)))
+    widths = header_widths(titles, [col.width for col in columns])
+    frozen = min(frozen_columns, len(columns))
+    ws.page = page_setup(widths, frozen, units)
+    ws.header(titles, widths, frozen, wrapped_height(list(zip(titles, widths, strict=True))))
+
+
+def _heights(
+    columns: Sequence[ResultColumn[Any]], cells: Sequence[Sequence[object]]
+) -> list[float]:
+    """Each row's height for its wrapped columns' text (0: the default height)."""
+    wrapped = [j for j, col in enumerate(columns) if col.wrap]
+    return [
+        wrapped_height([(str(cells[j][i] or ""), columns[j].width) for j in wrapped])
+        for i in range(len(cells[0]))
+    ]
 
 
 class _Styles:
@@ -146,7 +173,7 @@ def write_table(
         name = table.sheet if not sheets else f"{table.sheet} {len(sheets) + 1}"
         rows = min(max_rows, max(expected - total, 0)) + 1
         ws = book.new_sheet(name, rows=rows, columns=len(columns))
-        write_header(ws, columns, units, table.frozen_columns)
+        write_header(ws, columns, units, case.settings.units, table.frozen_columns)
         ws.autofilter = True
         sheets.append(name)
         return ws
@@ -162,7 +189,8 @@ def write_table(
         if on_sheet + n > max_rows:
             ws = next_sheet()
             on_sheet = 0
-        ws.block(cells, styles.plain, _marks(table, columns, block, cells, styles))
+        heights = _heights(columns, cells) if any(col.wrap for col in columns) else None
+        ws.block(cells, styles.plain, _marks(table, columns, block, cells, styles), heights)
         on_sheet += n
         total += n
     remark = ""

@@ -17,7 +17,7 @@ import datetime as dt
 import io
 import zipfile
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import BinaryIO
 
@@ -27,6 +27,9 @@ from openpyxl.comments import Comment
 from openpyxl.styles import Alignment, Font, PatternFill
 from openpyxl.utils import get_column_letter
 from openpyxl.worksheet.datavalidation import DataValidation
+from openpyxl.worksheet.header_footer import HeaderFooterItem
+from openpyxl.worksheet.page import PageMargins
+from openpyxl.worksheet.properties import PageSetupProperties
 from openpyxl.worksheet.worksheet import Worksheet
 from openpyxl.writer.excel import ExcelWriter
 
@@ -37,6 +40,8 @@ from batch.model.units import UnitSystem
 from batch.reading.cells import NUMBER_RULE
 from batch.writing.cautions import CAUTIONS, SIGN_CONVENTIONS
 from batch.writing.package.save import SaveError, atomic_save
+from batch.writing.package.stream import PageSetup
+from batch.writing.printing import HEADER_PARTS, page_setup, wrapped_height
 
 __all__ = [
     "GUIDE_SHEET",
@@ -60,12 +65,19 @@ _ZIP_TIME = (1980, 1, 1, 0, 0, 0)
 #: Drop-down lists apply from row 2 down to the last row a sheet can have.
 _LAST_ROW = 1_048_576
 _MAX_WIDTH = 60
+#: Width of the guide sheet's one column, characters: narrow enough to print on a
+#: portrait page of Letter or A4 at full size even in a font a third wider than the
+#: workbook's (a program without Calibri substitutes one), since a one-column sheet is
+#: not always shrunk to the page width (LibreOffice 7 does not, as its test shows).
+_GUIDE_WIDTH = 68
+#: Font sizes, points (the title's, and the default of every other cell).
+_TITLE_POINTS = 14.0
 
 _HEADER_FILL = PatternFill("solid", fgColor="D6E4DC")  # pale sage: optional columns
 _REQUIRED_FILL = PatternFill("solid", fgColor="9FC2B0")  # deeper sage: required columns
 _HEADER_FONT = Font(bold=True, color="17332A")
 _EXAMPLE_FONT = Font(italic=True, color="6B6B6B")
-_TITLE_FONT = Font(bold=True, size=14, color="17332A")
+_TITLE_FONT = Font(bold=True, size=_TITLE_POINTS, color="17332A")
 _SECTION_FONT = Font(bold=True, color="17332A")
 _WRAP = Alignment(wrap_text=True, vertical="top")
 
@@ -193,10 +205,33 @@ def _add_choice_list(ws: Worksheet, name: str, choices: tuple[str, ...], where: 
     ws.add_data_validation(rule)
 
 
-def _set_widths(ws: Worksheet, texts_by_column: list[list[str]]) -> None:
+def _set_widths(ws: Worksheet, texts_by_column: list[list[str]]) -> list[float]:
+    widths: list[float] = []
     for j, texts in enumerate(texts_by_column, start=1):
         width = min(_MAX_WIDTH, max([10, *(len(t) + 3 for t in texts)]))
         ws.column_dimensions[get_column_letter(j)].width = width
+        widths.append(width)
+    return widths
+
+
+def _print_setup(ws: Worksheet, page: PageSetup) -> None:
+    """Apply ``page`` (:func:`batch.writing.printing.page_setup`) to an openpyxl sheet.
+
+    The margins are those of the streamed result sheets, which the fit assumes.
+    """
+    ws.sheet_properties.pageSetUpPr = PageSetupProperties(fitToPage=True)
+    ws.page_setup.paperSize = page.paper
+    ws.page_setup.orientation = "landscape" if page.landscape else "portrait"
+    ws.page_setup.fitToWidth = page.pages_wide
+    ws.page_setup.fitToHeight = 0
+    ws.page_margins = PageMargins(left=0.7, right=0.7, top=0.75, bottom=0.75)
+    if page.title_rows:
+        ws.print_title_rows = f"1:{page.title_rows}"
+    if page.title_columns:
+        ws.print_title_cols = f"A:{get_column_letter(page.title_columns)}"
+    header = HeaderFooterItem()
+    header.left.text, header.center.text, header.right.text = HEADER_PARTS
+    ws.HeaderFooter.oddHeader = header
 
 
 def _write_table(
@@ -217,26 +252,32 @@ def _write_table(
         if column.choices:
             letter = get_column_letter(j)
             _add_choice_list(ws, column.header, column.choices, f"{letter}2:{letter}{_LAST_ROW}")
-    _set_widths(
+    widths = _set_widths(
         ws,
         [[_header_text(c, units), *(str(r.get(c.key) or "") for r in rows)] for c in sheet.columns],
     )
     ws.freeze_panes = "B2"
+    _print_setup(ws, page_setup(widths, 1, units))
 
 
 def _write_settings(ws: Worksheet, values: Mapping[str, CellValue], units: UnitSystem) -> None:
     _style_header(ws, SETTINGS, units)
+    widths = [max(len(s.header) for s in SETTING_ROWS) + 4, 16, _MAX_WIDTH + 10]
     for i, setting in enumerate(SETTING_ROWS, start=2):
         _put(ws.cell(row=i, column=1), setting.header)
         _put(ws.cell(row=i, column=2), values.get(setting.key, setting.default))
         _put(ws.cell(row=i, column=3), setting.meaning)
-        ws.cell(row=i, column=3).alignment = _WRAP
+        for j in (1, 2, 3):
+            ws.cell(row=i, column=j).alignment = _WRAP
+        height = wrapped_height([(setting.meaning, widths[2])])
+        if height:
+            ws.row_dimensions[i].height = height
         if setting.choices:
             _add_choice_list(ws, setting.header, setting.choices, f"B{i}")
-    ws.column_dimensions["A"].width = max(len(s.header) for s in SETTING_ROWS) + 4
-    ws.column_dimensions["B"].width = 16
-    ws.column_dimensions["C"].width = _MAX_WIDTH + 10
+    for j, width in enumerate(widths, start=1):
+        ws.column_dimensions[get_column_letter(j)].width = width
     ws.freeze_panes = "A2"
+    _print_setup(ws, page_setup(widths, 1, units))
 
 
 def _guide_lines(units: UnitSystem) -> list[tuple[str, Font | None]]:
@@ -309,14 +350,20 @@ def _guide_lines(units: UnitSystem) -> list[tuple[str, Font | None]]:
 
 
 def _write_guide(ws: Worksheet, units: UnitSystem) -> None:
+    """The guide sheet: one column of wrapped text, each row as tall as its text needs."""
     for i, (text, font) in enumerate(_guide_lines(units), start=1):
         cell = ws.cell(row=i, column=1)
         _put(cell, text or None)
         cell.alignment = _WRAP
         if font is not None:
             cell.font = font
-    ws.column_dimensions["A"].width = 110
+        points = float(font.size) if font is not None and font.size else 11.0
+        height = wrapped_height([(text, _GUIDE_WIDTH)], points)
+        if height:
+            ws.row_dimensions[i].height = height
+    ws.column_dimensions["A"].width = _GUIDE_WIDTH
     ws.sheet_view.showGridLines = False
+    _print_setup(ws, replace(page_setup([_GUIDE_WIDTH], 0, units), title_rows=0))
 
 
 def input_workbook(

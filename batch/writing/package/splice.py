@@ -11,7 +11,9 @@ package is made from the input package:
 * the new result sheets are streamed into the package as they are written
   (:class:`~batch.writing.package.stream.SheetStream`), each with its parts, content type,
   relationship, sheet entry, the hidden name :data:`OWNER_MARK` and, where it
-  has an autofilter, the ``_xlnm._FilterDatabase`` name Excel keeps for it;
+  has an autofilter, the ``_xlnm._FilterDatabase`` name Excel keeps for it, and
+  where it has a page setup, the ``_xlnm.Print_Titles`` of the rows and columns
+  printed on every page and the ``_xlnm.Print_Area`` when only part of it prints;
 * the few parts that list sheets or styles are edited as text
   (:mod:`batch.writing.package.xmltext`): the workbook part (sheets, sheet-level names
   renumbered after removals, the active tab), its relationships, the content
@@ -53,7 +55,7 @@ from batch.writing.package.source import (
     empty_package,
     rels_of,
 )
-from batch.writing.package.stream import MAX_ROWS, SheetStream
+from batch.writing.package.stream import MAX_ROWS, PageSetup, SheetStream, column_letter
 from batch.writing.package.styles import StyleSheet
 from batch.writing.package.xmltext import Node, Splice, attr, parse, text
 
@@ -307,6 +309,18 @@ class ResultBook:
                     f'<{p}definedName name="_xlnm._FilterDatabase" localSheetId="{k}" '
                     f'hidden="1">{text(quoted)}!{ref}</{p}definedName>'
                 )
+            titles = _print_titles(quoted, entry.stream.page)
+            if titles:
+                names.append(
+                    f'<{p}definedName name="_xlnm.Print_Titles" localSheetId="{k}">'
+                    f"{text(titles)}</{p}definedName>"
+                )
+            if entry.stream.page is not None and entry.stream.page.print_area:
+                area = _absolute(entry.stream.page.print_area)
+                names.append(
+                    f'<{p}definedName name="_xlnm.Print_Area" localSheetId="{k}">'
+                    f"{text(quoted)}!{area}</{p}definedName>"
+                )
         defined = root.find("definedNames")
         anchor = _after_sheets(root)
         if defined is not None:
@@ -426,6 +440,22 @@ def _absolute(ref: str) -> str:
         letters = corner.rstrip("0123456789")
         out.append(f"${letters}${corner[len(letters) :]}")
     return ":".join(out)
+
+
+def _print_titles(quoted: str, page: PageSetup | None) -> str:
+    """The rows and columns printed on every page, e.g. ``'Envelopes'!$A:$D,'Envelopes'!$1:$1``.
+
+    Empty when the sheet has no page setup or repeats nothing (ECMA-376 Part 1,
+    §18.2.5: the built-in name ``_xlnm.Print_Titles``).
+    """
+    if page is None:
+        return ""
+    parts = []
+    if page.title_columns:
+        parts.append(f"{quoted}!$A:${column_letter(page.title_columns)}")
+    if page.title_rows:
+        parts.append(f"{quoted}!$1:${page.title_rows}")
+    return ",".join(parts)
 
 
 def _after_sheets(root: Node) -> int:

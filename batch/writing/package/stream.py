@@ -4,8 +4,10 @@ Nothing of a sheet is held in memory beyond the rows being written, so a sheet
 of a million rows costs what one member's rows cost. The part is laid out as
 ECMA-376 Part 1, §18.3.1.99 (CT_Worksheet) orders it: a frozen header pane in
 ``sheetViews``, column widths in ``cols``, the rows in ``sheetData``, then an
-``autoFilter`` over the header and data and, for a chart sheet, the ``drawing``
-that holds the charts.
+``autoFilter`` over the header and data, the page setup (§18.3.1.63 ``pageSetup``,
+§18.3.1.46 ``headerFooter``, with ``sheetPr/pageSetUpPr fitToPage`` first) and,
+for a chart sheet, the ``drawing`` that holds the charts. A row may have a height
+of its own (``ht``, in points), e.g. for wrapped text.
 
 Cells: ``None`` and the empty string leave a cell empty; numbers are written as
 ``<v>`` values in Python's shortest round-trip form (so a float64 reads back bit
@@ -20,12 +22,21 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping, Sequence
+from dataclasses import dataclass
 from typing import IO
 
 from batch.writing.package.styles import HEADER, StyleSheet
 from batch.writing.package.xmltext import text
 
-__all__ = ["MAX_COLUMNS", "MAX_ROWS", "MAX_TEXT", "SheetStream", "column_letter"]
+__all__ = [
+    "MAX_COLUMNS",
+    "MAX_ROWS",
+    "MAX_TEXT",
+    "PageSetup",
+    "SheetStream",
+    "column_letter",
+    "header_widths",
+]
 
 #: Rows and columns a sheet holds (ECMA-376 Part 1, §18.3.1.73 and the spreadsheet limits).
 MAX_ROWS = 1_048_576
@@ -53,6 +64,59 @@ def column_letter(j: int) -> str:
     return letters
 
 
+@dataclass(frozen=True, kw_only=True)
+class PageSetup:
+    """How a sheet prints: paper, orientation, fit, the rows and columns repeated, header.
+
+    The sheet is fitted to ``pages_wide`` pages across and as many pages down as its
+    rows take. ``paper`` is a paper size code of ECMA-376 Part 1, §18.3.1.63 (1 Letter,
+    9 A4). ``title_rows`` and ``title_columns`` are printed on every page (the first
+    rows and columns). ``header`` and ``footer`` use the header and footer codes of
+    §18.3.1.36 (``&L``, ``&C``, ``&R`` sections; ``&F`` workbook, ``&A`` sheet,
+    ``&P`` page, ``&N`` pages). ``print_area`` (a range such as ``F2:F40``; empty: the
+    whole sheet) is what prints; ``row_breaks`` are rows after which a new page starts
+    (§18.3.1.74 ``rowBreaks``).
+    """
+
+    paper: int = 1
+    landscape: bool = False
+    pages_wide: int = 1
+    title_rows: int = 1
+    title_columns: int = 0
+    header: str = ""
+    footer: str = ""
+    print_area: str = ""
+    row_breaks: tuple[int, ...] = ()
+
+
+def header_widths(titles: Sequence[str], widths: Sequence[float]) -> list[float]:
+    """Column widths in characters, each at least wide enough for its header title."""
+    if len(titles) != len(widths):
+        raise ValueError(f"{len(titles)} titles but {len(widths)} widths")
+    return [round(max(w, len(t) * 0.9 + 2), 1) for t, w in zip(titles, widths, strict=True)]
+
+
+def _page_xml(page: PageSetup) -> str:
+    """The ``pageSetup``, ``headerFooter`` and ``rowBreaks`` elements of ``page``."""
+    orientation = "landscape" if page.landscape else "portrait"
+    xml = (
+        f'<pageSetup paperSize="{page.paper}" fitToWidth="{page.pages_wide}" fitToHeight="0" '
+        f'orientation="{orientation}"/>'
+    )
+    if page.header or page.footer:
+        xml += "<headerFooter>"
+        xml += f"<oddHeader>{text(page.header)}</oddHeader>" if page.header else ""
+        xml += f"<oddFooter>{text(page.footer)}</oddFooter>" if page.footer else ""
+        xml += "</headerFooter>"
+    if page.row_breaks:
+        n = len(page.row_breaks)
+        breaks = "".join(
+            f'<brk id="{r}" max="{MAX_COLUMNS - 1}" man="1"/>' for r in page.row_breaks
+        )
+        xml += f'<rowBreaks count="{n}" manualBreakCount="{n}">{breaks}</rowBreaks>'
+    return xml
+
+
 def _xml_number(value: object) -> int | float | None:
     """``value`` as a Python number (numpy scalars included), or None if it is not one."""
     if isinstance(value, int | float):
@@ -62,6 +126,11 @@ def _xml_number(value: object) -> int | float | None:
     if hasattr(value, "__float__"):
         return float(value.__float__())
     return None
+
+
+def _height(points: float) -> str:
+    """The attributes of a row of its own height (none for 0: the default height)."""
+    return f' ht="{points:g}" customHeight="1"' if points > 0 else ""
 
 
 def _finite(values: Sequence[object], gaps: bool) -> bool:
@@ -77,7 +146,8 @@ class SheetStream:
     row, then :meth:`row` or :meth:`block` for the rows in order, then
     :meth:`close`; set :attr:`autofilter` for a filter over the rows. Cell
     styles are indices from ``styles`` (see :meth:`StyleSheet.xf`). ``selected``
-    marks the sheet's tab as selected (for the workbook's active sheet).
+    marks the sheet's tab as selected (for the workbook's active sheet). Set
+    :attr:`page` before the first row for a page setup.
     """
 
     def __init__(
@@ -91,6 +161,7 @@ class SheetStream:
         self.last_column = 0
         self.drawing: str | None = None  # relationship id of the sheet's drawing
         self.autofilter = False  # an autofilter over the header and data rows
+        self.page: PageSetup | None = None  # how the sheet prints (set before the first row)
         self._widths: list[float] = []
         self._frozen = (0, 0)
         self._started = False
@@ -114,18 +185,23 @@ class SheetStream:
         self._frozen = (rows, cols)
 
     def header(
-        self, titles: Sequence[str], widths: Sequence[float], frozen_columns: int = 0
+        self,
+        titles: Sequence[str],
+        widths: Sequence[float],
+        frozen_columns: int = 0,
+        height: float = 0.0,
     ) -> None:
-        """Row 1: bold titles on the header fill; widths at least the titles'.
+        """Row 1: bold titles on the header fill, wrapped; widths at least the titles'.
 
         Row 1 and the first ``frozen_columns`` columns stay in view while scrolling.
+        ``height`` is the header row's height in points (0: the default), room for a
+        title that wraps.
         """
         if len(titles) != len(widths):
             raise ValueError(f"{self.name}: {len(titles)} titles but {len(widths)} widths")
-        fits = [round(max(w, len(t) * 0.9 + 2), 1) for t, w in zip(titles, widths, strict=True)]
-        self.columns(fits)
+        self.columns(header_widths(titles, widths))
         self.freeze(1, frozen_columns)
-        self.row(titles, [self.header_style] * len(titles))
+        self.row(titles, [self.header_style] * len(titles), height)
 
     def _before_rows(self, what: str) -> None:
         if self._started:
@@ -149,9 +225,10 @@ class SheetStream:
             f'<col min="{j}" max="{j}" width="{w:g}" customWidth="1"/>'
             for j, w in enumerate(self._widths, start=1)
         )
+        fit = '<sheetPr><pageSetUpPr fitToPage="1"/></sheetPr>' if self.page else ""
         self._emit(
             '<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n'
-            f'<worksheet xmlns="{_MAIN_NS}" xmlns:r="{_REL_NS}">'
+            f'<worksheet xmlns="{_MAIN_NS}" xmlns:r="{_REL_NS}">{fit}'
             f'<sheetViews><sheetView workbookViewId="0"{selected}>{view}</sheetView></sheetViews>'
             '<sheetFormatPr defaultRowHeight="15"/>'
             + (f"<cols>{cols_xml}</cols>" if cols_xml else "")
@@ -203,10 +280,13 @@ class SheetStream:
         self.last_row = first + count - 1
         return first
 
-    def row(self, values: Sequence[object], styles: Sequence[int] | int = 0) -> int:
+    def row(
+        self, values: Sequence[object], styles: Sequence[int] | int = 0, height: float = 0.0
+    ) -> int:
         """Write the next row (``None`` values: empty cells); returns its number.
 
-        ``styles`` gives one style index per value, or one for all of them.
+        ``styles`` gives one style index per value, or one for all of them;
+        ``height`` the row's height in points (0: the sheet's default).
         """
         r = self._next_row(1)
         each = [styles] * len(values) if isinstance(styles, int) else styles
@@ -217,7 +297,7 @@ class SheetStream:
             for j, (v, s) in enumerate(zip(values, each, strict=True), start=1)
         )
         self.last_column = max(self.last_column, len(values))
-        self._emit(f'<row r="{r}">{cells}</row>')
+        self._emit(f'<row r="{r}"{_height(height)}>{cells}</row>')
         return r
 
     def block(
@@ -225,12 +305,14 @@ class SheetStream:
         columns: Sequence[Sequence[object]],
         styles: Sequence[int],
         marks: Mapping[tuple[int, int], int] | None = None,
+        heights: Sequence[float] | None = None,
     ) -> int:
         """Write rows given column by column; returns the first row's number.
 
         ``columns[j][i]`` is the value of row ``i``, column ``j + 1``;
         ``styles[j]`` its style, except where ``marks[(i, j)]`` gives another
         (a marked cell is written even when empty, so its fill shows).
+        ``heights[i]`` is row ``i``'s height in points (0 or none: the default).
         """
         if len(styles) != len(columns):
             raise ValueError(f"{self.name}: {len(columns)} columns but {len(styles)} styles")
@@ -247,11 +329,14 @@ class SheetStream:
         for (i, j), style in (marks or {}).items():
             texts[j][i] = self._cell(f"{self._letter(j + 1)}{rs[i]}", columns[j][i], style)
         self.last_column = max(self.last_column, len(columns))
+        if heights is not None and len(heights) != n:
+            raise ValueError(f"{self.name}: {n} rows but {len(heights)} heights")
+        tall = [_height(h) for h in heights] if heights is not None else [""] * n
         self._emit(
             "".join(
                 [
-                    f'<row r="{r}">{"".join(cells)}</row>'
-                    for r, *cells in zip(rs, *texts, strict=True)
+                    f'<row r="{r}"{h}>{"".join(cells)}</row>'
+                    for r, h, *cells in zip(rs, tall, *texts, strict=True)
                 ]
             )
         )
@@ -305,7 +390,7 @@ class SheetStream:
         return f"A1:{column_letter(max(self.last_column, 1))}{max(self.last_row, 1)}"
 
     def close(self) -> None:
-        """End the sheet: the autofilter (if :attr:`autofilter`), margins, the drawing if any."""
+        """End the sheet: autofilter (if :attr:`autofilter`), margins, page, drawing if any."""
         if self._closed:
             return
         if not self._started:
@@ -315,6 +400,8 @@ class SheetStream:
             tail += f'<autoFilter ref="{self.filter_ref}"/>'
         tail += '<pageMargins left="0.7" right="0.7" top="0.75" bottom="0.75" header="0.3"'
         tail += ' footer="0.3"/>'
+        if self.page is not None:
+            tail += _page_xml(self.page)
         if self.drawing:
             tail += f'<drawing r:id="{self.drawing}"/>'
         self._emit(tail + "</worksheet>")
