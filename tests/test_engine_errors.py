@@ -399,7 +399,7 @@ def test_more_than_max_ranges_ranged_spacings_are_refused(lines) -> None:
 
 
 def test_unknown_load_case_scope_is_refused() -> None:
-    # envelope.SCOPES: "all" or "interior-hogging" (the HL-93 two-truck rule).
+    # batch.loads.cases.SCOPES names every scope; anything else is refused.
     case = LoadCase(label="KV-T3", train=AxleTrain.of((10.0,)), scope="sagging")
     with pytest.raises(ValueError, match=_exactly("unknown load-case scope 'sagging'")):
         member_envelope(Member(id="KV-12 G1", spans=(30.0, 40.0)), [case])

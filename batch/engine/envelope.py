@@ -19,13 +19,14 @@ factor for shears and reactions. Sign conventions are those of
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import NDArray
 
 from batch.engine.effects import TIE_REL_TOL, Governing, MemberEnvelope
-from batch.engine.influence import InfluenceLines, influence_lines
+from batch.engine.influence import InfluenceLines, SpanExtremes, influence_lines
 from batch.engine.moving import (
     LEFT_TO_RIGHT,
     RIGHT_TO_LEFT,
@@ -64,19 +65,34 @@ def member_influence(member: Member, stations_per_span: int) -> InfluenceLines:
     )
 
 
+def hogging_stations(il: InfluenceLines) -> NDArray[np.bool_]:
+    """Which stations are in hogging under a uniform load on the whole member (per station).
+
+    These are the stations between an interior support and its points of
+    contraflexure under a uniform load on every span.
+    """
+    _, _, total = _uniform_effects(il)
+    hogging: NDArray[np.bool_] = total[il.moment_rows] < 0
+    return hogging
+
+
 def _scoped(il: InfluenceLines, scope: str) -> NDArray[np.bool_]:
     """Which effects (rows) a case of this scope may govern, as (n_effects, 2) for max/min."""
-    applies = np.ones((il.n_effects, 2), dtype=bool)
+    applies = np.zeros((il.n_effects, 2), dtype=bool)
     if scope == "all":
-        return applies
-    if scope != "interior-hogging":
+        applies[:] = True
+    elif scope == "moments":
+        applies[il.moment_rows] = True
+    elif scope == "shears-reactions":
+        applies[il.shear_rows.start :] = True
+    elif scope == "hogging":
+        applies[il.moment_rows, 1] = True
+    elif scope == "interior-hogging":
+        applies[il.moment_rows, 1] = hogging_stations(il)
+        interior = np.arange(il.reaction_rows.start + 1, il.n_effects - 1)
+        applies[interior, :] = True
+    else:
         raise ValueError(f"unknown load-case scope {scope!r}")
-    _, _, total = _uniform_effects(il)
-    hogging = total[il.moment_rows] < 0
-    applies[:] = False
-    applies[il.moment_rows, 1] = hogging
-    interior = np.arange(il.reaction_rows.start + 1, il.n_effects - 1)
-    applies[interior, :] = True
     return applies
 
 
@@ -128,12 +144,16 @@ def case_effects(
         for name, number in numbers:
             if not np.isfinite(number):
                 raise ValueError(f"load case {c.label!r}: {name} must be a finite number")
+        if c.other_span_load and len(c.train.loads) != 1:
+            raise ValueError(
+                f"load case {c.label!r}: a load placed again in another span must be one axle"
+            )
     il = il if il is not None else member_influence(member, stations_per_span)
     positive, negative, _ = _uniform_effects(il)
     n_eff = il.n_effects
     df = np.full(n_eff, member.df_shear)
     df[il.moment_rows] = member.df_moment
-    fleet = fleet_extremes_of(il, cases, DIRECTION_CODES[directions])
+    fleet = _axle_extremes(il, cases, DIRECTION_CODES[directions])
     impact = np.array([c.impact for c in cases])[:, None]
     lane = np.array([c.lane_load for c in cases])[:, None]
     scale = np.array([c.factor for c in cases])[:, None] * df[None, :]
@@ -168,6 +188,65 @@ def case_effects(
         min_position=out["min"][1],
         min_direction=out["min"][2],
     )
+
+
+def _axle_extremes(
+    il: InfluenceLines, cases: Sequence[LoadCase], directions: tuple[int, ...]
+) -> FleetExtremes:
+    """The axle extremes of every case: moved across the member, or placed span by span.
+
+    A case with ``other_span_load`` is not moved: its one axle goes at the worst
+    ordinate of one span and again at the worst ordinate of one other span (see
+    :func:`_other_span_extremes`); the others go through the moving-load sweep.
+    """
+    placed = np.array([c.other_span_load for c in cases], dtype=bool)
+    if not placed.any():
+        return fleet_extremes_of(il, cases, directions)
+    shape = (len(cases), il.n_effects)
+    out = FleetExtremes(
+        max_value=np.zeros(shape),
+        max_position=np.full(shape, np.nan),
+        max_direction=np.zeros(shape, np.int8),
+        min_value=np.zeros(shape),
+        min_position=np.full(shape, np.nan),
+        min_direction=np.zeros(shape, np.int8),
+    )
+    if not placed.all():
+        moved = fleet_extremes_of(
+            il, [c for c, p in zip(cases, placed, strict=True) if not p], directions
+        )
+        for name in vars(out):
+            getattr(out, name)[~placed] = getattr(moved, name)
+    largest, smallest = il.span_extremes
+    for row, case in enumerate(cases):
+        if not case.other_span_load:
+            continue
+        load = case.train.loads[0]
+        for sign, ext, value, position in (
+            (1.0, largest, out.max_value, out.max_position),
+            (-1.0, smallest, out.min_value, out.min_position),
+        ):
+            value[row], position[row] = _other_span_extremes(ext, sign, load)
+    return out
+
+
+def _other_span_extremes(
+    ext: SpanExtremes, sign: float, load: float
+) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+    """Two equal point loads in two different spans, each at its span's worst ordinate.
+
+    ``ext`` holds each line's extreme ordinate per span in the sense ``sign``
+    (+1 largest, -1 smallest). A span whose ordinates all relieve the effect
+    takes no load (as a load on a support, where moment lines are zero). Returns
+    the effect (load times the two best ordinates of different spans) and the
+    position of the load in the worst span; on a member of one span, the one load.
+    """
+    adverse = np.maximum(sign * ext.value, 0.0)
+    order = np.argsort(-adverse, axis=1, kind="stable")
+    rows = np.arange(adverse.shape[0])
+    best = adverse[rows, order[:, 0]]
+    second = adverse[rows, order[:, 1]] if adverse.shape[1] > 1 else 0.0
+    return sign * load * (best + second), ext.position[rows, order[:, 0]]
 
 
 def _governing(

@@ -55,7 +55,7 @@ from batch.model.layout import (
 if TYPE_CHECKING:
     from batch.engine.kernel import SweepPlan
 
-__all__ = ["InfluenceLines", "UnstableMemberError", "influence_lines"]
+__all__ = ["InfluenceLines", "SpanExtremes", "UnstableMemberError", "influence_lines"]
 
 #: Above this condition number (of the diagonally scaled stiffness matrix) the
 #: double-precision solve could lose more than about six of its sixteen digits,
@@ -75,6 +75,18 @@ _HERMITE = np.array(
         [0.0, 0.0, -1.0, 1.0],
     ]
 )
+
+
+@dataclass(frozen=True, kw_only=True)
+class SpanExtremes:
+    """One extreme ordinate of every line within each span, shape (n_effects, n_spans).
+
+    ``value`` is the ordinate (per unit load), ``position`` where it is reached,
+    from the member's left end.
+    """
+
+    value: NDArray[np.float64]
+    position: NDArray[np.float64]
 
 
 class UnstableMemberError(ValueError):
@@ -250,6 +262,52 @@ class InfluenceLines:
         from batch.engine.kernel import sweep_plan
 
         return sweep_plan(*self.clipped[0]), sweep_plan(*self.clipped[1])
+
+    @functools.cached_property
+    def span_extremes(self) -> tuple[SpanExtremes, SpanExtremes]:
+        """The largest and the smallest ordinate of every line within each span, exactly.
+
+        Returns ``(largest, smallest)``, each a :class:`SpanExtremes` of shape
+        (n_effects, n_spans). A cubic piece takes its extremes at an end of
+        its interval (both one-sided limits at a break are taken, so the unit
+        jump of a shear line counts) or at a root of its quadratic derivative
+        inside it; every piece lies in one span (the supports are breaks), so
+        the extremes of a span are the extremes of its pieces. Ordinates as in
+        :meth:`evaluate`; positions from the member's left end.
+        """
+        start, end = self.breaks[:-1], self.breaks[1:]
+        h = end - start
+        c = self.coef  # (E, J, 4)
+        a, b, k = 3.0 * c[..., 3], 2.0 * c[..., 2], c[..., 1]
+        disc = b * b - 4.0 * a * k
+        root = np.sqrt(np.where(disc >= 0.0, disc, 0.0))
+        # The numerically stable pair of roots of a t^2 + b t + k (or the one root of b t + k).
+        q = -0.5 * (b + np.copysign(root, b))
+        with np.errstate(divide="ignore", invalid="ignore"):
+            t1 = np.where(a != 0.0, q / a, np.where(b != 0.0, -k / b, np.nan))
+            t2 = np.where((a != 0.0) & (q != 0.0), k / q, np.nan)
+        t = np.stack([np.zeros_like(t1), np.broadcast_to(h, t1.shape), t1, t2], axis=-1)
+        inside = (disc[..., None] >= 0.0) & (t > 0.0) & (t < h[None, :, None])
+        inside[..., :2] = True  # the ends of the piece are always candidates
+        t = np.where(inside, t, 0.0)
+        value = ((c[..., 3:4] * t + c[..., 2:3]) * t + c[..., 1:2]) * t + c[..., 0:1]
+        x = start[None, :, None] + t
+        span = np.searchsorted(self.support_x, 0.5 * (start + end)) - 1  # span of each piece
+        rows = np.arange(c.shape[0])
+        n_spans = self.support_x.size - 1
+        out = []
+        for sense in (1.0, -1.0):
+            signed = np.where(inside, sense * value, -np.inf)
+            best = np.empty((c.shape[0], n_spans))
+            where = np.empty((c.shape[0], n_spans))
+            for s in range(n_spans):
+                pieces = span == s
+                cand = signed[:, pieces].reshape(c.shape[0], -1)
+                pick = cand.argmax(axis=1)  # the first of equal candidates wins
+                best[:, s] = sense * cand[rows, pick]
+                where[:, s] = x[:, pieces].reshape(c.shape[0], -1)[rows, pick]
+            out.append(SpanExtremes(value=best, position=where))
+        return out[0], out[1]
 
     def areas(self) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
         """Exact integrals of the positive and the negative parts of each line.
