@@ -1,7 +1,7 @@
 """The cell reader against the quirks of cells typed by people and stored by spreadsheets.
 
-Sources: the list and range syntax is the workbook format
-(docs/workbook.md, "Reading rules"); how spreadsheets store
+Sources: the list, range and placeholder syntax is that of docs/workbook.md
+(this repository's specification of the workbook, "Reading rules"); how spreadsheets store
 cells (integers stored as floats, booleans, dates as serial numbers shown with
 a date format, the error values #DIV/0!, #N/A, #REF! ...) is ECMA-376 Part 1,
 §18.3.1.4 (c, cell) and §18.17.2 (error values), from memory; "-" and "N/A" as
@@ -51,7 +51,7 @@ QUIRKS = [
     ("number", "33%", "General", "not-a-number"),
     ("number", "60, 80", "General", "not-a-number"),
     ("number", "abc", "General", "not-a-number"),
-    # lists (contract: commas, semicolons or spaces; one number may be a numeric cell)
+    # lists (docs/workbook.md: commas, semicolons or spaces; one number may be a numeric cell)
     ("list", "60, 80, 60", "General", [60, 80, 60]),
     ("list", "60;80;60", "General", [60, 80, 60]),
     ("list", "60 80  60", "General", [60, 80, 60]),
@@ -79,7 +79,7 @@ QUIRKS = [
     ("list", "14-30", "General", "not-a-number"),  # ranges only in Axle spacings
     ("list", "60, inf", "General", "not-a-number"),
     ("list", "=A1+A2", "General", "formula-as-text"),
-    # spacing lists (contract: an entry may be a range 14-30)
+    # spacing lists (docs/workbook.md: an entry may be a range 14-30)
     ("spacing-list", "14, 14-30", "General", [14, RANGE]),
     ("spacing-list", "14, 14 - 30", "General", [14, RANGE]),
     ("spacing-list", "14 14 - 30", "General", [14, RANGE]),

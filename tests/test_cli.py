@@ -1,9 +1,9 @@
 """The ``spanfleet`` command: exit statuses, messages, and the input workbook never harmed.
 
-Exit statuses and commands are those of the workbook contract
-(/work/shared/contract/workbook.md): 0 success, 1 input problems, 2 usage error;
-3 (internal error) and 130 (interrupted, the shell convention 128 + SIGINT) are
-spanfleet's own extensions. Every call goes through ``main([...])`` in-process.
+Exit statuses and commands are those of docs/workbook.md ("The command"): 0
+success, 1 input problems, 2 usage error, 3 internal error (a fault of spanfleet,
+reported without a traceback unless SPANFLEET_DEBUG=1), 130 interrupted (the
+shell convention 128 + SIGINT). Every call goes through ``main([...])`` in-process.
 """
 
 from __future__ import annotations

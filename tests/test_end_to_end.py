@@ -5,10 +5,11 @@ envelope of the same case (read from the same workbook by the reader), and one
 case is checked against closed forms for the 72 kip three-axle design truck on a
 simple span (8, 32, 32 kip at 14 ft; no impact):
 
-* midspan moment 18 L - 280 kip-ft for L >= 28 ft (published-facts 3.2, a
-  closed form computed from statics: 1520.0 kip-ft at L = 100 ft);
-* end shear 72 - 672 / L kip (same source: 65.28 kip at L = 100 ft; the AASHTO
-  Standard Specifications Appendix A table gives 65.3 kip, from memory).
+* midspan moment 18 L - 280 kip-ft for L >= 28 ft (closed form derived here by
+  statics: 1520.0 kip-ft at L = 100 ft);
+* end shear 72 - 672 / L kip (closed form derived here by statics, L >= 28 ft:
+  65.28 kip at L = 100 ft; the AASHTO Standard Specifications Appendix A table
+  gives 65.3 kip, from memory).
 """
 
 from __future__ import annotations
@@ -133,10 +134,11 @@ def test_design_truck_closed_forms_through_the_command(tmp_path: Path, make_work
     assert done.returncode == 0, done.stderr
     env = pd.read_excel(book, sheet_name="Envelopes")
     mid = env[env["Station"] == 0.5].iloc[0]
-    # published-facts 3.2: truck midspan moment 18 L - 280 (L >= 28 ft).
+    # Closed form derived here by statics: truck midspan moment 18 L - 280 (L >= 28 ft).
     assert mid["M max (kip-ft)"] == pytest.approx(18 * length - 280, rel=REL_TOL_EXACT)
     end = env[env["Station"] == 0.0].iloc[0]
-    # published-facts 3.2: end shear 72 - 672 / L; heavy axles lead into the span.
+    # Closed form derived here by statics: end shear 72 - 672 / L; heavy axles lead into
+    # the span.
     assert end["V max (kip)"] == pytest.approx(72 - 672 / length, rel=REL_TOL_EXACT)
     react = pd.read_excel(book, sheet_name="Reactions")
     assert react["R max (kip)"].iloc[0] == pytest.approx(72 - 672 / length, rel=REL_TOL_EXACT)

@@ -4,18 +4,22 @@ Sources (full references in docs/validation.md):
 
 * statics of a simply supported beam: common practice;
 * AISC Manual, "Beam Diagrams and Formulas", two equal spans, concentrated load
-  at any point (as reproduced by piping-designer.com, S14 in the project's
-  reference notes) and two equal spans with a load at the centre of each span
-  (S14, S15 from Lindeburg, CERM 15th ed.);
+  at any point (as reproduced at piping-designer.com) and two equal spans with a
+  load at the centre of each span (the same pages, and Lindeburg, *Civil
+  Engineering Reference Manual* 15th ed., as reproduced at engineersedge.com);
 * Karnovsky & Lebed, *Advanced Methods of Structural Analysis* (Springer 2010),
   Table A.13, two equal spans, ordinates to four decimals, and its worked example;
-* Hicks, *Civil Engineering Formulas*, Table 2.1 and the AISC/piping-designer
-  pages (S14, S16): continuous beams of equal spans under uniform load;
+* Hicks, *Civil Engineering Formulas* (McGraw-Hill), Table 2.1, and the AISC
+  beam diagrams as reproduced at piping-designer.com: continuous beams of equal
+  spans under uniform load;
 * the classical absolute-maximum-moment rule for a series of concentrated loads
-  on a simple span (Hicks, S16b; Kassimali, *Structural Analysis* 6th ed., S19):
+  on a simple span (Hicks, *Civil Engineering Formulas*, moving concentrated
+  loads; Kassimali, *Structural Analysis* 6th ed., solution to Problem 9.22):
   the span centreline lies midway between the resultant and the nearest heavy load;
 * Khan, *Bridge and Highway Structure Rehabilitation and Repair* (McGraw-Hill
-  2010), Table 6.7: H20 truck maximum moments on simple spans (S13).
+  2010), Table 6.7, p. 276: H20 truck maximum moments on simple spans;
+* values computed by hand from first principles (statics, the three-moment
+  equation), each with its formula beside the check.
 """
 
 from __future__ import annotations
@@ -124,7 +128,7 @@ def test_simple_span_lines_are_piecewise_linear() -> None:
 @pytest.mark.parametrize("k", range(1, 8))
 def test_two_equal_spans_point_load_matches_aisc_formulas(k: int) -> None:
     # AISC Manual, Beam Diagrams and Formulas, "Continuous beam - two equal spans -
-    # concentrated load at any point" (S14): with b = L - a,
+    # concentrated load at any point" (as reproduced at piping-designer.com): with b = L - a,
     # R_A = P b [4L^2 - a(L + a)] / (4L^3), R_B = P a [2L^2 + b(L + a)] / (2L^3),
     # R_C = -P a b (L + a) / (4L^3), M_B = -P a b (L + a) / (4L^2), M under load = R_A a.
     length, n = 30.0, 8
@@ -148,7 +152,7 @@ def test_two_equal_spans_point_load_matches_aisc_formulas(k: int) -> None:
 
 
 def test_two_equal_spans_load_at_midspan() -> None:
-    # S14 (checked by the reference notes' own computation): a = L/2 gives
+    # AISC beam diagrams (piping-designer.com), checked by hand: a = L/2 gives
     # R_A = 13P/32, R_B = 11P/16, R_C = -3P/32, M_B = -3PL/32, M under the load 13PL/64.
     length = 40.0
     il = influence_lines([length, length], stations_per_span=2)
@@ -162,7 +166,8 @@ def test_two_equal_spans_load_at_midspan() -> None:
 
 
 def test_two_equal_spans_loads_at_both_midspans() -> None:
-    # S14, S15 (Lindeburg, CERM): P at the centre of both spans gives
+    # AISC beam diagrams (piping-designer.com); Lindeburg, CERM 15th ed. (as reproduced
+    # at engineersedge.com): P at the centre of both spans gives
     # R_A = R_C = 5P/16, R_B = 11P/8, M_B = -3PL/16, M under each load 5PL/32.
     length = 25.0
     il = influence_lines([length, length], stations_per_span=2)
@@ -178,8 +183,8 @@ def test_two_equal_spans_loads_at_both_midspans() -> None:
 
 
 def test_two_equal_spans_center_moment_minimum() -> None:
-    # Two-span influence line (reference notes 3.3, derived from the three-moment
-    # equation): M_B(x) = -x (L^2 - x^2) / (4 L^2) in span 1, least -L / (6 sqrt 3) at L/sqrt 3.
+    # Two-span influence line, computed by hand from the three-moment equation:
+    # M_B(x) = -x (L^2 - x^2) / (4 L^2) in span 1, least -L / (6 sqrt 3) at L/sqrt 3.
     length = 60.0
     il = influence_lines([length, length], stations_per_span=4)
     x = np.linspace(0.0, length, 61) + 0.37
@@ -209,7 +214,7 @@ KARNOVSKY_RA = (0.7928, 0.5927, 0.4062, 0.2407, 0.1031)
 def test_two_span_ordinates_match_karnovsky_lebed_table_a13(
     xi: float, m_b: float, r_a: float
 ) -> None:
-    # Karnovsky & Lebed, Advanced Methods of Structural Analysis, Table A.13 (S17).
+    # Karnovsky & Lebed, Advanced Methods of Structural Analysis (Springer 2010), Table A.13.
     length = 18.0
     il = influence_lines([length, length], stations_per_span=6)
     x = np.array([xi * length])
@@ -218,7 +223,7 @@ def test_two_span_ordinates_match_karnovsky_lebed_table_a13(
 
 
 def test_karnovsky_lebed_worked_example_load_in_second_span() -> None:
-    # Karnovsky & Lebed, worked example with Table A.13 (S17): P at L/3 into span 2 gives
+    # Karnovsky & Lebed (2010), worked example with Table A.13: P at L/3 into span 2 gives
     # R_A = -0.0926P, R_B = 0.8519P, R_C = 0.2407P, M_B = -0.0926PL.
     length = 12.0
     il = influence_lines([length, length], stations_per_span=3)
@@ -233,9 +238,9 @@ def test_karnovsky_lebed_worked_example_load_in_second_span() -> None:
 
 
 def test_two_spans_uniform_load() -> None:
-    # Both spans loaded (Hicks Table 2.1, S16): R_A = 3wL/8, R_B = 5wL/4, M_B = -wL^2/8,
-    # +M max = 9wL^2/128 at 3L/8.
-    # One span loaded (reference notes 3.3 [C], three-moment equation):
+    # Both spans loaded (Hicks, Civil Engineering Formulas, Table 2.1): R_A = 3wL/8,
+    # R_B = 5wL/4, M_B = -wL^2/8, +M max = 9wL^2/128 at 3L/8.
+    # One span loaded (computed by hand: three-moment equation):
     # R_A = 7wL/16, R_B = 5wL/8, R_C = -wL/16, M_B = -wL^2/16.
     length = 32.0
     il = influence_lines([length, length], stations_per_span=8)
@@ -259,10 +264,11 @@ def test_two_spans_uniform_load() -> None:
 
 
 def test_three_equal_spans_uniform_load() -> None:
-    # All spans loaded (AISC/piping-designer S14; Hicks Table 2.1, S16): end reaction
+    # All spans loaded (AISC beam diagrams, piping-designer.com; Hicks Table 2.1): end reaction
     # 0.400wL, interior 1.100wL, M_B = -0.100wL^2, end-span +0.080wL^2 at 0.4L,
     # centre +0.025wL^2.
-    # Adverse parts only (reference notes 3.3 [C]; R_B for spans 1+2 also S14):
+    # Adverse parts only (computed by hand: three-moment equation; R_B for spans 1+2
+    # also in the AISC beam diagrams, piping-designer.com):
     # centre moment: spans 1+3 loaded -0.050wL^2, span 2 only +0.075wL^2;
     # M_B: spans 1+2 loaded -7/60 wL^2, R_B: spans 1+2 loaded 1.200wL.
     length = 45.0
@@ -293,10 +299,11 @@ HS20_RULE_STATIONS = [(42.0, 9, 5), (56.0, 24, 13), (70.0, 15, 8), (98.0, 21, 11
 
 @pytest.mark.parametrize(("length", "n", "k"), HS20_RULE_STATIONS)
 def test_hs20_absolute_maximum_moment_rule(length: float, n: int, k: int) -> None:
-    # Absolute maximum moment under a series of loads on a simple span (Hicks S16b,
-    # Kassimali S19): the centreline bisects the distance between the resultant and the
-    # nearest heavy load. HS20 (8, 32, 32 kip at 14 ft): M = 72 (L/2 - 7/3)^2 / L - 112
-    # kip-ft under the middle axle at L/2 + 7/3 (reference notes 3.1, L >= 34 ft).
+    # Absolute maximum moment under a series of loads on a simple span (Hicks, Civil
+    # Engineering Formulas; Kassimali, Structural Analysis 6th ed., Problem 9.22): the
+    # centreline bisects the distance between the resultant and the nearest heavy load.
+    # HS20 (8, 32, 32 kip at 14 ft): M = 72 (L/2 - 7/3)^2 / L - 112 kip-ft under the
+    # middle axle at L/2 + 7/3 (closed form derived here by statics, L >= 34 ft).
     expected = 72 * (length / 2 - 7 / 3) ** 2 / length - 112
     il = influence_lines([length], stations_per_span=n)
     assert il.station_x[k] == pytest.approx(length / 2 + 7 / 3, abs=1e-12)
@@ -317,8 +324,8 @@ def test_hs20_absolute_maximum_moment_rule(length: float, n: int, k: int) -> Non
 
 
 def test_hs20_at_100_ft_matches_the_published_table_value() -> None:
-    # Reference notes 3.1: HS20 M_abs at 100 ft = 1523.9 kip-ft ([C]); AASHTO Standard
-    # Specifications Appendix A lists 1,524.0 (from memory). The rule's station at
+    # HS20 M_abs at 100 ft = 1523.9 kip-ft (computed by hand: the closed form above);
+    # AASHTO Standard Specifications Appendix A lists 1,524.0 (from memory). The rule's station at
     # L/2 + 7/3 = 52.333 ft is station 157 of 300.
     il = influence_lines([100.0], stations_per_span=300)
     m_max = axle_extremes(il, AxleTrain.of(HS20_LOADS, HS20_SPACING)).max_value[il.moment_rows]
@@ -328,7 +335,8 @@ def test_hs20_at_100_ft_matches_the_published_table_value() -> None:
 
 def test_hs20_variable_rear_spacing_governs_at_14_ft_on_simple_spans() -> None:
     # HS20 rear spacing V = 14-30 ft, "the V that gives the maximum" (AASHTO Std Spec
-    # 3.7.6, S5); on simple spans it is 14 ft for moments and shears (S5b).
+    # 3.7.6, seen in a structural engineers' mailing-list post, SEAINT archive 2000); on
+    # simple spans it is 14 ft for moments and shears (SEAINT archive, 1999).
     length = 70.0
     il = influence_lines([length], stations_per_span=15)
     fixed = axle_extremes(il, AxleTrain.of(HS20_LOADS, HS20_SPACING))
@@ -343,8 +351,10 @@ def test_hs20_variable_rear_spacing_governs_at_14_ft_on_simple_spans() -> None:
     [(28.0, None), (40.0, 55.20), (60.0, 60.80), (100.0, 65.28), (150.0, 67.52)],
 )
 def test_hs20_end_shear(length: float, published: float | None) -> None:
-    # End shear of a simple span with the heavy end at the support (Kassimali S19b,
-    # Gere S20): HS20 V = R = 72 - 672/L for L >= 28 ft (reference notes 3.1, table values).
+    # End shear of a simple span with the heavy end at the support (Kassimali, Structural
+    # Analysis 6th ed., Problem 9.18; Gere, Problem 4.5-30): HS20 V = R = 72 - 672/L for
+    # L >= 28 ft (closed form derived here by statics). The two-decimal values listed
+    # above were computed by hand from it, as a printed table would give them.
     expected = 72 - 672 / length
     il = influence_lines([length], stations_per_span=4)
     ax = axle_extremes(il, AxleTrain.of(HS20_LOADS, HS20_SPACING))
@@ -362,7 +372,7 @@ def test_hs20_end_shear(length: float, published: float | None) -> None:
 def test_h20_absolute_maximum_matches_khan_table(
     length: float, n: int, k: int, published: float
 ) -> None:
-    # Khan (2010) Table 6.7 (S13): H20 truck maximum moment, one lane, no impact.
+    # Khan (2010), Table 6.7, p. 276: H20 truck maximum moment, one lane, no impact.
     # The absolute-maximum rule puts the 32 kip axle at L/2 + 1.4 ft (resultant 2.8 ft
     # ahead of it): M = 40 (L/2 - 1.4)^2 / L, which is station k of n.
     il = influence_lines([length], stations_per_span=n)
@@ -374,9 +384,9 @@ def test_h20_absolute_maximum_matches_khan_table(
 
 @pytest.mark.parametrize("length", [20.0, 22.0, 24.0, 26.0])
 def test_h20_short_spans_drop_the_axle_that_left_the_span(length: float) -> None:
-    # Reference notes 3.1: below 28 ft the H20 maximum is one 32 kip axle at midspan,
+    # Computed by hand (statics): below 28 ft the H20 maximum is one 32 kip axle at midspan,
     # 8L kip-ft (160, 176, 192, 208); a table that keeps the 8 kip axle after it has
-    # left the span lists 147.92, 167.56, 187.27, 207.02 (Khan 2010, S13).
+    # left the span lists 147.92, 167.56, 187.27, 207.02 (Khan 2010, Table 6.7).
     il = influence_lines([length], stations_per_span=40)
     m_max = axle_extremes(il, AxleTrain.of(H20_LOADS, H20_SPACING)).max_value[il.moment_rows]
     assert m_max[20] == pytest.approx(8 * length, rel=REL_TOL_EXACT)
@@ -384,7 +394,7 @@ def test_h20_short_spans_drop_the_axle_that_left_the_span(length: float) -> None
 
 
 def test_hs20_on_30_ft_span_drops_the_front_axle() -> None:
-    # Reference notes 3.1 [C]: at 30 ft the 8 kip axle is off the span; the two 32 kip
+    # Computed by hand (statics): at 30 ft the 8 kip axle is off the span; the two 32 kip
     # axles give 64 (15 - 3.5)^2 / 30 = 282.13 kip-ft, under an axle at L/2 + 3.5 ft
     # (station 37 of 60).
     il = influence_lines([30.0], stations_per_span=60)

@@ -9,11 +9,12 @@ Sources:
   r < 3 + e_c, i.e. when it has more than n - 1 hinges; with fewer it can still
   be a mechanism when the hinges crowd into one place (geometric instability:
   three hinges or pins in a row on one straight line).
-* Input domains: the workbook contract (/work/shared/contract/workbook.md:
-  Settings "Stations per span" a whole number >= 1, "Directions" both,
-  left-to-right or right-to-left; Vehicles "Axle spacings" entries that may be
-  ranges low-high) and the engine's own docstrings (hinges strictly inside the
-  member, one relative EI per span, at most ``MAX_RANGES`` ranged spacings).
+* Input domains: docs/workbook.md, this repository's specification of the
+  workbook (Settings "Stations per span" a whole number >= 1, "Directions" both,
+  left-to-right or right-to-left; Vehicles "Axle spacings" one per pair of
+  consecutive axles, entries that may be ranges low-high; at least one vehicle)
+  and the engine's own docstrings (hinges strictly inside the member, one relative
+  EI per span, at most ``MAX_RANGES`` ranged spacings).
   That a length, a stiffness or a load must be a finite number, and a length or
   stiffness greater than zero, is common practice.
 
@@ -195,7 +196,7 @@ def test_bad_spans_are_refused(spans: list) -> None:
     ids=["too few", "too many", "zero", "negative", "NaN", "infinite"],
 )
 def test_bad_span_ei_is_refused(span_ei: list[float]) -> None:
-    # One relative EI per span (engine docstring; contract: Members "Span EI"), each
+    # One relative EI per span (engine docstring; docs/workbook.md: Members "Span EI"), each
     # finite and greater than zero (common practice: a beam with EI <= 0 has no stiffness).
     with pytest.raises(ValueError, match=_exactly(EI_MESSAGE)):
         influence_lines([30.0, 40.0], span_ei)
@@ -203,21 +204,21 @@ def test_bad_span_ei_is_refused(span_ei: list[float]) -> None:
 
 @pytest.mark.parametrize("n", [0, -2, 2.5, 0.5], ids=["zero", "negative", "2.5", "0.5"])
 def test_bad_stations_per_span_are_refused(n: float) -> None:
-    # Contract, Settings: "Stations per span: whole number >= 1".
+    # docs/workbook.md, Settings: Stations per span is a whole number n >= 1.
     with pytest.raises(ValueError, match=_exactly(STATIONS_MESSAGE)):
         influence_lines([30.0], stations_per_span=n)  # type: ignore[arg-type]
 
 
 @pytest.mark.parametrize("n", [2.0, np.int64(3)], ids=["float 2.0", "numpy int 3"])
 def test_whole_stations_per_span_of_any_number_type_are_accepted(n: float) -> None:
-    # Contract, Settings: stations at 0, 1/n, ..., 1 of every span: n + 1 per span.
+    # docs/workbook.md, Settings: stations at 0, 1/n, ..., 1 of every span: n + 1 per span.
     il = influence_lines([30.0, 40.0], stations_per_span=n)  # type: ignore[arg-type]
     assert il.n_stations == 2 * (int(n) + 1)
 
 
 @pytest.mark.parametrize("n", [NAN, INF], ids=["NaN", "infinite"])
 def test_non_finite_stations_per_span_are_refused_clearly(n: float) -> None:
-    # Contract, Settings: "Stations per span: whole number >= 1".
+    # docs/workbook.md, Settings: Stations per span is a whole number n >= 1.
     with pytest.raises(ValueError, match=_exactly(STATIONS_MESSAGE)):
         influence_lines([30.0], stations_per_span=n)  # type: ignore[arg-type]
 
@@ -324,7 +325,7 @@ def test_non_finite_axle_loads_are_refused(lines, loads: list[float]) -> None:
     ids=["no axles", "a gap without a spacing", "a spacing too many"],
 )
 def test_axle_and_spacing_counts_must_agree(lines, loads, low, high) -> None:
-    # Contract, Vehicles: one spacing per pair of consecutive axles.
+    # docs/workbook.md, Vehicles: one spacing per pair of consecutive axles.
     with pytest.raises(ValueError, match=_exactly(COUNT_MESSAGE)):
         axle_extremes(lines, AxleTrain.of(loads, low, high))
 
@@ -347,7 +348,8 @@ def test_bad_spacings_are_refused(lines, low: list[float], high: list[float] | N
 
 
 def test_inverted_spacing_ranges_are_refused_on_every_path(lines) -> None:
-    # Contract, Vehicles: a range 14-30 runs from low to high; 30-14 is upside down.
+    # docs/workbook.md, Reading rules: a range 14-30 runs from low to high; 30-14 is
+    # upside down.
     with pytest.raises(ValueError, match=_exactly(RANGE_MESSAGE)):
         axle_extremes(lines, AxleTrain.of([8.0, 32.0, 32.0], [14.0, 30.0], [14.0, 14.0]))
     train = LoadCase(label="", train=AxleTrain.of((8.0, 32.0, 32.0), (14.0, 30.0), (14.0, 14.0)))
@@ -375,7 +377,7 @@ def test_unknown_or_empty_directions_are_refused(lines, directions: tuple) -> No
 
 @pytest.mark.parametrize("word", ["up", ""], ids=["unknown", "empty"])
 def test_unknown_direction_words_are_refused_clearly(word: str) -> None:
-    # Contract, Settings: Directions is both, left-to-right or right-to-left.
+    # docs/workbook.md, Settings: Directions is both, left-to-right or right-to-left.
     case = LoadCase(label="KV-T3", train=AxleTrain.of((10.0, 30.0), (14.0,)))
     with pytest.raises(ValueError, match="directions"):
         member_envelope(Member(id="KV-12 G1", spans=(30.0, 40.0)), [case], directions=word)
@@ -417,7 +419,7 @@ def test_non_finite_lane_load_impact_or_factor_is_refused(field: str, value: flo
 
 @pytest.mark.parametrize("field", ["df_moment", "df_shear"])
 def test_non_finite_distribution_factor_is_refused(field: str) -> None:
-    # case_effects docstring: "Raises ValueError for a malformed member"; contract,
+    # case_effects docstring: "Raises ValueError for a malformed member"; docs/workbook.md,
     # Members: DF moment and DF shear multiply the effects (finite; common practice).
     member = Member(id="KV-12 G1", spans=(30.0, 40.0), **{field: NAN})
     case = LoadCase(label="KV-T3", train=AxleTrain.of((10.0, 30.0), (14.0,)))
@@ -426,6 +428,7 @@ def test_non_finite_distribution_factor_is_refused(field: str) -> None:
 
 
 def test_an_empty_list_of_load_cases_is_refused_clearly() -> None:
-    # Contract, Vehicles: a run needs at least one vehicle (schema: minItems 1).
+    # docs/workbook.md, Input sheets: a run needs at least one vehicle (the JSON Schema in
+    # schemas/: minItems 1).
     with pytest.raises(ValueError, match="load case"):
         member_envelope(Member(id="KV-12 G1", spans=(30.0, 40.0)), [])

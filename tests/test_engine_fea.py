@@ -55,7 +55,7 @@ class FeResults:
     """Effects at every station and support for one unit load (or imposed displacement)."""
 
     moment: NDArray[np.float64]  # per station, sagging positive
-    shear: NDArray[np.float64]  # per station, section as in the contract
+    shear: NDArray[np.float64]  # per station, section as in docs/workbook.md
     reaction: NDArray[np.float64]  # per support, upward positive
     deflection: NDArray[np.float64]  # per model node, upward positive
     node_x: NDArray[np.float64]
@@ -139,7 +139,8 @@ def _fe_solve(
 
 
 def test_library_two_equal_spans_matches_aisc_formulas() -> None:
-    # AISC Beam Diagrams and Formulas (S14): P at L/2 of span 1 of two equal spans gives
+    # AISC Manual, Beam Diagrams and Formulas (two-span case), as reproduced at
+    # piping-designer.com: P at L/2 of span 1 of two equal spans gives
     # R = 13P/32, 11P/16, -3P/32 and M_B = -3PL/32; M under the load = 13PL/64.
     length = 20.0
     layout = Layout(spans=(length, length), span_ei=(1.0, 1.0), stations_per_span=2)

@@ -9,8 +9,8 @@ renamed, swapped, moved, hidden or deleted, and the file's bytes damaged
 removed, garbled or cut short, XML entity declarations added). Each mutated
 workbook goes through ``check``, an in-place ``run`` and ``run --out``.
 
-What must hold for every case, from the workbook contract
-(/work/shared/contract/workbook.md, "The command") and issue 7:
+What must hold for every case, from docs/workbook.md (this repository's
+specification of the workbook: "The command", "Problem messages") and issue 7:
 
 * the exit status is 0 or 1: never 3 (internal error), never a traceback;
 * every printed problem names where it is: ``Sheet!A1: ...``, ``Sheet: ...``

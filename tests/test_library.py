@@ -1,9 +1,9 @@
 """The built-in load models: definitions, name lookup, listing and unit conversion.
 
-Every definition below is checked against its published description; the tag
-beside each says where the value comes from ([F Sx] seen in source Sx of
-shared/references/published-facts.md, [M] from memory, not checked against the
-standard's text). Tolerances are named.
+Every definition below is checked against its published description; the note
+beside each says where the value comes from: "seen in" a named published text
+(docs/validation.md lists them with their addresses), or "from memory", not
+checked against the standard's text. Tolerances are named.
 """
 
 from __future__ import annotations
@@ -24,36 +24,43 @@ from batch.model.units import KN_PER_KIP, M_PER_FT, conversion
 
 # name: (axle loads front first, spacings as (low, high), total weight, where from)
 US_DEFINITIONS = {
-    # AASHTO Standard Specifications 17th ed., Art. 3.7. [F S5]
+    # AASHTO Standard Specifications 17th ed., Art. 3.7; seen in a structural engineers'
+    # mailing-list post (SEAINT archive, 2000) and an HS20-44 explainer (knowledgewow.com).
     "HS20": ((8, 32, 32), ((14, 14), (14, 30)), 72.0),
-    "H20": ((8, 32), ((14, 14),), 40.0),  # [F S5, S6]
-    "HS15": ((6, 24, 24), ((14, 14), (14, 30)), 54.0),  # 75 % of HS20 [F S6]
-    "H15": ((6, 24), ((14, 14),), 30.0),  # 75 % of H20 [F S6]
-    "Alternate military": ((24, 24), ((4, 4),), 48.0),  # [F S5]
-    # AASHTO LRFD 3.6.1.4.1: design truck, fixed 30 ft rear spacing. [F S4]
+    "H20": ((8, 32), ((14, 14),), 40.0),  # seen: SEAINT post; AASHO 1941 loadings
+    "HS15": ((6, 24, 24), ((14, 14), (14, 30)), 54.0),  # 75 % of HS20, seen: AASHO 1941 loadings
+    "H15": ((6, 24), ((14, 14),), 30.0),  # 75 % of H20, seen: AASHO 1941 loadings
+    "Alternate military": ((24, 24), ((4, 4),), 48.0),  # seen: SEAINT post (2000)
+    # AASHTO LRFD 3.6.1.4.1: design truck, fixed 30 ft rear spacing (seen in an excerpt
+    # of LRFD 2014 Art. 3.6.1.4.1).
     "Fatigue truck": ((8, 32, 32), ((14, 14), (30, 30)), 72.0),
-    # MBE 6A.4.4.2.1, Appendix D6A, AASHTO legal loads: 25 t, 36 t, 40 t. [M]
+    # MBE 6A.4.4.2.1, Appendix D6A, AASHTO legal loads: 25 t, 36 t, 40 t (from memory).
     "Type 3": ((16, 17, 17), ((15, 15), (4, 4)), 50.0),
     "Type 3S2": ((10, 15.5, 15.5, 15.5, 15.5), ((11, 11), (4, 4), (22, 22), (4, 4)), 72.0),
     "Type 3-3": ((12, 12, 12, 16, 14, 14), ((15, 15), (4, 4), (15, 15), (16, 16), (4, 4)), 80.0),
-    # Specialized hauling vehicles, NCHRP Report 575 (names [F S9]); loads and spacings [M].
+    # Specialized hauling vehicles, NCHRP Report 575 (names seen in the FHWA memorandum on
+    # specialized hauling vehicles); loads and spacings from memory (MBE Appendix D6A).
     "SU4": ((12, 8, 17, 17), ((10, 10), (4, 4), (4, 4)), 54.0),
     "SU5": ((12, 8, 8, 17, 17), ((10, 10), (4, 4), (4, 4), (4, 4)), 62.0),
     "SU6": ((11.5, 8, 8, 17, 17, 8), ((10, 10), *[(4, 4)] * 4), 69.5),
     "SU7": ((11.5, 8, 8, 17, 17, 8, 8), ((10, 10), *[(4, 4)] * 5), 77.5),
-    # Notional rating load, 80 kip; first spacing taken as a fixed 6 ft. [M]
+    # Notional rating load, 80 kip; first spacing taken as a fixed 6 ft (from memory,
+    # MBE Appendix D6A).
     "NRL": ((6, 8, 8, 17, 17, 8, 8, 8), ((6, 6), *[(4, 4)] * 6), 80.0),
     # FAST Act emergency vehicles: 24 kip steer, 33.5 kip single drive axle, 62 kip
-    # tandem, 86 kip gross [F S10, S28]; spacings [M].
+    # tandem, 86 kip gross (seen in FHWA's FAST Act emergency-vehicle Q&A and its truck
+    # size and weight fact sheet); spacings from memory (MBE 6A.4.4.2.1, 2019 interim).
     "EV2": ((24, 33.5), ((15, 15),), 57.5),
     "EV3": ((24, 31, 31), ((15, 15), (4, 4)), 86.0),
 }
 
 SI_DEFINITIONS = {
     # CSA S6 CL-W truck, W = 625 kN: 0.08W, 0.2W, 0.2W, 0.28W, 0.24W at 3.6, 1.2, 6.6,
-    # 6.6 m [M]; the 0.2W and 0.28W axles match the CL-800 axles of 160 and 224 kN [F S24].
+    # 6.6 m (from memory, CSA S6 Cl. 3.8.3.2); the 0.2W and 0.28W axles match the CL-800
+    # axles of 160 and 224 kN (seen in a Lafarge precast-pipe publication quoting the code).
     "CL-625": ((50, 125, 125, 175, 150), ((3.6, 3.6), (1.2, 1.2), (6.6, 6.6), (6.6, 6.6)), 625.0),
-    # EN 1991-2 LM1, lane 1: tandem 2 x 300 kN [F S23] at 1.2 m [M].
+    # EN 1991-2 LM1, lane 1: tandem 2 x 300 kN (seen in a summary of EN 1991-2 at
+    # eurocode.us) at 1.2 m (from memory, EN 1991-2 Table 4.2).
     "LM1": ((300, 300), ((1.2, 1.2),), 600.0),
 }
 
@@ -83,14 +90,17 @@ def test_si_model_axles_spacings_and_weight(name):
 
 
 def test_cl625_axles_are_the_published_fractions_of_w():
-    # CSA S6 CL-W truck: axle loads 0.08W, 0.2W, 0.2W, 0.28W, 0.24W. [M]
+    # CSA S6 CL-W truck: axle loads 0.08W, 0.2W, 0.2W, 0.28W, 0.24W (from memory,
+    # Cl. 3.8.3.2).
     fractions = (0.08, 0.20, 0.20, 0.28, 0.24)
     for load, f in zip(_principal("CL-625").train.loads, fractions, strict=True):
         assert math.isclose(load, f * 625.0, rel_tol=REL_TOL_FLOAT)
 
 
 def test_hl93_parts_follow_lrfd_3_6_1():
-    # AASHTO LRFD 3.6.1.2.2-3.6.1.2.4 and 3.6.1.3.1 [F S1, S2, S3]: truck 8, 32, 32 kip at
+    # AASHTO LRFD 3.6.1.2.2-3.6.1.2.4 and 3.6.1.3.1 (seen in an HL-93 article from
+    # engineeringcivil.org, an HL-93 page at aboutcivil.org and an engineers' forum thread
+    # at engineerboards.com; the 90 % two-truck rule from memory): truck 8, 32, 32 kip at
     # 14 ft and 14-30 ft; tandem 2 x 25 kip at 4 ft; lane 0.64 klf with no IM; 90 % of two
     # trucks with 14 ft rear spacings and >= 50 ft lead-to-rear axle, with 90 % of the lane,
     # for hogging between points of contraflexure and interior reactions only.
@@ -109,12 +119,12 @@ def test_hl93_parts_follow_lrfd_3_6_1():
     for p in (truck, tandem, two):
         assert p.lane_load == 0.64
         assert p.impact is None  # the run's IM, on the axles only (engine)
-        assert p.drop_adverse_axles  # LRFD 3.6.1.3.1 [M]
+        assert p.drop_adverse_axles  # LRFD 3.6.1.3.1 (from memory)
     assert (truck.scope, tandem.scope) == ("all", "all")
 
 
 def test_legal_lane_model_is_75_percent_type_3_3_with_0_2_klf():
-    # MBE 6A.4.4.2.1 lane-type legal load [M]: 0.75 x Type 3-3 + 0.2 klf; two of them,
+    # MBE 6A.4.4.2.1 lane-type legal load (from memory): 0.75 x Type 3-3 + 0.2 klf; two of them,
     # 30 ft clear, for negative moment and interior reactions.
     single, double = library.model("Legal lane").parts
     type_33 = _principal("Type 3-3")
@@ -128,8 +138,9 @@ def test_legal_lane_model_is_75_percent_type_3_3_with_0_2_klf():
 
 
 def test_cl625_parts_and_dynamic_load_allowance():
-    # CSA S6 DLA [M]: one axle 0.50; two axles or axles 1-3 0.40; more than three 0.25.
-    # Lane load: 80 % of each axle with 9 kN/m, no DLA. [M]
+    # CSA S6 DLA (from memory, Cl. 3.8.4.5.3): one axle 0.50; two axles or axles 1-3 0.40;
+    # more than three 0.25. Lane load: 80 % of each axle with 9 kN/m, no DLA (from memory,
+    # Cl. 3.8.3.3).
     parts = {p.label: p for p in library.model("CL-625").parts}
     truck = parts["truck"]
     assert truck.impact == 0.25
@@ -149,14 +160,16 @@ def test_cl625_parts_and_dynamic_load_allowance():
 
 def test_lm1_lane_load_is_9_kn_per_m2_over_a_3_m_lane_with_no_added_dynamic_allowance():
     # EN 1991-2 Table 4.2: q1k = 9 kN/m2, notional lane 3 m; dynamic amplification
-    # included in the characteristic values. [F S23 for LM1/LM2 wording; 9 kN/m2 seen]
+    # included in the characteristic values (LM1/LM2 wording and 9 kN/m2 seen in a summary
+    # of EN 1991-2 at eurocode.us).
     lm1 = _principal("LM1")
     assert math.isclose(lm1.lane_load, 9.0 * 3.0, rel_tol=REL_TOL_FLOAT)
     assert lm1.impact == 0.0
 
 
 def test_fixed_and_run_dynamic_load_allowance():
-    # LRFD Table 3.6.2.1-1: fatigue IM 15 % [F S3]; other US models take the run's value.
+    # LRFD Table 3.6.2.1-1: fatigue IM 15 % (seen quoted in an engineers' forum thread at
+    # engineerboards.com); other US models take the run's value.
     assert {c.impact for c in library.model_cases("Fatigue truck", "US", 0.33)} == {0.15}
     assert {c.impact for c in library.model_cases("HL-93", "US", 0.2)} == {0.2}
     assert {c.impact for c in library.model_cases("Type 3S2", "US", 0.1)} == {0.1}
@@ -232,7 +245,8 @@ def test_describe_lists_every_model_with_weight_in_the_asked_units():
 
 
 def test_conversion_factors_are_the_exact_definitions():
-    # 1 ft = 0.3048 m and 1 lbf = 4.4482216152605 N exactly (NIST SP 811, App. B). [M]
+    # 1 ft = 0.3048 m and 1 lbf = 4.4482216152605 N exactly (NIST SP 811, App. B; from
+    # memory).
     assert (KN_PER_KIP, M_PER_FT) == (4.4482216152605, 0.3048)
     there = conversion("US", "SI")
     back = conversion("SI", "US")
@@ -316,8 +330,10 @@ def nrl_and_shvs_on_simple_spans():
 
 
 def test_nrl_envelopes_su4_to_su7_on_simple_spans(nrl_and_shvs_on_simple_spans):
-    # MBE / FHWA [F S9]: RF >= 1 for the NRL means SU4-SU7 need not be rated, so on a
-    # simple span the NRL (axles that lessen an effect left out) is never below them.
+    # MBE / FHWA (seen in the FHWA memorandum on specialized hauling vehicles,
+    # fhwa.dot.gov/bridge/loadrating/131115.cfm): RF >= 1 for the NRL means SU4-SU7 need
+    # not be rated, so on a simple span the NRL (axles that lessen an effect left out) is
+    # never below them.
     # (On some short continuous spans the SU7 exceeds it slightly in hogging.)
     for envs in nrl_and_shvs_on_simple_spans.values():
         nrl = envs["NRL"]
@@ -332,7 +348,9 @@ def test_nrl_envelopes_su4_to_su7_on_simple_spans(nrl_and_shvs_on_simple_spans):
     ("name", "x", "moment"),
     [
         # Resultant 1296/80 = 16.2 ft behind the front axle; the 17 kip axle at 18 ft and
-        # the resultant straddle midspan [F S16b, S18]: x = 20 - (18 - 16.2) / 2.
+        # the resultant straddle midspan (absolute-maximum rule: Hicks, Civil Engineering
+        # Formulas, moving loads; the worked note "Max M in simple span due to moving
+        # loads" on Scribd): x = 20 - (18 - 16.2) / 2.
         ("NRL", Fraction(20) - (18 - Fraction(1296, 80)) / 2, 537.6),
         # Resultant 1320/77.5 = 528/31 ft behind the front axle; same rule at the 17 kip
         # axle 18 ft back.
@@ -340,7 +358,7 @@ def test_nrl_envelopes_su4_to_su7_on_simple_spans(nrl_and_shvs_on_simple_spans):
     ],
 )
 def test_nrl_and_su7_absolute_maximum_moment_at_40_ft(name, x, moment):
-    # shared/references/published-facts.md 1.3 [C]: on a 40 ft span the NRL (6 ft first
+    # Computed by hand (statics, the rule above): on a 40 ft span the NRL (6 ft first
     # spacing) gives 537.6 kip-ft against 510.0 for the SU7 (absolute maxima, no impact).
     where = x / 40
     env = member_envelope(

@@ -1,20 +1,25 @@
 """HL-93 by hand: which part governs, and why, on a simple span and two-span members.
 
-The rules are AASHTO LRFD 3.6.1.3.1 [F S1, S2; the two-truck rule M]: per lane, the
+The rules are AASHTO LRFD 3.6.1.3.1 (seen in an HL-93 article from
+engineeringcivil.org and an HL-93 loading page at aboutcivil.org; the two-truck rule
+from memory): per lane, the
 larger of design truck + lane and design tandem + lane; for hogging moment between
 the points of contraflexure under uniform load and for interior reactions, also
 90 % of two design trucks (14 ft rear spacings, at least 50 ft from the lead axle of
 one to the rear axle of the other) with 90 % of the lane. IM = 0.33 on the axles only
-(Table 3.6.2.1-1 [F S3]). Units kip, ft.
+(Table 3.6.2.1-1, seen quoted in an engineers' forum thread at engineerboards.com).
+Units kip, ft.
 
 Two-span influence lines are the closed forms for two equal spans L with a unit load
-at distance a from the end support of the span it is in (AISC beam diagrams [F S14];
-shared/references/published-facts.md 3.3):
+at distance a from the end support of the span it is in (AISC Manual, Beam Diagrams
+and Formulas, two-span case, as reproduced at piping-designer.com; checked by hand
+with the three-moment equation):
 
     M_B(a) = -a (L^2 - a^2) / (4 L^2)            moment over the interior support
     R_B(a) = a [2 L^2 + (L - a)(L + a)] / (2 L^3) interior reaction
 
-and the uniform-load results M_B = -wL^2/8, R_B = 5wL/4 with both spans loaded [F S16].
+and the uniform-load results M_B = -wL^2/8, R_B = 5wL/4 with both spans loaded (Hicks,
+*Civil Engineering Formulas*, Table 2.1).
 The axle parts are checked against an independent brute-force search over positions
 and spacings on those closed forms.
 """
@@ -163,7 +168,8 @@ def test_two_spans_60_ft_interior_reaction_is_governed_by_one_truck(two_spans_60
 
 def test_two_spans_60_ft_sagging_and_end_regions_never_use_two_trucks(two_spans_60):
     # The two-truck part is scoped to hogging between the points of contraflexure under
-    # uniform load (x from 3L/4 = 45 ft to 75 ft here, M = wx(3L/8 - x/2) [F S16]) and to
+    # uniform load (x from 3L/4 = 45 ft to 75 ft here, M = wx(3L/8 - x/2), Hicks Table
+    # 2.1) and to
     # interior reactions.
     env = two_spans_60
     two = env.labels.index("HL-93 (two trucks + lane, 90 %)")

@@ -1,12 +1,18 @@
-"""Library trucks on simple spans, against published tables of maximum moments and shears.
+"""Library trucks on simple spans, against tables of maximum moments and shears.
+
+The H20 table is published (Khan 2010, below); the HS20 and HL-93 tables were
+computed by hand from closed forms, which are checked as well.
 
 The absolute maximum moment of a train on a simple span occurs under an axle
 when the span's centre line bisects the distance between that axle and the
-resultant of the axles on the span [F S16b, S18, S19]; a station is placed
+resultant of the axles on the span (Hicks, *Civil Engineering Formulas*, moving
+concentrated loads; the worked note "Max M in simple span due to moving loads" on
+Scribd; Kassimali, *Structural Analysis* 6th ed., Problem 9.22); a station is placed
 exactly there (stations are at fractions k/n of the span, so n is the
 denominator of x/L). The maximum end shear is at a support with the heavy end
-of the train over it [F S19b, S20, S21]. Every value is the engine's exact
-extreme, compared to the table's printed precision.
+of the train over it (Kassimali, Problem 9.18; Gere, Problem 4.5-30; a
+civil-engineering board-exam review page on moving loads, ceboardexamgenerator.com).
+Every value is the engine's exact extreme, compared to the table's printed precision.
 """
 
 from __future__ import annotations
@@ -41,9 +47,10 @@ def _moment_at(name: str, span: int, x: Fraction) -> tuple[float, float]:
 
 
 # HS20-44 (library model, rear spacing 14-30 ft: the engine finds 14 ft governs on a
-# simple span), per lane, no impact. Values are shared/references/published-facts.md
-# Table 3.1 [C] (closed forms, one decimal for M and two for V); the closed forms are
-# checked as well.
+# simple span), per lane, no impact. Values computed by hand from first principles
+# (statics of a simple span, axles that leave the span dropped; the closed forms of
+# test_hs20_closed_forms where all three axles are on), one decimal for M and two for V;
+# the closed forms are checked as well.
 HS20_ROWS = [
     # L, M_abs, V_end, position of the governing axle
     (10, 80.0, 32.00, Fraction(5)),  # one 32 kip axle at midspan
@@ -73,7 +80,7 @@ def test_hs20_simple_span_maxima(span, moment, shear, x):
 @pytest.mark.parametrize("span", [40, 50, 100, 200])
 def test_hs20_closed_forms(span):
     # All three axles on the span (L >~ 33 ft): M_abs = 72 (L/2 - 7/3)^2 / L - 112 and
-    # V_end = 72 - 672 / L (L >= 28 ft). [C] from statics: resultant 4.667 ft behind the
+    # V_end = 72 - 672 / L (L >= 28 ft). Derived here by statics: resultant 4.667 ft behind the
     # middle axle; moments of the 8 kip axle about the middle one, 8 x 14 = 112.
     x = Fraction(span, 2) - Fraction(7, 3)
     at_x, _ = _moment_at("HS20", span, x)
@@ -83,7 +90,7 @@ def test_hs20_closed_forms(span):
 
 
 # H20-44, per lane, no impact: Khan, Bridge and Highway Structure Rehabilitation and
-# Repair (McGraw-Hill, 2010), Table 6.7, p. 276 [F S13], printed to two decimals. For
+# Repair (McGraw-Hill, 2010), Table 6.7, p. 276 (seen), printed to two decimals. For
 # 20-26 ft the table prints 147.92, 167.56, 187.27, 207.02: the two-axle formula
 # 40 (L/2 - 1.4)^2 / L, which for 20-24 ft counts the 8 kip axle after it has left the
 # span (it would stand at L/2 + 12.6), and at 26 ft is a real position but not the
@@ -108,9 +115,9 @@ def test_h20_simple_span_maxima(span, moment, misprint, x):
         assert at_x > misprint + HALF_UNIT_2DP  # the printed value is not the maximum
 
 
-# HL-93, per lane, IM = 0.33 on truck and tandem only: shared/references/
-# published-facts.md Table 3.2 [C] (closed forms: truck 18L - 280, tandem 12.5L - 50,
-# lane 0.08L^2 at midspan; truck 72 - 672/L, tandem 50 - 100/L, lane 0.32L end shear).
+# HL-93, per lane, IM = 0.33 on truck and tandem only: computed by hand from closed
+# forms derived here (truck 18L - 280 for L >= 28 ft, tandem 12.5L - 50, lane 0.08L^2
+# at midspan; truck 72 - 672/L, tandem 50 - 100/L, lane 0.32L end shear).
 # Columns: L, (LL+IM) M_mid, governing part, (LL+IM) V_end, governing part.
 HL93_ROWS = [
     (20, 298.0, "tandem", 66.25, "tandem"),

@@ -3,19 +3,21 @@
 Sources:
 * LRFR general equation RF = (C - gDC*DC - gDW*DW)/(gLL*(LL + IM)) with
   C = phi_c*phi_s*phi*Rn, phi_c*phi_s >= 0.85, phi_s = 1 for shear: AASHTO Manual
-  for Bridge Evaluation (MBE) 6A.4.2.1, from memory (published-facts 2.1, [M]);
+  for Bridge Evaluation (MBE) 6A.4.2.1, from memory;
 * load factors 1.25 (DC), 1.50 (DW), 1.75 / 1.35 (design inventory / operating):
   MBE Table 6A.4.2.2-1, from memory; relieving (minimum) factors 0.90 / 0.65:
   AASHTO LRFD Table 3.4.1-2, from memory;
-* the synthetic fixture of published-facts 2.1 ([C], the equation's wiring only):
-  C = 5000, DC = 1500, DW = 200, LL+IM = 1200 kip-ft gives RF_inv = 1.345 and
-  RF_op = 1.744;
+* a synthetic example that checks the equation's wiring only, computed by hand
+  with the MBE 6A.4.2.1 equation and factors (from memory): C = 5000, DC = 1500,
+  DW = 200, LL+IM = 1200 kip-ft gives RF_inv = 2825/2100 = 1.345 and
+  RF_op = 2825/1620 = 1.744;
 * posting load (W/0.7)(RF - 0.3) for legal loads, 0.3 <= RF < 1: MBE 6A.8.3, from
-  memory, with the worked value of published-facts 2.3 ([C]): Type 3 (25 t) at
-  RF 0.80 gives 17.86 t;
+  memory, with a value computed by hand from it: Type 3 (25 t) at RF 0.80 gives
+  25/0.7 x 0.5 = 17.86 t;
 * dead-load effects of a uniform load w: simple span M = wL^2/8 at midspan and
   end shear wL/2 (statics, common practice); two equal spans M_B = -wL^2/8 and
-  R_B = 5wL/4 (published-facts 3.3, [F S16, C]);
+  R_B = 5wL/4 (Hicks, *Civil Engineering Formulas*, Table 2.1; checked by hand
+  with the three-moment equation);
 * one moving axle P on a simple span: midspan moment PL/4 and shear P just right
   of the left support (statics, common practice).
 """
@@ -52,7 +54,8 @@ MBE = RatingFactors()  # the published defaults (see the module docstring)
 
 
 def test_published_fixture_by_the_general_equation():
-    # published-facts 2.1: C = 5000, DC = 1500, DW = 200, LL+IM = 1200 (kip-ft).
+    # Synthetic example, computed by hand (MBE 6A.4.2.1, from memory): C = 5000,
+    # DC = 1500, DW = 200, LL+IM = 1200 (kip-ft).
     # Inventory: (5000 - 1.25 x 1500 - 1.50 x 200) / (1.75 x 1200) = 2825 / 2100.
     # Operating: 2825 / (1.35 x 1200) = 2825 / 1620.
     inventory = rating_factor(5000.0, 1500.0, 200.0, 1200.0, MBE.design, MBE)
@@ -127,7 +130,7 @@ def test_dead_load_effects_simple_span():
 
 
 def test_dead_load_effects_two_equal_spans():
-    # published-facts 3.3: M_B = -wL^2/8, R_B = 5wL/4, R_A = 3wL/8.
+    # Hicks, Civil Engineering Formulas, Table 2.1: M_B = -wL^2/8, R_B = 5wL/4, R_A = 3wL/8.
     il = influence_lines((L, L), (1.0, 1.0), (), stations_per_span=4)
     dc = dead_load_effects(il, W_DC)
     support_b = station_row(1, 1.0, 2, 4)
@@ -258,7 +261,7 @@ def test_rf_scales_inversely_with_the_distribution_factor(df, k, station):
     [
         (0.3, 0.0),  # 25/0.7 x 0 — at the closing threshold
         (0.5, 25 / 0.7 * 0.2),
-        (0.8, 25 / 0.7 * 0.5),  # 17.86 t, published-facts 2.3
+        (0.8, 25 / 0.7 * 0.5),  # 17.86 t, computed by hand
         (0.99, 25 / 0.7 * 0.69),
     ],
 )
@@ -270,7 +273,8 @@ def test_posting_load_by_the_posting_equation(rf, expected):
 
 
 def test_posting_worked_value():
-    assert posting_load(0.8, 25.0) == pytest.approx(17.86, abs=0.005)  # published-facts 2.3
+    # (W/0.7)(RF - 0.3) computed by hand: 25/0.7 x 0.5 = 17.86 t (MBE 6A.8.3, from memory).
+    assert posting_load(0.8, 25.0) == pytest.approx(17.86, abs=0.005)
 
 
 @pytest.mark.parametrize("rf", [0.29, -0.4, 1.0, 1.3, np.inf])

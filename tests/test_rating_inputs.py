@@ -1,10 +1,10 @@
 """Rating inputs: the Capacities sheet, the rating settings and vehicle categories, read.
 
-Sources: the workbook contract (/work/shared/contract/workbook.md: "Capacities",
-"Settings" load factors, the Vehicles ``Category`` column); the published load
-factors of the MBE (Table 6A.4.2.2-1 and the legal and permit tables, from memory;
-published-facts 2.1) as the defaults; the library models' own categories
-(batch/library, "legal" for the AASHTO legal trucks, MBE 6A.4.4.2.1, from memory).
+Sources: docs/workbook.md, this repository's specification of the workbook
+("Capacities", the "Settings" load factors, the Vehicles ``Category`` column); the
+published load factors of the MBE (Table 6A.4.2.2-1 and the legal and permit
+tables, from memory) as the defaults; the library models' own categories
+(batch/loads/library, "legal" for the AASHTO legal trucks, MBE 6A.4.4.2.1, from memory).
 Every problem message is checked in tests/test_validation_messages.py.
 """
 
@@ -102,7 +102,7 @@ def test_rating_settings_are_read(make_workbook, tmp_path):
         ({"Library": "Type 3S2"}, "legal"),  # the library model's own category
         ({"Library": "HL-93"}, "design"),
         ({"Library": "Type 3S2", "Category": "permit"}, "permit"),  # typed wins
-        ({"Axle loads": "10, 30", "Axle spacings": 14}, "design"),  # the contract default
+        ({"Axle loads": "10, 30", "Axle spacings": 14}, "design"),  # the default (docs/workbook.md)
     ],
 )
 def test_blank_category_follows_the_library_model(make_workbook, tmp_path, row, category):

@@ -2,12 +2,12 @@
 
 Sources:
 * the LRFR general equation and load factors (MBE 6A.4.2.1 and Table 6A.4.2.2-1,
-  from memory; published-facts 2.1), worked by hand below for a simple span;
-* the posting load (W/0.7)(RF - 0.3) (MBE 6A.8.3, from memory; published-facts 2.3);
+  from memory), worked by hand below for a simple span;
+* the posting load (W/0.7)(RF - 0.3) (MBE 6A.8.3, from memory);
 * statics of a simple span (common practice): a single axle P gives PL/4 at
   midspan; a uniform load w gives wL^2/8 there;
-* the workbook contract (Ratings sheet columns; result sheets replaced on a
-  later run, every other sheet kept);
+* docs/workbook.md ("Result sheets": result sheets replaced on a later run, every
+  other sheet kept) and docs/rating.md ("The sheets": the Ratings columns);
 * a screening ratio of the reference against itself is 1 (the definition).
 Everything else on the sheets is compared with the run's own result (in
 process), which tests/test_rating.py and tests/test_rating_runs.py check.
@@ -139,7 +139,7 @@ def test_ratings_sheet_holds_the_runs_ratings(us_results: tuple[Path, Path]) -> 
     result = run_case(case)
     ratings = pd.read_excel(out, sheet_name="Ratings")
     rated = [m for m in case.members if any(c.member == m.id for c in case.capacities)]
-    # The workbook contract's Ratings columns, in order.
+    # The Ratings columns, in order (docs/rating.md, "The sheets").
     contract = ["Member", "Vehicle", "Category", "RF", "Effect", "Span", "Station", "x (ft)"]
     assert list(ratings.columns[:8]) == contract
     assert len(ratings) == len(rated) * len(case.vehicles)

@@ -1,8 +1,9 @@
-"""Reading a valid input workbook into the model, as the workbook contract describes it.
+"""Reading a valid input workbook into the model, as docs/workbook.md describes it.
 
-Source: the workbook contract (/work/shared/contract/workbook.md): sheet and
-header names, forgiving header matching ("Spans (ft)" matches "Spans"), blank
-rows skipped, list cells, settings and their defaults. How a formula's saved
+Source: docs/workbook.md, this repository's specification of the workbook
+("Reading rules", "Input sheets"): sheet and header names, forgiving header
+matching ("Spans (ft)" matches "Spans"), blank rows skipped, list cells, settings
+and their defaults. How a formula's saved
 result is stored (``<f>`` with a cached ``<v>``, ``t="str"`` for text) is
 ECMA-376 Part 1, §18.3.1.4 and §18.3.1.40 (from memory). The digest is checked
 with Python's hashlib, independently of the reader.

@@ -8,9 +8,10 @@ closed-form handbook results for a single axle:
   (AISC Steel Construction Manual, "Beam Diagrams and Formulas", simple beam,
   concentrated load at centre / at any point);
 * two equal spans, one load P: the interior-support moment influence line
-  M_B(a) = -a(L^2 - a^2)/(4L^2) for a load at a in span 1 (published-facts 3.3,
-  from the AISC two-span formula M_B = -P a b (L + a)/(4 L^2) [F S14]), least at
-  a = L/sqrt(3): M_B = -P L/(6 sqrt 3).
+  M_B(a) = -a(L^2 - a^2)/(4L^2) for a load at a in span 1 (the AISC two-span
+  formula M_B = -P a b (L + a)/(4 L^2), as reproduced at piping-designer.com, with
+  b = L - a), least at a = L/sqrt(3): M_B = -P L/(6 sqrt 3) (computed by hand,
+  dM_B/da = 0).
 """
 
 from __future__ import annotations
@@ -110,7 +111,7 @@ def test_sheets_and_headers_follow_the_contract(written: tuple[Case, Path]) -> N
         "Run Log",
     ]
     env_header = [c.value for c in wb["Envelopes"][1]]
-    # The contract's Envelopes columns, with US units in parentheses.
+    # The Envelopes columns (docs/workbook.md, "Result sheets"), US units in parentheses.
     expected = ["Member", "Span", "Station", "x (ft)"]
     for name, unit in (
         ("M max", "kip-ft"),
@@ -200,10 +201,12 @@ def test_single_axle_closed_forms_reach_the_sheets(tmp_path: Path) -> None:
     # Same source, load at the support: V = R = P.
     assert gov["S"]["V max (kip)"] == pytest.approx(P_AXLE, rel=REL_TOL_EXACT)
     assert gov["S"]["R max (kip)"] == pytest.approx(P_AXLE, rel=REL_TOL_EXACT)
-    # No hogging on a simple span: value 0, vehicle and position empty (contract).
+    # No hogging on a simple span: value 0, vehicle and position empty (docs/workbook.md,
+    # "Result sheets").
     assert gov["S"]["M min (kip-ft)"] == 0
     assert gov["S"]["M min vehicle"] is None and gov["S"]["M min at (ft)"] is None
-    # Two equal spans: least M_B = -P L / (6 sqrt 3), load at L / sqrt 3 (published-facts 3.3).
+    # Two equal spans: least M_B = -P L / (6 sqrt 3), load at L / sqrt 3 (computed by hand
+    # from the AISC two-span formula above).
     m_b = -P_AXLE * length / (6 * math.sqrt(3))
     assert gov["C2"]["M min (kip-ft)"] == pytest.approx(m_b, rel=REL_TOL_EXACT)
     assert gov["C2"]["M min x (ft)"] == pytest.approx(length)

@@ -127,7 +127,7 @@ def test_si_demo_is_small_and_metric() -> None:
 
 def test_design_truck_and_lane_on_the_100_ft_span_gives_the_published_midspan_moment() -> None:
     # Per lane at midspan of a 100 ft simple span, the 8-32-32 kip truck with 14 ft spacings
-    # and a 0.64 kip/ft lane (published-facts 3.2, closed forms 18L - 280 and 0.08L^2, [C]).
+    # and a 0.64 kip/ft lane (closed forms derived here: 18L - 280 for L >= 28 ft and 0.08L^2).
     # By hand: the midspan influence ordinate at d from midspan is (L/2 - d)/2, i.e. 25 under
     # the middle axle and 18 at 14 ft either side: 32 x 25 + 32 x 18 + 8 x 18 = 1520;
     # lane wL^2/8 = 800 kip-ft;

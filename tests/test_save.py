@@ -1,6 +1,6 @@
 """Writing results back: nothing of the workbook is lost; a failed save changes nothing.
 
-What must survive is the contract's list ("every other sheet is kept as it was")
+What must survive is docs/workbook.md's list ("every other sheet is kept byte for byte")
 and issue 7's: values, formulas (with their cached values), number formats,
 styles, comments, merged cells, data validation, defined names, column widths,
 row heights, hidden state and any sheet the engineer added — and, since results

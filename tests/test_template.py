@@ -1,8 +1,9 @@
-"""The blank input workbook: built from batch/model/case.py, faithful to the workbook contract.
+"""The blank input workbook: built from batch/model/case.py, faithful to docs/workbook.md.
 
-Reference for the expected sheet, column and setting names: the workbook contract
-(shared/contract/workbook.md, sections "Input sheets" and "The command"), copied
-below as plain lists so that a change to batch/model/case.py that breaks it fails here.
+Reference for the expected sheet, column and setting names: docs/workbook.md, this
+repository's specification of the workbook (sections "Input sheets" and "The
+command"), copied below as plain lists so that a change to batch/model/case.py that
+breaks it fails here.
 """
 
 from __future__ import annotations
@@ -21,7 +22,7 @@ from batch.writing.template import GUIDE_SHEET, write_template
 
 COMMITTED = Path(__file__).resolve().parent.parent / "templates" / "spanfleet-template.xlsx"
 
-# The workbook contract, "Input sheets": the columns each sheet must accept.
+# docs/workbook.md, "Input sheets": the columns each sheet must accept.
 CONTRACT_COLUMNS = {
     "Settings": ["Setting", "Value"],
     "Members": [
@@ -37,14 +38,15 @@ CONTRACT_COLUMNS = {
         "DW M", "DC V", "DW V",
     ],
 }  # fmt: skip
-# The workbook contract, "Settings": name -> default.
+# docs/workbook.md, "Settings": name -> default.
 CONTRACT_SETTINGS = {
     "Units": "US",
     "Directions": "both",
     "Stations per span": 10,
     "Dynamic load allowance": 0.33,
 }
-# The workbook contract: the fixed sets of values offered as drop-down lists.
+# docs/workbook.md ("Input sheets", "The blank workbook"): the fixed sets of values,
+# offered as drop-down lists.
 CONTRACT_CHOICES = {
     "Units": ["US", "SI"],
     "Directions": ["both", "left-to-right", "right-to-left"],

@@ -8,13 +8,14 @@ Sources, by rule:
   one, so a member with n spans is a mechanism with more than n - 1 hinges, and
   a hinge at an end releases nothing (common practice);
 * dynamic load allowance above 75 %: AASHTO LRFD Table 3.6.2.1-1, whose largest
-  value is 75 % for deck joints;
+  value is 75 % for deck joints (seen quoted in an engineers' forum thread at
+  engineerboards.com);
 * condition × system factor of at least 0.85: MBE 6A.4.2.1 (from memory);
 * condition and system factors of at least 0.85 each (the lowest of the MBE's
   tables, from memory), rating load factors from 1.0 to 2.5 with a warning away
   from the published values (MBE Table 6A.4.2.2-1 and the legal and permit
   tables, from memory);
-* Capacities rows: the workbook format ("Capacities": member, span and
+* Capacities rows: docs/workbook.md ("Capacities": member, span and
   station as in Envelopes; resistances; a blank resistance is not rated);
 * Segments rows: a stretch lies on its member and runs forwards, stretches of one
   member do not overlap (one stiffness per point), a haunch has a stiffness at

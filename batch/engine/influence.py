@@ -19,7 +19,7 @@ station then follow from the statics of the part left of the section, so they
 are exact piecewise cubics too (piecewise linear where the member is
 statically determinate), with their kink or unit jump at the station.
 
-Sign conventions (those of the workbook contract)
+Sign conventions (those of docs/workbook.md)
 -------------------------------------------------
 * load: a unit force acting downward at position x (from the left end);
 * moment: sagging positive;

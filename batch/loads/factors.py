@@ -28,10 +28,10 @@ KIP_PER_TON = 2.0
 KN_PER_TONNE = 9.80665
 
 #: Published values of each rating setting as (lowest, highest); outside them validation
-#: warns. From memory (published-facts 2.1): MBE Table 6A.4.2.2-1 (DC 1.25; DW 1.50, or
-#: 1.25 with a field-measured overlay; design 1.75 inventory, 1.35 operating); legal loads
-#: 1.30 to 1.45 (MBE 2nd ed. on) and up to 1.80 (1st ed., 2008); permits 1.10 to 1.85
-#: (routine to multiple-trip); relieving dead loads LRFD Table 3.4.1-2 minimums.
+#: warns. From memory: MBE Table 6A.4.2.2-1 (DC 1.25; DW 1.50, or 1.25 with a
+#: field-measured overlay; design 1.75 inventory, 1.35 operating); legal loads 1.30 to
+#: 1.45 (MBE 2nd ed. on) and up to 1.80 (1st ed., 2008); permits 1.10 to 1.85 (routine
+#: to multiple-trip); relieving dead loads LRFD Table 3.4.1-2 minimums.
 PUBLISHED_FACTORS: dict[str, tuple[float, float]] = {
     "dc_factor": (1.25, 1.25),
     "dw_factor": (1.25, 1.5),

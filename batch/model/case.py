@@ -13,7 +13,7 @@ one consistent unit system, named once on :class:`Settings`:
 
 Positions are measured in the length unit from the member's left end. Loads are
 positive downward (gravity). The engine (``batch.engine``) uses the sign
-conventions of the workbook contract: sagging moment positive, shear V = dM/dx
+conventions of docs/workbook.md: sagging moment positive, shear V = dM/dx
 (the sum of the upward forces left of the section), reactions upward positive.
 """
 

@@ -1,4 +1,4 @@
-"""The input sheets of the workbook contract, generated from the model's declarations.
+"""The input sheets that docs/workbook.md specifies, generated from the model's declarations.
 
 Each table sheet's columns are the declared fields of its dataclass
 (:func:`batch.model.declare.columns_of`); the Settings sheet has one row per

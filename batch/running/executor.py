@@ -13,7 +13,7 @@ With a :class:`~batch.running.store.CheckpointStore`, every finished member is w
 it as soon as its chunk returns, and members already there from an interrupted
 run of the same input are not computed again.
 
-Units and sign conventions are those of the engine and the workbook contract
+Units and sign conventions are those of the engine and docs/workbook.md
 (sagging moment positive, V = sum of the upward forces left of the section,
 reactions upward positive).
 """

@@ -14,7 +14,7 @@ may query it with any SQLite client, e.g.::
     SELECT member, vehicle, m_max FROM vehicle_summary
     WHERE member = 'KV-0412 G1' ORDER BY m_max DESC;
 
-Values are in the run's units with the contract's sign conventions (sagging
+Values are in the run's units with the sign conventions of docs/workbook.md (sagging
 moment positive, V = sum of the upward forces left of the section, reactions
 upward). Envelopes, and each member's rating and screening
 (:class:`batch.rating.assess.MemberAssessment`), are stored as numpy ``.npz`` blobs

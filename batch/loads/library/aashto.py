@@ -2,9 +2,21 @@
 
 Where a value was seen in a published source it says so; where it could not
 be checked against the standard's text it is marked "from memory", here and in
-the model's ``source`` text. Sources seen (listed in the project's reference
-notes): S1-S4 for HL-93 and the fatigue truck, S5-S7 for the H/HS family,
-S9-S10 and S28 for the specialized hauling and emergency vehicles.
+the model's ``source`` text. Sources seen, besides the standards named:
+
+* HL-93 and the fatigue truck: an HL-93 article from engineeringcivil.org (posted
+  on Scribd), an HL-93 loading page at aboutcivil.org, an engineers' forum thread
+  at engineerboards.com quoting LRFD Table 3.6.2.1-1, and an excerpt of AASHTO
+  LRFD (2014) Art. 3.6.1.4.1 posted on Scribd;
+* the H and HS family and the alternate military load: structural engineers'
+  mailing-list posts (SEAINT archive, 1999 and 2000), an HS20-44 explainer at
+  knowledgewow.com, the AASHO 1941 loadings (H15 = 75 % of H20) as printed in
+  *Interregional Highways* (on Wikisource), and the TxDOT Bridge Inspection
+  Manual, ch. 6 (HS scaling);
+* the specialized hauling and emergency vehicles: the FHWA memorandum on
+  specialized hauling vehicles (fhwa.dot.gov/bridge/loadrating/131115.cfm), FHWA's
+  questions and answers on the FAST Act emergency vehicles (2016, as reported by
+  J. J. Keller) and the FHWA FAST Act truck size and weight fact sheet.
 """
 
 from __future__ import annotations
@@ -15,7 +27,8 @@ __all__ = ["US_MODELS"]
 
 # HL-93 design truck: 8, 32, 32 kip at 14 ft then 14-30 ft; tandem 2 x 25 kip at
 # 4 ft; lane 0.64 kip/ft; IM on truck and tandem only (LRFD 3.6.1.2.2-3.6.1.2.4,
-# 3.6.2.1; seen in S1, S2, S3).
+# 3.6.2.1; seen in the HL-93 article, the aboutcivil.org page and the forum thread
+# named above).
 _TRUCK = (8.0, 32.0, 32.0)
 _TANDEM = (25.0, 25.0)
 _LANE = 0.64
@@ -41,7 +54,7 @@ HS20 = LoadModel(
     " that range is used). Truck loading only: the equivalent lane loading is not included."
     " The run's dynamic load allowance applies; the Standard Specifications' span-dependent"
     " impact 50/(L + 125) <= 0.30 is not computed.",
-    parts=(part("", _TRUCK, (14.0, (14.0, 30.0))),),  # [F S5]
+    parts=(part("", _TRUCK, (14.0, (14.0, 30.0))),),  # seen: SEAINT post, knowledgewow.com
 )
 
 H20 = LoadModel(
@@ -53,7 +66,7 @@ H20 = LoadModel(
     " (H20-44 truck); seen in published summaries",
     description="Two-axle standard truck 8, 32 kip at 14 ft. Truck loading only. The run's"
     " dynamic load allowance applies.",
-    parts=(part("", (8.0, 32.0), (14.0,)),),  # [F S5, S6]
+    parts=(part("", (8.0, 32.0), (14.0,)),),  # seen: SEAINT post; AASHO 1941
 )
 
 HS15 = LoadModel(
@@ -64,7 +77,7 @@ HS15 = LoadModel(
     source="AASHTO Standard Specifications for Highway Bridges, 17th ed. (2002), Art. 3.7"
     " (HS15-44 = 75 % of HS20-44); seen in published summaries",
     description="75 % of HS20: 6, 24, 24 kip; 14 ft, then 14 to 30 ft. Truck loading only.",
-    parts=(part("", (6.0, 24.0, 24.0), (14.0, (14.0, 30.0))),),  # [F S6] 75 % rule
+    parts=(part("", (6.0, 24.0, 24.0), (14.0, (14.0, 30.0))),),  # 75 % rule seen: AASHO 1941
 )
 
 H15 = LoadModel(
@@ -75,7 +88,7 @@ H15 = LoadModel(
     source="AASHTO Standard Specifications for Highway Bridges, 17th ed. (2002), Art. 3.7"
     " (H15-44 = 75 % of H20-44); seen in published summaries",
     description="75 % of H20: 6, 24 kip at 14 ft. Truck loading only.",
-    parts=(part("", (6.0, 24.0), (14.0,)),),  # [F S6] 75 % rule
+    parts=(part("", (6.0, 24.0), (14.0,)),),  # 75 % rule seen: AASHO 1941
 )
 
 ALTERNATE_MILITARY = LoadModel(
@@ -86,7 +99,7 @@ ALTERNATE_MILITARY = LoadModel(
     source="AASHTO Standard Specifications for Highway Bridges, 17th ed. (2002), Art. 3.7.4"
     " (alternate military loading); seen in published summaries",
     description="Two 24 kip axles 4 ft apart.",
-    parts=(part("", (24.0, 24.0), (4.0,)),),  # [F S5]
+    parts=(part("", (24.0, 24.0), (4.0,)),),  # seen: SEAINT post (2000)
 )
 
 HL93 = LoadModel(
@@ -134,7 +147,8 @@ FATIGUE = LoadModel(
     " 32 kip axles, or axles thereof; no lane load. IM is fixed at 0.15 whatever the run's"
     " setting. The fatigue load factor (Fatigue I or II) is not included: put it in the"
     " row's Factor.",
-    # "one design truck or axles thereof": axles that lessen an effect are left out. [F S4]
+    # "one design truck or axles thereof": axles that lessen an effect are left out (seen in the
+    # LRFD 3.6.1.4.1 excerpt).
     parts=(part("", _TRUCK, (14.0, 30.0), impact=0.15, drop_adverse_axles=True),),
 )
 
@@ -144,7 +158,8 @@ _LEGAL_NOTE = (
     " 33 %, from memory). Every axle counts wherever it stands."
 )
 
-# The AASHTO legal trucks: axle loads and spacings from memory. [M]
+# The AASHTO legal trucks (MBE 6A.4.4.2.1, Appendix D6A): axle loads and spacings
+# from memory.
 _TYPE_33 = (12.0, 12.0, 12.0, 16.0, 14.0, 14.0)
 _TYPE_33_SPACINGS = (15.0, 4.0, 15.0, 16.0, 4.0)
 
@@ -155,7 +170,7 @@ TYPE_3 = LoadModel(
     source=_MBE + " (AASHTO legal loads); axle loads and spacings from memory",
     description="AASHTO legal Type 3 unit: 16, 17, 17 kip at 15, 4 ft (50 kip, 25 t)."
     + _LEGAL_NOTE,
-    parts=(part("", (16.0, 17.0, 17.0), (15.0, 4.0)),),  # [M]
+    parts=(part("", (16.0, 17.0, 17.0), (15.0, 4.0)),),  # from memory
 )
 
 TYPE_3S2 = LoadModel(
@@ -166,7 +181,7 @@ TYPE_3S2 = LoadModel(
     source=_MBE + " (AASHTO legal loads); axle loads and spacings from memory",
     description="AASHTO legal Type 3S2 semi: 10, 15.5, 15.5, 15.5, 15.5 kip at 11, 4, 22, 4 ft"
     " (72 kip, 36 t)." + _LEGAL_NOTE,
-    parts=(part("", (10.0, 15.5, 15.5, 15.5, 15.5), (11.0, 4.0, 22.0, 4.0)),),  # [M]
+    parts=(part("", (10.0, 15.5, 15.5, 15.5, 15.5), (11.0, 4.0, 22.0, 4.0)),),  # from memory
 )
 
 TYPE_33 = LoadModel(
@@ -177,13 +192,14 @@ TYPE_33 = LoadModel(
     source=_MBE + " (AASHTO legal loads); axle loads and spacings from memory",
     description="AASHTO legal Type 3-3 train: 12, 12, 12, 16, 14, 14 kip at 15, 4, 15, 16, 4 ft"
     " (80 kip, 40 t)." + _LEGAL_NOTE,
-    parts=(part("", _TYPE_33, _TYPE_33_SPACINGS),),  # [M]
+    parts=(part("", _TYPE_33, _TYPE_33_SPACINGS),),  # from memory
 )
 
 # Lane-type legal load: 75 % of Type 3-3 with 0.2 kip/ft; and two 75 % Type 3-3
 # heading the same way, 30 ft clear (rear axle of one to front axle of the other),
 # with 0.2 kip/ft for negative moment and interior reactions. The 75 % is on the
-# trucks only, so it is in the axle loads, not the part factor. [M]
+# trucks only, so it is in the axle loads, not the part factor. From memory
+# (MBE 6A.4.4.2.1).
 _TYPE_33_75 = tuple(0.75 * p for p in _TYPE_33)
 
 LEGAL_LANE = LoadModel(
@@ -214,7 +230,8 @@ LEGAL_LANE = LoadModel(
 )
 
 # Specialized hauling vehicles (NCHRP Report 575; adopted by AASHTO in 2005, names
-# seen in S9). Axle loads and spacings from memory. [M]
+# seen in the FHWA memorandum on specialized hauling vehicles). Axle loads and spacings
+# from memory (MBE Appendix D6A).
 _SHV = {
     "SU4": ((12.0, 8.0, 17.0, 17.0), (10.0, 4.0, 4.0)),
     "SU5": ((12.0, 8.0, 8.0, 17.0, 17.0), (10.0, 4.0, 4.0, 4.0)),
@@ -276,7 +293,7 @@ EV2 = LoadModel(
     source=_EV_SOURCE,
     description="Emergency vehicle, single rear axle: 24 kip steer and 33.5 kip drive axle at"
     " 15 ft (57.5 kip). The run's dynamic load allowance applies.",
-    parts=(part("", (24.0, 33.5), (15.0,)),),  # loads [F S10]; 15 ft [M]
+    parts=(part("", (24.0, 33.5), (15.0,)),),  # loads seen (FHWA EV Q&A); 15 ft from memory
 )
 
 EV3 = LoadModel(
@@ -286,7 +303,7 @@ EV3 = LoadModel(
     source=_EV_SOURCE,
     description="Emergency vehicle, tandem rear axle: 24 kip steer and 2 x 31 kip (62 kip"
     " tandem) at 15 ft, then 4 ft (86 kip). The run's dynamic load allowance applies.",
-    parts=(part("", (24.0, 31.0, 31.0), (15.0, 4.0)),),  # loads [F S10, S28]; spacings [M]
+    parts=(part("", (24.0, 31.0, 31.0), (15.0, 4.0)),),  # loads seen (FHWA); spacings from memory
 )
 
 US_MODELS: tuple[LoadModel, ...] = (

@@ -13,7 +13,8 @@ __all__ = ["SI_MODELS"]
 
 # CL-W truck with W = 625 kN: axles 0.08W, 0.2W, 0.2W, 0.28W, 0.24W at 3.6, 1.2,
 # 6.6, 6.6 m (from memory; the 0.2W and 0.28W axles agree with the 160 and 224 kN
-# axles published for the CL-800 variant, S24).
+# axles published for the CL-800 variant, seen in a precast-pipe publication by
+# Lafarge that quotes the Canadian Highway Bridge Design Code).
 _CL = (50.0, 125.0, 125.0, 175.0, 150.0)  # 0.08W, 0.2W, 0.2W, 0.28W, 0.24W kN
 _CL_SPACINGS = (3.6, 1.2, 6.6, 6.6)
 # Dynamic load allowance by the number of axles used (from memory): one axle 0.50;
@@ -36,7 +37,7 @@ CL625 = LoadModel(
     " spacings, lane load and DLA from memory",
     description="CL-W truck with W = 625 kN: 50, 125, 125, 175, 150 kN at 3.6, 1.2, 6.6,"
     " 6.6 m; and the CL-W lane load: 80 % of each truck axle with 9 kN/m, no dynamic load"
-    " allowance. S6 sets the truck's DLA by how many axles produce the effect, which differs"
+    " allowance. CSA S6 sets the truck's DLA by how many axles produce the effect, which differs"
     " from effect to effect; spanfleet envelopes the whole truck (DLA 0.25) with its"
     " subsets: axles 1 to 3 and each pair of neighbouring axles (0.40) and the heaviest"
     " axle alone (0.50), each subset with the other axles left off the member. Pairs of"
@@ -58,8 +59,8 @@ CL625 = LoadModel(
 # Load Model 1, notional lane 1: tandem of two 300 kN axles (alpha_Q1 = 1) and
 # 9 kN/m2 (alpha_q1 = 1) over the 3 m lane = 27 kN/m; dynamic amplification is
 # included. The 300 kN axles, 9 kN/m2 and 3 m lanes were seen in published
-# summaries (S23 gives the 600 alpha_Q1 kN single-axle simplification); the 1.2 m
-# axle spacing is from memory.
+# summaries (a summary of EN 1991-2 at eurocode.us gives the 600 alpha_Q1 kN
+# single-axle simplification); the 1.2 m axle spacing is from memory.
 LM1 = LoadModel(
     name="LM1",
     aliases=("EN LM1", "EN 1991-2 LM1", "Eurocode LM1", "Load Model 1"),
