@@ -369,7 +369,8 @@ def run_case(
         # out, so memory stays flat however many members there are.
         fits = n_members * n_vehicles <= SHEET_ROWS
         peaks = np.zeros((n_members, n_vehicles, 6)) if fits else None
-        finished = store.finished() if store is not None else set()
+        ids = tuple(m.id for m in case.members)
+        finished = store.finished(ids) if store is not None else set()
         todo = [(i, m) for i, m in enumerate(case.members) if i not in finished]
         workers = 1 if options.cluster else _workers(options, len(todo) * len(cases))
         chunks = _chunks(todo, cases, case, plan, workers)
@@ -388,6 +389,7 @@ def run_case(
             )
             notes = tuple(w for i in range(n_members) for w in gathered.notes[i])
         else:
+            store.check_complete(n_members)
             envelopes = store.stored_envelopes(n_members)
             assessments = store.stored_assessments(n_members)
             notes = tuple(store.warnings())

@@ -3,8 +3,26 @@
 A long run writes each finished member here as soon as it is done, so a run that
 is interrupted (Ctrl-C, killed, power lost) and started again with the same
 command and the same input carries on from where it stopped. The store is keyed
-by a digest of the validated input and the program version: any change to the
-input (or a new version of spanfleet) empties it.
+by a digest of the validated input and the program version (the *run key*): any
+change to the input (or a new version of spanfleet) empties it.
+
+A store may be shared by accident: two runs of one workbook at once, two inputs
+written to the same ``--out``, a run still going when the engineer saves a
+correction and runs again. So nothing in it is trusted on its name alone:
+
+* every stored member carries the run key and the *token* of the run that wrote
+  it (a random value each run draws when it opens the store), and a run reads
+  only members whose key is its own and whose id is the member's at that place;
+* the run that opens a store last owns it: opening writes its token (and, for a
+  new key, empties the store) in one transaction, and every later write of any
+  other run first checks, in the same transaction, that the store is still its
+  own and still the same file; a run that finds it reset, taken over, deleted or
+  replaced stops with a :class:`StoreError` saying so, instead of writing on;
+* the results are read back only if every member is there under the run's key,
+  so a reset between computing and writing the workbook stops the run too.
+
+Results after any interleaving of runs on one store are therefore those of a
+clean run, or the run refuses.
 
 It also keeps the per-vehicle summary of every member — for each member and
 vehicle, the extreme M max, M min, V max, V min, R max and R min over all
@@ -27,6 +45,8 @@ from __future__ import annotations
 import contextlib
 import io
 import json
+import os
+import secrets
 import sqlite3
 from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass
@@ -55,10 +75,21 @@ PEAK_COLUMNS: tuple[str, ...] = ("m_max", "m_min", "v_max", "v_min", "r_max", "r
 
 _EXTREMES = ("m_max", "m_min", "v_max", "v_min", "r_max", "r_min")
 
+#: The layout of the tables below (SQLite's user_version); a store of another layout
+#: is rebuilt empty.
+SCHEMA_VERSION = 2
+#: Seconds a run waits for another run's write to the store to finish.
+BUSY_TIMEOUT_S = 30.0
+
+_TABLES = ("members", "vehicle_peaks", "vehicles", "assessments", "meta")
+
+# A member's peaks and assessment are written in the transaction of its members row and
+# replaced or deleted with it: that row carries the proof (run key, token) for all three.
 _SCHEMA = """
 CREATE TABLE IF NOT EXISTS meta (key TEXT PRIMARY KEY, value TEXT NOT NULL);
 CREATE TABLE IF NOT EXISTS members (
-    idx INTEGER PRIMARY KEY, member TEXT NOT NULL, envelope BLOB NOT NULL, warnings TEXT NOT NULL
+    idx INTEGER PRIMARY KEY, run TEXT NOT NULL, token TEXT NOT NULL, member TEXT NOT NULL,
+    envelope BLOB NOT NULL, warnings TEXT NOT NULL
 );
 CREATE TABLE IF NOT EXISTS vehicle_peaks (
     member_idx INTEGER NOT NULL, vehicle_idx INTEGER NOT NULL,
@@ -71,12 +102,44 @@ CREATE VIEW IF NOT EXISTS vehicle_summary AS
     SELECT m.member AS member, v.vehicle AS vehicle, p.m_max, p.m_min, p.v_max, p.v_min,
            p.r_max, p.r_min
     FROM vehicle_peaks p JOIN members m ON m.idx = p.member_idx
-    JOIN vehicles v ON v.idx = p.vehicle_idx;
+    JOIN vehicles v ON v.idx = p.vehicle_idx
+    WHERE m.run = (SELECT value FROM meta WHERE key = 'run');
 """
 
 
 class StoreError(Exception):
     """The checkpoint store cannot be used; the message says what is wrong and what to do."""
+
+
+# SQLite's result codes (sqlite.org/rescode.html) by what they mean to the engineer.
+_NO_ROOM = ("SQLITE_FULL", "SQLITE_IOERR")
+_READ_ONLY = ("SQLITE_READONLY", "SQLITE_CANTOPEN", "SQLITE_PERM", "SQLITE_AUTH")
+_BUSY = ("SQLITE_BUSY", "SQLITE_LOCKED")
+
+
+def _explain(exc: Exception, path: Path) -> str:
+    """What a failure of the store means and what to do, following "the checkpoint store"."""
+    name = str(getattr(exc, "sqlite_errorname", ""))
+    text = str(exc).lower()
+    folder = path.parent
+    if name.startswith(_NO_ROOM) or "disk is full" in text or "disk i/o" in text:
+        return (
+            f"cannot be written: there is no room to write it in {folder} ({exc}: the disk is "
+            "full, a quota or "
+            "file-size limit is reached, or the disk failed); free some space and run again, "
+            "or run with --no-store"
+        )
+    if name.startswith(_READ_ONLY) or "readonly" in text or "unable to open" in text:
+        return (
+            f"cannot be written in {folder} ({exc}); make the folder and the store "
+            "writable, write the results elsewhere with --out, or run with --no-store"
+        )
+    if name.startswith(_BUSY) or "locked" in text:
+        return (
+            f"has been held locked by another program for {BUSY_TIMEOUT_S:g} s ({exc}); close "
+            "any program that has it open and run again, or run with --no-store"
+        )
+    return f"could not be used ({exc}); delete it to start afresh, or run with --no-store"
 
 
 @contextlib.contextmanager
@@ -88,10 +151,30 @@ def _guarded(path: Path) -> Iterator[None]:
     try:
         yield
     except (sqlite3.Error, ValueError) as exc:
-        raise StoreError(
-            f"{path.name}: the checkpoint store could not be used ({exc}); delete it to start "
-            "afresh, or run with --no-store"
-        ) from exc
+        raise StoreError(f"{path.name}: the checkpoint store {_explain(exc, path)}") from exc
+
+
+def _connect(path: Path, create: bool) -> sqlite3.Connection:
+    """A connection to the store; without ``create``, a missing file is an error, not a new one.
+
+    Transactions are begun explicitly (``BEGIN IMMEDIATE`` before a write).
+    """
+    mode = "rwc" if create else "rw"
+    uri = f"{path.absolute().as_uri()}?mode={mode}"
+    return sqlite3.connect(uri, uri=True, timeout=BUSY_TIMEOUT_S, isolation_level=None)
+
+
+@contextlib.contextmanager
+def _writing(db: sqlite3.Connection) -> Iterator[None]:
+    """One write transaction, holding the store's write lock from its first statement."""
+    db.execute("BEGIN IMMEDIATE")
+    try:
+        yield
+    except BaseException:
+        with contextlib.suppress(sqlite3.Error):
+            db.execute("ROLLBACK")
+        raise
+    db.execute("COMMIT")
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -211,13 +294,22 @@ class StoredMembers(Sequence[T]):
     the members from the store file (one query, read as it goes), indexing reads
     one. It keeps a run's memory flat however many members the inventory has.
     ``column`` is one of the store's blob columns (``m.envelope`` or ``a.blob``),
-    ``decode`` turns (member id, blob) into the result.
+    ``decode`` turns (member id, blob) into the result. Only members stored under
+    the run key ``key`` are read, and each must be there: a member missing (the
+    store was reset by another run after this one finished) raises
+    :class:`StoreError` rather than giving fewer results.
     """
 
     def __init__(
-        self, path: Path, size: int, column: str, decode: Callable[[str, bytes | None], T]
+        self,
+        path: Path,
+        key: str,
+        size: int,
+        column: str,
+        decode: Callable[[str, bytes | None], T],
     ) -> None:
         self._path = path
+        self._key = key
         self._size = size
         self._column = column
         self._decode = decode
@@ -225,23 +317,32 @@ class StoredMembers(Sequence[T]):
     def __len__(self) -> int:
         return self._size
 
-    def _rows(self, where: str, args: tuple[int, ...]) -> Iterator[T]:
+    def _rows(self, first: int, last: int) -> Iterator[T]:
         query = (
-            f"SELECT m.member, {self._column} FROM members m "  # fixed column names
-            f"LEFT JOIN assessments a ON a.idx = m.idx {where} ORDER BY m.idx"
+            f"SELECT m.idx, m.member, {self._column} FROM members m "  # fixed column names
+            "LEFT JOIN assessments a ON a.idx = m.idx "
+            "WHERE m.run = ? AND m.idx >= ? AND m.idx < ? ORDER BY m.idx"
         )
+        expected = first
+        if not self._path.exists():
+            raise StoreError(_lost(self._path, first))
         with _guarded(self._path):
             # (read-write, though it only reads: the last connection to close then tidies
             # away SQLite's -wal and -shm files, which a read-only one cannot)
-            db = sqlite3.connect(self._path, timeout=30.0)
+            db = _connect(self._path, create=False)
             try:
-                for member, blob in db.execute(query, args):
+                for idx, member, blob in db.execute(query, (self._key, first, last)):
+                    if idx != expected:
+                        break
                     yield self._decode(member, blob)
+                    expected += 1
             finally:
                 db.close()
+        if expected != last:
+            raise StoreError(_lost(self._path, expected))
 
     def __iter__(self) -> Iterator[T]:
-        return self._rows("", ())
+        return self._rows(0, self._size)
 
     @overload
     def __getitem__(self, index: int) -> T: ...
@@ -255,7 +356,17 @@ class StoredMembers(Sequence[T]):
         i = index + self._size if index < 0 else index
         if not 0 <= i < self._size:
             raise IndexError(index)
-        return next(self._rows("WHERE m.idx = ?", (i,)))
+        return next(self._rows(i, i + 1))
+
+
+def _lost(path: Path, index: int) -> str:
+    return (
+        f"{path.name}: member {index + 1} is no longer in the checkpoint store under this "
+        "run's input: another spanfleet run reset or took over the store while this one "
+        "was going (the same --out, or the same workbook run twice at once), or the store "
+        "was deleted, so this run stops rather than write results it did not compute; run "
+        "again when the other run has finished, or give --out another name"
+    )
 
 
 class CheckpointStore:
@@ -263,42 +374,101 @@ class CheckpointStore:
 
     ``key`` identifies the run (input digest and version); opening a store whose
     key differs empties it. ``labels`` are the run's load-case labels, which the
-    envelopes' case indices refer to; ``vehicles`` the fleet's ids.
+    envelopes' case indices refer to; ``vehicles`` the fleet's ids. Opening makes
+    this run the store's owner; ``resumed`` tells whether the store held this
+    run's key already.
     """
 
     def __init__(
         self, path: Path, key: str, labels: tuple[str, ...], vehicles: tuple[str, ...]
     ) -> None:
         self.path = path
+        self.key = key
         self.labels = labels
-        self._db = sqlite3.connect(path, timeout=30.0)
+        self.token = secrets.token_hex(8)
+        with _guarded(path):
+            self._db = _connect(path, create=True)
         try:
-            with _guarded(path):
-                self._open(key, vehicles)
-        except StoreError:
+            self._file = self._identity()
+            with self._guard():
+                self._open(vehicles)
+        except BaseException:
             self._db.close()
             raise
 
-    def _open(self, key: str, vehicles: tuple[str, ...]) -> None:
-        labels = self.labels
-        self._db.execute("PRAGMA journal_mode=WAL")
-        self._db.executescript(_SCHEMA)
-        row = self._db.execute("SELECT value FROM meta WHERE key = 'run'").fetchone()
-        self.resumed = row is not None and row[0] == key
-        if not self.resumed:
-            with self._db:
-                for table in ("members", "vehicle_peaks", "vehicles", "assessments", "meta"):
-                    self._db.execute(f"DELETE FROM {table}")  # fixed table names
-                self._db.execute("INSERT INTO meta VALUES ('run', ?)", (key,))
-                self._db.execute("INSERT INTO meta VALUES ('labels', ?)", (json.dumps(labels),))
-                self._db.executemany(
-                    "INSERT INTO vehicles VALUES (?, ?)", list(enumerate(vehicles))
-                )
+    @contextlib.contextmanager
+    def _guard(self) -> Iterator[None]:
+        """:func:`_guarded`, saying so when the failure is the store taken away."""
+        try:
+            with _guarded(self.path):
+                yield
+        except StoreError:
+            self._still_here()  # a store deleted under the run explains the failure best
+            raise
 
-    def finished(self) -> set[int]:
-        """Indices of the members already stored."""
-        with _guarded(self.path):
-            return {idx for (idx,) in self._db.execute("SELECT idx FROM members")}
+    def _identity(self) -> tuple[int, int] | None:
+        """The store file's device and inode, or None when it is gone."""
+        try:
+            found = os.stat(self.path)
+        except OSError:
+            return None
+        return found.st_dev, found.st_ino
+
+    def _open(self, vehicles: tuple[str, ...]) -> None:
+        db = self._db
+        db.execute("PRAGMA journal_mode=WAL")
+        with _writing(db):
+            if db.execute("PRAGMA user_version").fetchone()[0] != SCHEMA_VERSION:
+                # An empty file, or a store of an earlier layout: built afresh.
+                db.execute("DROP VIEW IF EXISTS vehicle_summary")
+                for table in _TABLES:
+                    db.execute(f"DROP TABLE IF EXISTS {table}")  # fixed table names
+                for statement in _SCHEMA.split(";"):
+                    if statement.strip():
+                        db.execute(statement)
+                db.execute(f"PRAGMA user_version = {SCHEMA_VERSION}")
+            row = db.execute("SELECT value FROM meta WHERE key = 'run'").fetchone()
+            self.resumed = row is not None and row[0] == self.key
+            if not self.resumed:
+                for table in _TABLES:
+                    db.execute(f"DELETE FROM {table}")  # fixed table names
+                db.execute("INSERT INTO meta VALUES ('run', ?)", (self.key,))
+                db.execute("INSERT INTO meta VALUES ('labels', ?)", (json.dumps(self.labels),))
+                db.executemany("INSERT INTO vehicles VALUES (?, ?)", list(enumerate(vehicles)))
+            db.execute("INSERT OR REPLACE INTO meta VALUES ('token', ?)", (self.token,))
+
+    def _still_here(self) -> None:
+        """Raise StoreError unless the store's file is the one this run opened."""
+        if self._file is None or self._identity() != self._file:
+            raise StoreError(
+                f"{self.path.name}: the checkpoint store was deleted or replaced while the run "
+                "was going, so what this run stored is gone; run again (and leave the store "
+                "alone while a run is going)"
+            )
+
+    def _still_ours(self) -> None:
+        """Raise StoreError unless the store is this run's: same file, same key, our token."""
+        self._still_here()
+        meta = dict(self._db.execute("SELECT key, value FROM meta WHERE key IN ('run', 'token')"))
+        if meta.get("run") == self.key and meta.get("token") == self.token:
+            return
+        who = (
+            "another run of the same input"
+            if meta.get("run") == self.key
+            else "a run of another input (or of the workbook since it changed)"
+        )
+        raise StoreError(
+            f"{self.path.name}: {who} took over this checkpoint store while this run was "
+            "going (the same --out, or the same workbook run twice at once), so this run "
+            "stops rather than mix the two; run again when the other run has finished, or "
+            "give --out another name"
+        )
+
+    def finished(self, ids: Sequence[str]) -> set[int]:
+        """Indices of the members stored under this run's key, each with the id ``ids`` gives."""
+        with self._guard():
+            rows = self._db.execute("SELECT idx, member FROM members WHERE run = ?", (self.key,))
+            return {idx for idx, member in rows if 0 <= idx < len(ids) and ids[idx] == member}
 
     def put(
         self,
@@ -310,50 +480,83 @@ class CheckpointStore:
     ) -> None:
         """Store one finished member, with its per-vehicle peaks (n_vehicles, 6), atomically.
 
-        ``assessment`` (its rating and screening) is stored when given.
+        ``assessment`` (its rating and screening) is stored when given. Raises
+        :class:`StoreError` when the store is no longer this run's.
         """
-        with _guarded(self.path), self._db:
-            self._db.execute(
-                "INSERT OR REPLACE INTO members VALUES (?, ?, ?, ?)",
-                (index, envelope.member, _pack(envelope), json.dumps(warnings)),
+        db = self._db
+        with self._guard(), _writing(db):
+            self._still_ours()
+            db.execute(
+                "INSERT OR REPLACE INTO members VALUES (?, ?, ?, ?, ?, ?)",
+                (
+                    index,
+                    self.key,
+                    self.token,
+                    envelope.member,
+                    _pack(envelope),
+                    json.dumps(warnings),
+                ),
             )
-            self._db.executemany(
+            db.executemany(
                 "INSERT OR REPLACE INTO vehicle_peaks VALUES (?, ?, ?, ?, ?, ?, ?, ?)",
                 [(index, v, *map(float, row)) for v, row in enumerate(peaks)],
             )
             if assessment is not None:
-                self._db.execute(
+                db.execute(
                     "INSERT OR REPLACE INTO assessments VALUES (?, ?)",
                     (index, _pack_assessment(assessment)),
                 )
+
+    def check_complete(self, size: int) -> None:
+        """Raise StoreError unless members 0..size-1 are all stored under this run's key."""
+        self._still_here()
+        with self._guard():
+            found = {
+                idx
+                for (idx,) in self._db.execute(
+                    "SELECT idx FROM members WHERE run = ? AND idx < ?", (self.key, size)
+                )
+            }
+        missing = next((i for i in range(size) if i not in found), None)
+        if missing is not None:
+            raise StoreError(_lost(self.path, missing))
 
     def stored_envelopes(self, size: int) -> StoredMembers[MemberEnvelope]:
         """Members 0..size-1's envelopes, read from the store file as they are needed."""
         labels = self.labels
         return StoredMembers(
-            self.path, size, "m.envelope", lambda member, blob: _unpack(member, blob, labels)
+            self.path,
+            self.key,
+            size,
+            "m.envelope",
+            lambda member, blob: _unpack(member, blob, labels),
         )
 
     def stored_assessments(self, size: int) -> StoredMembers[MemberAssessment]:
         """Members 0..size-1's ratings and screenings, read as they are needed."""
-        return StoredMembers(self.path, size, "a.blob", lambda _, blob: _unpack_assessment(blob))
+        return StoredMembers(
+            self.path, self.key, size, "a.blob", lambda _, blob: _unpack_assessment(blob)
+        )
 
     def warnings(self) -> list[str]:
         """Every stored member's warnings, in member order."""
-        with _guarded(self.path):
-            rows = self._db.execute("SELECT warnings FROM members ORDER BY idx")
+        with self._guard():
+            rows = self._db.execute(
+                "SELECT warnings FROM members WHERE run = ? ORDER BY idx", (self.key,)
+            )
             return [w for (text,) in rows for w in json.loads(text)]
 
     def peak_rows(self) -> Iterator[PeakRow]:
-        """Every stored per-vehicle summary row, members and vehicles in input order."""
+        """Every per-vehicle summary row of this run, members and vehicles in input order."""
         query = (
             "SELECT p.member_idx, p.vehicle_idx, m.member, v.vehicle, "
             "p.m_max, p.m_min, p.v_max, p.v_min, p.r_max, p.r_min "
             "FROM vehicle_peaks p JOIN members m ON m.idx = p.member_idx "
-            "JOIN vehicles v ON v.idx = p.vehicle_idx ORDER BY p.member_idx, p.vehicle_idx"
+            "JOIN vehicles v ON v.idx = p.vehicle_idx WHERE m.run = ? "
+            "ORDER BY p.member_idx, p.vehicle_idx"
         )
-        with _guarded(self.path):
-            for mi, vi, member, vehicle, *values in self._db.execute(query):
+        with self._guard():
+            for mi, vi, member, vehicle, *values in self._db.execute(query, (self.key,)):
                 yield PeakRow(
                     member_index=mi,
                     vehicle_index=vi,
