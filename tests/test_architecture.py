@@ -1,8 +1,9 @@
 """The tree shows the pipeline, and data flows one way (DEVELOPERS.md, "Architecture").
 
 The stages of batch/, in order: model, reading, loads, validating, engine, rating,
-running, writing, command. A module may import its own stage and earlier ones, never a
-later one; no stage imports batch.demo (demo and benchmark data live apart). Checked
+running, writing, interface, command. A module may import its own stage and earlier
+ones, never a later one; no stage imports batch.demo (demo and benchmark data live
+apart). Checked
 on the source (every import statement, including those inside functions and under
 TYPE_CHECKING), and by importing the early stages in a fresh interpreter and looking
 at what got loaded: reading and validating an input never loads numba, the engine
@@ -31,6 +32,7 @@ STAGES = (
     "rating",
     "running",
     "writing",
+    "interface",
     "command",
 )
 

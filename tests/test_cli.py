@@ -20,7 +20,7 @@ from openpyxl import load_workbook as _load_path
 from openpyxl.chart import BarChart, Reference
 
 import batch
-import batch.running.executor
+import batch.interface.session
 from batch.command.cli import EXIT_INTERNAL, EXIT_OK, EXIT_PROBLEMS, EXIT_USAGE, main
 from batch.validating import read_input
 
@@ -237,7 +237,7 @@ def test_internal_error_exit_3_without_traceback(book: Path, monkeypatch, capsys
     def broken(*_args, **_kw):
         raise RuntimeError("unexpected state")
 
-    monkeypatch.setattr(batch.running.executor, "run_case", broken)
+    monkeypatch.setattr(batch.interface.session, "run_case", broken)
     monkeypatch.delenv("SPANFLEET_DEBUG", raising=False)
     assert main(["run", str(book)]) == EXIT_INTERNAL
     err = capsys.readouterr().err
@@ -255,7 +255,7 @@ def test_interrupt_changes_nothing(book: Path, monkeypatch, capsys) -> None:
     def interrupted(*_args, **_kw):
         raise KeyboardInterrupt
 
-    monkeypatch.setattr(batch.running.executor, "run_case", interrupted)
+    monkeypatch.setattr(batch.interface.session, "run_case", interrupted)
     assert main(["run", str(book)]) == 130
     assert "interrupted" in capsys.readouterr().err
     assert book.read_bytes() == before

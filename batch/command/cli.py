@@ -23,7 +23,6 @@ internal error.
 from __future__ import annotations
 
 import argparse
-import hashlib
 import json
 import os
 import sys
@@ -36,6 +35,7 @@ from typing import TYPE_CHECKING
 import batch
 
 if TYPE_CHECKING:
+    from batch.interface.session import Input
     from batch.reading.problems import InputReport
     from batch.running.executor import ProgressFn
     from batch.writing.package.splice import SourcePackage
@@ -201,39 +201,15 @@ def _check_names(src: Path, target: Path, is_json: bool, has_out: bool) -> None:
         raise Usage(f"{target.name}: .xlsm is for workbooks with macros; use .xlsx")
 
 
-def _open_input(src: Path, report: InputReport, keep_vba: bool) -> SourcePackage:
-    """The input workbook's package, ready to receive the results."""
-    from batch.writing.package.splice import BookProblem, SourcePackage
+def _source(inp: Input, keep_vba: bool) -> SourcePackage:
+    """The package the results go into (the input workbook's own, or a new one)."""
+    from batch.interface.session import source_package
+    from batch.writing.package.splice import BookProblem
 
-    data = src.read_bytes()
-    if hashlib.sha256(data).hexdigest() != report.digest:
-        raise Refused(
-            f"{src.name}: the file changed while spanfleet was reading it; "
-            "save it in your spreadsheet program, close it and run again"
-        )
     try:
-        return SourcePackage(data, src.name, keep_vba=keep_vba)
+        return source_package(inp, keep_vba)
     except BookProblem as exc:
         raise Refused(str(exc)) from exc
-
-
-def _json_source(report: InputReport) -> SourcePackage:
-    """For JSON input: the case as input sheets of a new workbook, ready for results."""
-    import io
-
-    from batch.model.sheets import SETTING_ROWS
-    from batch.writing.package.splice import SourcePackage
-    from batch.writing.template import case_rows, input_workbook
-
-    case = report.case
-    assert case is not None
-    settings = {row.key: getattr(case.settings, row.key) for row in SETTING_ROWS}
-    wb = input_workbook(units=case.settings.units, settings=settings, rows=case_rows(case))
-    for ws in wb.worksheets:
-        ws.sheet_view.tabSelected = False  # the results' Governing sheet will be the active one
-    buffer = io.BytesIO()
-    wb.save(buffer)
-    return SourcePackage(buffer.getvalue(), "(JSON input)", keep_active=False)
 
 
 def _guard_target(target: Path, in_place: bool, overwrite: bool) -> None:
@@ -341,19 +317,12 @@ def _duration(seconds: float) -> str:
     return f"{seconds / 3600:.1f} h"
 
 
-def _run_key(report: InputReport) -> str:
-    """Identifies the validated input and the program version, for the checkpoint store."""
-    text = json.dumps(report.document, sort_keys=True, default=str)
-    return hashlib.sha256(f"{batch.__version__}\n{text}".encode()).hexdigest()
-
-
 def _cmd_run(args: argparse.Namespace) -> int:
-    from batch.running.executor import ClusterError, RunError, RunOptions, run_case
+    from batch.interface.session import InputChanged, input_of, results_package, run
+    from batch.running.executor import ClusterError, RunError
     from batch.running.store import StoreError, store_path_for
     from batch.writing.package.save import SaveError, atomic_save
     from batch.writing.package.splice import BookProblem
-    from batch.writing.results import result_package
-    from batch.writing.runlog import InputInfo
 
     src: Path = args.book
     _require_file(src)
@@ -365,35 +334,29 @@ def _cmd_run(args: argparse.Namespace) -> int:
     if (status := _report_problems(report, src.name)) != EXIT_OK:
         _say(f"{src.name} was not changed.")
         return status
-    assert report.case is not None
-    if is_json:
-        source = _json_source(report)
-    else:
-        keep_vba = src.suffix.lower() == ".xlsm" and target.suffix.lower() == ".xlsm"
-        source = _open_input(src, report, keep_vba)
-        for what in source.lacks:
-            _warn(
-                f"{target.name} will lack {what}: an .xlsx workbook cannot hold them; "
-                "give --out a name ending in .xlsm to keep them"
-            )
-    options = RunOptions(
-        jobs=args.jobs,
-        cluster=args.cluster,
-        cluster_timeout=args.cluster_timeout,
-        store=None if args.no_store else store_path_for(target),
-        key=_run_key(report),
-    )
-    info = InputInfo(
-        name=src.name,
-        digest=report.digest,
-        source=report.source,
-        output=target.name,
-        warnings=tuple(w.render() for w in report.warnings),
-    )
     try:
-        result = run_case(report.case, _progress(args.quiet), options)
+        inp = input_of(report, src)
+    except InputChanged as exc:
+        raise Refused(str(exc)) from exc
+    keep_vba = src.suffix.lower() == ".xlsm" and target.suffix.lower() == ".xlsm"
+    source = _source(inp, keep_vba)
+    for what in source.lacks:
+        _warn(
+            f"{target.name} will lack {what}: an .xlsx workbook cannot hold them; "
+            "give --out a name ending in .xlsm to keep them"
+        )
+    try:
+        results = run(
+            inp,
+            jobs=args.jobs,
+            cluster=args.cluster,
+            cluster_timeout=args.cluster_timeout,
+            store=None if args.no_store else store_path_for(target),
+            progress=_progress(args.quiet),
+        )
+        result = results.result
         # With a store, results are read back from it as the workbook is saved.
-        package = result_package(source, result, info)
+        package = results_package(results, target, source)
         atomic_save(package, target, expect_sha256=report.digest if in_place else None)
     except (RunError, StoreError, ClusterError) as exc:
         raise Refused(f"{exc}. {src.name} was not changed.") from exc
@@ -440,9 +403,11 @@ def _cmd_check(args: argparse.Namespace) -> int:
 
 def _check_writeback(src: Path, report: InputReport) -> None:
     """Say in advance when a run would refuse to write into this workbook."""
+    from batch.writing.package.splice import BookProblem, SourcePackage
+
     try:
-        _open_input(src, report, keep_vba=src.suffix.lower() == ".xlsm")
-    except Refused as exc:
+        SourcePackage(src.read_bytes(), src.name, keep_vba=src.suffix.lower() == ".xlsm")
+    except BookProblem as exc:
         print(f"warning: {exc}")
 
 
