@@ -23,6 +23,7 @@ spans, M_B = -w (L1^3 + L2^3) / (8 (L1 + L2)). Units kip and ft.
 
 from __future__ import annotations
 
+import dataclasses
 import math
 
 import numpy as np
@@ -30,9 +31,14 @@ import pytest
 from tolerances import REL_TOL_EXACT, REL_TOL_FLOAT, REL_TOL_GRID
 
 from batch.engine.envelope import case_effects
+from batch.engine.impact import impact_fraction, loaded_lengths
 from batch.engine.influence import influence_lines
+from batch.engine.moving import fleet_extremes_of
+from batch.loads import library
 from batch.loads.cases import LoadCase
+from batch.loads.factors import STANDARD_SPECIFICATIONS_IMPACT
 from batch.model import AxleTrain, Member
+from batch.model.units import M_PER_FT
 
 LANE = 0.64  # kip/ft, Fig. 3.7.6B (H20, HS20)
 MOMENT_LOAD = 18.0  # kip, concentrated load for moment
@@ -157,3 +163,118 @@ def test_span_extremes_bound_a_dense_search_and_are_reached() -> None:
             largest.position[:, s] <= il.support_x[s + 1]
         )
         assert inside.all()
+
+
+# ---------------------------------------------------------------- impact, Art. 3.8.2
+
+
+def _three_moment_uniform(spans: tuple[float, float, float]) -> tuple[float, float]:
+    """Moments over the two piers of three spans under a unit uniform load on all spans.
+
+    Three-moment equation (equal EI): 2 M_B (L1 + L2) + M_C L2 = -(L1^3 + L2^3) / 4 and
+    M_B L2 + 2 M_C (L2 + L3) = -(L2^3 + L3^3) / 4.
+    """
+    l1, l2, l3 = spans
+    a = np.array([[2 * (l1 + l2), l2], [l2, 2 * (l2 + l3)]])
+    b = -np.array([l1**3 + l2**3, l2**3 + l3**3]) / 4.0
+    m_b, m_c = np.linalg.solve(a, b)
+    return float(m_b), float(m_c)
+
+
+def test_loaded_length_of_every_effect_on_three_spans() -> None:
+    # Art. 3.8.2.2 (from memory) as batch/engine/impact.py reads it: M+ the span; M- in
+    # the hogging region of an interior support the average of the spans beside it, else
+    # the span; V+ the station to the span's far (right) end, V- the span's left end to
+    # the station; reactions the span beside an end support, the average of the two
+    # spans beside an interior one.
+    spans = (50.0, 80.0, 60.0)
+    n = 10
+    lines = influence_lines(spans, stations_per_span=n)
+    for_max, for_min = loaded_lengths(lines)
+    m_b, m_c = _three_moment_uniform(spans)
+    beside = (50.0, 65.0, 70.0, 60.0)  # supports 1 to 4
+    row = 0
+    for s, length in enumerate(spans):
+        left_m = (0.0, m_b, m_c)[s]
+        right_m = (m_b, m_c, 0.0)[s]
+        for k in range(n + 1):
+            t = k / n * length
+            uniform = left_m * (1 - t / length) + right_m * t / length + t * (length - t) / 2
+            near = s + 1 if (s == 0 or (s == 1 and t > length - t)) else s  # pier 1 or 2
+            hog = uniform < 0
+            assert for_max[row] == length
+            assert math.isclose(for_min[row], beside[near] if hog else length)
+            shear = lines.n_stations + row
+            assert math.isclose(for_max[shear], length - t, abs_tol=1e-9 * length)
+            assert math.isclose(for_min[shear], t, abs_tol=1e-9 * length)
+            row += 1
+    assert np.allclose(for_max[lines.reaction_rows], beside)
+    assert np.allclose(for_min[lines.reaction_rows], beside)
+    # At the first pier (station 1 of span 1, station 0 of span 2) M- uses (50 + 80) / 2.
+    assert for_min[n] == 65.0 and for_min[n + 1] == 65.0
+    # 8 ft into span 2 is hogging, near pier 1; 8 ft before its end, near pier 2.
+    assert for_min[n + 2] == 65.0 and for_min[2 * n] == 70.0
+    # Mid-span of span 2 is sagging under a uniform load: M- takes that span, 80 ft.
+    assert for_min[n + 1 + n // 2] == 80.0
+
+
+@pytest.mark.parametrize(
+    ("length", "fraction"),
+    [
+        (100.0, 50.0 / 225.0),  # hand arithmetic: 0.2222
+        (200.0, 50.0 / 325.0),  # 0.1538
+        (41.0, 0.30),  # 50 / 166 = 0.301: capped
+        (0.0, 0.30),  # 50 / 125 = 0.40: capped
+    ],
+)
+def test_impact_fraction_and_its_cap(length: float, fraction: float) -> None:
+    # Art. 3.8.2: I = 50 / (L + 125) <= 0.30, L in ft.
+    value = impact_fraction(STANDARD_SPECIFICATIONS_IMPACT, np.array([length]))[0]
+    assert math.isclose(value, fraction, rel_tol=REL_TOL_FLOAT)
+    # The same loaded length in metres with the formula converted gives the same I.
+    metric = STANDARD_SPECIFICATIONS_IMPACT.scaled(M_PER_FT)
+    in_m = impact_fraction(metric, np.array([length * M_PER_FT]))[0]
+    assert math.isclose(in_m, fraction, rel_tol=REL_TOL_FLOAT)
+
+
+def test_impact_formula_applies_to_axles_and_lane_per_effect() -> None:
+    # In this method the lane loading takes impact too (Art. 3.8.2, from memory): every
+    # value is (1 + I) times the static one, I at the effect's own loaded length.
+    member = Member(id="KV-20 G2", spans=(50.0, 80.0, 60.0))
+    static = case_effects(member, _lane_cases(), 10)
+    with_impact = [
+        dataclasses.replace(c, impact_formula=STANDARD_SPECIFICATIONS_IMPACT) for c in _lane_cases()
+    ]
+    effects = case_effects(member, with_impact, 10)
+    for value, base, length, allowance in (
+        (effects.max_value, static.max_value, effects.max_loaded_length, effects.max_impact),
+        (effects.min_value, static.min_value, effects.min_loaded_length, effects.min_impact),
+    ):
+        expected = np.minimum(50.0 / (length + 125.0), 0.30)
+        assert np.allclose(allowance, expected[None, :], rtol=REL_TOL_FLOAT, atol=0.0)
+        scale = np.abs(base) + np.abs(value)
+        assert np.all(np.abs(value - (1 + expected) * base) <= REL_TOL_EXACT * scale)
+    # A fixed allowance stays on the axles only, and is reported as such.
+    assert np.all(static.max_impact == 0.0)
+
+
+def test_cases_with_a_fixed_allowance_keep_todays_numbers_bit_for_bit() -> None:
+    # A run without the Standard Specifications' impact computes what it always did:
+    # factor * DF * ((1 + IM) * axles + lane * adverse area), here recomputed from the
+    # engine's own parts (the README's Method) and compared bit for bit.
+    member = Member(id="KV-20 G2", spans=(50.0, 80.0, 60.0), df_moment=0.62, df_shear=0.7)
+    cases = library.model_cases("HL-93", "US", 0.33)
+    effects = case_effects(member, cases, 10)
+    il = effects.lines
+    fleet = fleet_extremes_of(il, cases)
+    positive, negative = il.areas()
+    df = np.where(np.arange(il.n_effects) < il.n_stations, 0.62, 0.7)
+    for value, axles, area in (
+        (effects.max_value, fleet.max_value, positive),
+        (effects.min_value, fleet.min_value, negative),
+    ):
+        for row, case in enumerate(cases):
+            expected = case.factor * df * ((1 + 0.33) * axles[row] + case.lane_load * area)
+            kept = value[row] != 0.0  # scopes and round-off zero some effects
+            assert np.array_equal(value[row][kept], expected[kept])
+    assert np.all(effects.max_impact == 0.33) and np.all(effects.min_impact == 0.33)

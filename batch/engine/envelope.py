@@ -13,8 +13,10 @@ give it. Values are
     factor * DF * ((1 + IM) * axle_effect + lane_load * adverse_area)
 
 with DF the member's moment distribution factor for moments and its shear
-factor for shears and reactions. Sign conventions are those of
-:mod:`batch.engine.influence`.
+factor for shears and reactions. A case with an impact formula (the Standard
+Specifications' impact) instead takes (1 + I) on axles and lane load alike, I
+computed for each effect from its loaded length (:mod:`batch.engine.impact`).
+Sign conventions are those of :mod:`batch.engine.influence`.
 """
 
 from __future__ import annotations
@@ -26,6 +28,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from batch.engine.effects import TIE_REL_TOL, Governing, MemberEnvelope
+from batch.engine.impact import impact_fraction, loaded_lengths
 from batch.engine.influence import InfluenceLines, SpanExtremes, influence_lines
 from batch.engine.moving import (
     LEFT_TO_RIGHT,
@@ -65,17 +68,6 @@ def member_influence(member: Member, stations_per_span: int) -> InfluenceLines:
     )
 
 
-def hogging_stations(il: InfluenceLines) -> NDArray[np.bool_]:
-    """Which stations are in hogging under a uniform load on the whole member (per station).
-
-    These are the stations between an interior support and its points of
-    contraflexure under a uniform load on every span.
-    """
-    _, _, total = _uniform_effects(il)
-    hogging: NDArray[np.bool_] = total[il.moment_rows] < 0
-    return hogging
-
-
 def _scoped(il: InfluenceLines, scope: str) -> NDArray[np.bool_]:
     """Which effects (rows) a case of this scope may govern, as (n_effects, 2) for max/min."""
     applies = np.zeros((il.n_effects, 2), dtype=bool)
@@ -88,19 +80,12 @@ def _scoped(il: InfluenceLines, scope: str) -> NDArray[np.bool_]:
     elif scope == "hogging":
         applies[il.moment_rows, 1] = True
     elif scope == "interior-hogging":
-        applies[il.moment_rows, 1] = hogging_stations(il)
+        applies[il.moment_rows, 1] = il.hogging_stations()
         interior = np.arange(il.reaction_rows.start + 1, il.n_effects - 1)
         applies[interior, :] = True
     else:
         raise ValueError(f"unknown load-case scope {scope!r}")
     return applies
-
-
-def _uniform_effects(
-    il: InfluenceLines,
-) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
-    positive, negative = il.areas()
-    return positive, negative, positive + negative
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -114,10 +99,24 @@ class CaseEffects(FleetExtremes):
     factor, the member's distribution factor, the dynamic allowance on axles and
     the lane load on the adverse parts; 0 where the case gives no effect of that
     sign or its scope excludes the effect. ``*_position`` is the governing front
-    axle's x (NaN when only a lane load acts), ``*_direction`` +1/-1 (0 none).
+    axle's x (NaN when only a lane load acts; for a load placed again in another
+    span, the load in the worst span), ``*_direction`` +1/-1 (0 none, or placed).
+
+    ``max_impact`` and ``min_impact`` (n_cases, n_effects) are the impact
+    allowance (fraction) each value includes: the case's fixed dynamic load
+    allowance on its axles, or, for a case with an impact formula, the formula at
+    the effect's loaded length, on its axles and its lane load alike (so that such
+    a value is (1 + I) times the static one). ``max_loaded_length`` and
+    ``min_loaded_length`` (n_effects,) are the loaded lengths of the Standard
+    Specifications for every effect (:func:`batch.engine.impact.loaded_lengths`),
+    member length unit, whether or not a case uses them.
     """
 
     lines: InfluenceLines
+    max_impact: NDArray[np.float64]
+    min_impact: NDArray[np.float64]
+    max_loaded_length: NDArray[np.float64]
+    min_loaded_length: NDArray[np.float64]
 
 
 def case_effects(
@@ -149,16 +148,22 @@ def case_effects(
                 f"load case {c.label!r}: a load placed again in another span must be one axle"
             )
     il = il if il is not None else member_influence(member, stations_per_span)
-    positive, negative, _ = _uniform_effects(il)
+    positive, negative = il.areas()
     n_eff = il.n_effects
     df = np.full(n_eff, member.df_shear)
     df[il.moment_rows] = member.df_moment
     fleet = _axle_extremes(il, cases, DIRECTION_CODES[directions])
-    impact = np.array([c.impact for c in cases])[:, None]
+    lengths = loaded_lengths(il)
+    allowances = _allowances(cases, lengths)
     lane = np.array([c.lane_load for c in cases])[:, None]
     scale = np.array([c.factor for c in cases])[:, None] * df[None, :]
     total = np.array([c.train.weight for c in cases])[:, None]
-    size = il.effect_scale[None, :] * (total * (1 + impact) + lane * il.length)
+    # The largest allowance a case can take, for the size below which an effect is round-off.
+    axle_top = np.array([c.impact_formula.cap if c.impact_formula else c.impact for c in cases])
+    lane_top = np.array([c.impact_formula.cap if c.impact_formula else 0.0 for c in cases])
+    size = il.effect_scale[None, :] * (
+        total * (1 + axle_top[:, None]) + lane * (1 + lane_top[:, None]) * il.length
+    )
     scopes = {scope: _scoped(il, scope) for scope in {c.scope for c in cases}}
     applies = np.array([scopes[c.scope] for c in cases], dtype=bool).reshape(-1, n_eff, 2)
     out = {}
@@ -168,9 +173,10 @@ def case_effects(
             ("min", fleet.min_value, fleet.min_position, fleet.min_direction, negative),
         )
     ):
+        on_axles, on_lane = allowances[col]
         # Below ZERO_TOL of the case's natural size an extreme is round-off, not an effect.
         axle_part = np.where(np.abs(axle_v) > ZERO_TOL * size, axle_v, 0.0)
-        value = scale * ((1 + impact) * axle_part + lane * area[None, :])
+        value = scale * ((1 + on_axles) * axle_part + (1 + on_lane) * lane * area[None, :])
         value = np.where(np.abs(value) > ZERO_TOL * size * scale, value, 0.0)
         value = np.where(applies[:, :, col], value, 0.0)
         moving = (axle_part != 0.0) & (value != 0.0)
@@ -187,7 +193,39 @@ def case_effects(
         min_value=out["min"][0],
         min_position=out["min"][1],
         min_direction=out["min"][2],
+        max_impact=np.broadcast_to(allowances[0][0], (len(cases), n_eff)),
+        min_impact=np.broadcast_to(allowances[1][0], (len(cases), n_eff)),
+        max_loaded_length=lengths[0],
+        min_loaded_length=lengths[1],
     )
+
+
+Allowance = NDArray[np.float64] | float
+
+
+def _allowances(
+    cases: Sequence[LoadCase], lengths: tuple[NDArray[np.float64], NDArray[np.float64]]
+) -> tuple[tuple[NDArray[np.float64], Allowance], tuple[NDArray[np.float64], Allowance]]:
+    """The allowance on axles and on the lane load of every case, for the max and for the min.
+
+    A case with a fixed allowance has it on its axles and none on its lane load,
+    one column for all effects ((n_cases, 1); the lane's is the number 0); a case
+    with an impact formula has the formula's value at each effect's loaded length on
+    both ((n_cases, n_effects)).
+    """
+    fixed = np.array([c.impact for c in cases])[:, None]
+    formulas = [c.impact_formula for c in cases]
+    if not any(formulas):
+        return (fixed, 0.0), (fixed, 0.0)
+    out = []
+    for length in lengths:
+        axles = np.repeat(fixed, length.size, axis=1)
+        lane = np.zeros_like(axles)
+        for row, formula in enumerate(formulas):
+            if formula is not None:
+                axles[row] = lane[row] = impact_fraction(formula, length)
+        out.append((axles, lane))
+    return out[0], out[1]
 
 
 def _axle_extremes(

@@ -309,6 +309,16 @@ class InfluenceLines:
             out.append(SpanExtremes(value=best, position=where))
         return out[0], out[1]
 
+    def hogging_stations(self) -> NDArray[np.bool_]:
+        """Which stations are in hogging under a uniform load on every span, per station.
+
+        These are the stations between an interior support and its points of
+        contraflexure under that load (the region of AASHTO LRFD 3.6.1.3.1).
+        """
+        positive, negative = self.areas()
+        hogging: NDArray[np.bool_] = (positive + negative)[self.moment_rows] < 0
+        return hogging
+
     def areas(self) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
         """Exact integrals of the positive and the negative parts of each line.
 

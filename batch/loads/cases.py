@@ -13,7 +13,7 @@ from dataclasses import dataclass
 
 from batch.model import AxleTrain
 
-__all__ = ["SCOPES", "LoadCase"]
+__all__ = ["SCOPES", "ImpactFormula", "LoadCase"]
 
 #: Where a load case applies (the effects it may govern):
 #:
@@ -30,11 +30,33 @@ SCOPES = ("all", "interior-hogging", "moments", "shears-reactions", "hogging")
 
 
 @dataclass(frozen=True, kw_only=True)
+class ImpactFormula:
+    """An impact allowance that depends on the loaded length: I = numerator / (L + added) <= cap.
+
+    ``numerator`` and ``added`` are lengths in the unit L is measured in; ``cap`` a
+    fraction. The engine finds L for every effect (:mod:`batch.engine.impact`).
+    """
+
+    numerator: float
+    added: float
+    cap: float
+
+    def scaled(self, length: float) -> ImpactFormula:
+        """The same formula for L measured in a unit ``length`` times smaller (e.g. ft to m)."""
+        return ImpactFormula(
+            numerator=self.numerator * length, added=self.added * length, cap=self.cap
+        )
+
+
+@dataclass(frozen=True, kw_only=True)
 class LoadCase:
     """One train of axles (and lane load) moved across the member.
 
     ``train`` is the axle train (force, length); ``lane_load`` force per length; ``impact`` the
-    dynamic load allowance on axles (fraction); ``factor`` multiplies all.
+    dynamic load allowance on axles (fraction); ``impact_formula``, when given, replaces
+    it: the allowance is then computed for every effect from its loaded length and
+    applies to the axles and the lane load alike (the Standard Specifications' impact,
+    Art. 3.8), and ``impact`` is 0. ``factor`` multiplies all.
     ``scope`` limits the effects the case may govern (see :data:`SCOPES`);
     ``drop_adverse_axles`` leaves out axles that would lessen an effect
     (AASHTO LRFD 3.6.1.3.1). ``other_span_load`` places the train, which must be
@@ -48,6 +70,7 @@ class LoadCase:
     train: AxleTrain
     lane_load: float = 0.0
     impact: float = 0.0
+    impact_formula: ImpactFormula | None = None
     factor: float = 1.0
     scope: str = "all"
     drop_adverse_axles: bool = False

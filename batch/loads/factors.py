@@ -7,6 +7,8 @@ value is written once, beside its source.
 
 from __future__ import annotations
 
+from batch.loads.cases import ImpactFormula
+
 __all__ = [
     "KIP_PER_TON",
     "KN_PER_TONNE",
@@ -14,6 +16,7 @@ __all__ = [
     "POSTING_DIVISOR",
     "POSTING_FLOOR",
     "PUBLISHED_FACTORS",
+    "STANDARD_SPECIFICATIONS_IMPACT",
 ]
 
 #: MBE Eq. 6A.4.2.1-3 (from memory): phi_c * phi_s is not taken below 0.85.
@@ -22,6 +25,13 @@ MIN_CAPACITY_FACTOR = 0.85
 #: MBE 6A.8.3 (from memory): posting load (W/0.7)(RF - 0.3); below RF 0.3 consider closing.
 POSTING_DIVISOR = 0.7
 POSTING_FLOOR = 0.3
+
+#: AASHTO Standard Specifications for Highway Bridges, 17th ed. (2002), Art. 3.8.2: impact
+#: I = 50 / (L + 125) <= 0.30, L the loaded length in ft (formula and 30 % cap seen in a
+#: published secondary source: the documentation of civilpy, an open-source structural
+#: library, HS20Load.impact_factor; the article's wording from memory). Lengths in ft:
+#: ImpactFormula.scaled converts them exactly (0.3048 m per ft).
+STANDARD_SPECIFICATIONS_IMPACT = ImpactFormula(numerator=50.0, added=125.0, cap=0.30)
 
 #: A US (short) ton is 2 kip; a tonne is 1000 kg, 9.80665 kN under standard gravity.
 KIP_PER_TON = 2.0
