@@ -37,6 +37,7 @@ from batch.engine.moving import (
     fleet_extremes_of,
 )
 from batch.loads.cases import LoadCase
+from batch.loads.factors import SINGLE_LANE_PRESENCE
 from batch.model import Member
 
 __all__ = [
@@ -79,6 +80,9 @@ def _scoped(il: InfluenceLines, scope: str) -> NDArray[np.bool_]:
         applies[il.shear_rows.start :] = True
     elif scope == "hogging":
         applies[il.moment_rows, 1] = True
+    elif scope == "hogging-interior-reactions":
+        applies[il.moment_rows, 1] = True
+        applies[il.reaction_rows.start + 1 : il.n_effects - 1, :] = True
     elif scope == "interior-hogging":
         applies[il.moment_rows, 1] = il.hogging_stations()
         interior = np.arange(il.reaction_rows.start + 1, il.n_effects - 1)
@@ -129,14 +133,17 @@ def case_effects(
     """Factored extremes of each load case on each effect of ``member``.
 
     Units follow the inputs (e.g. kip and ft give kip-ft moments and kip
-    shears). Raises ``ValueError`` for a malformed member or case and
+    shears). A case whose span rule the member does not meet
+    (:meth:`~batch.loads.cases.LoadCase.applies_to`) is not moved across it and
+    gives no effect. Raises ``ValueError`` for a malformed member or case and
     :class:`batch.engine.influence.UnstableMemberError` for a mechanism.
     """
     if not cases:
         raise ValueError("give at least one load case")
     if directions not in DIRECTION_CODES:
         raise ValueError(f"directions must be one of {', '.join(DIRECTION_CODES)}")
-    if not np.all(np.isfinite([member.df_moment, member.df_shear])):
+    factors = (member.df_moment, member.df_shear, member.df_moment_single, member.df_shear_single)
+    if not np.all(np.isfinite([f for f in factors if f is not None])):
         raise ValueError(f"member {member.id!r}: distribution factors must be finite numbers")
     for c in cases:
         numbers = (("lane load", c.lane_load), ("impact", c.impact), ("factor", c.factor))
@@ -150,13 +157,13 @@ def case_effects(
     il = il if il is not None else member_influence(member, stations_per_span)
     positive, negative = il.areas()
     n_eff = il.n_effects
-    df = np.full(n_eff, member.df_shear)
-    df[il.moment_rows] = member.df_moment
-    fleet = _axle_extremes(il, cases, DIRECTION_CODES[directions])
+    df = _distribution(member, cases, il)
+    active = np.array([c.applies_to(member.spans) for c in cases], dtype=bool)
+    fleet = _active_extremes(il, cases, active, DIRECTION_CODES[directions])
     lengths = loaded_lengths(il)
     allowances = _allowances(cases, lengths)
     lane = np.array([c.lane_load for c in cases])[:, None]
-    scale = np.array([c.factor for c in cases])[:, None] * df[None, :]
+    scale = np.array([c.factor for c in cases])[:, None] * df
     total = np.array([c.train.weight for c in cases])[:, None]
     # The largest allowance a case can take, for the size below which an effect is round-off.
     axle_top = np.array([c.impact_formula.cap if c.impact_formula else c.impact for c in cases])
@@ -166,6 +173,7 @@ def case_effects(
     )
     scopes = {scope: _scoped(il, scope) for scope in {c.scope for c in cases}}
     applies = np.array([scopes[c.scope] for c in cases], dtype=bool).reshape(-1, n_eff, 2)
+    applies &= active[:, None, None]
     out = {}
     for col, (sense, axle_v, axle_p, axle_d, area) in enumerate(
         (
@@ -200,6 +208,32 @@ def case_effects(
     )
 
 
+def _distribution(
+    member: Member, cases: Sequence[LoadCase], il: InfluenceLines
+) -> NDArray[np.float64]:
+    """Each case's distribution factor on every effect, (n_cases, n_effects).
+
+    The member's DF moment on moments and DF shear on shears and reactions; for a
+    fatigue case, its single-lane factors with the one-lane multiple presence
+    factor divided out (AASHTO LRFD 3.6.1.1.2, 3.6.1.4.3b).
+    """
+    lanes = np.full(il.n_effects, member.df_shear)
+    lanes[il.moment_rows] = member.df_moment
+    df = np.tile(lanes, (len(cases), 1))
+    fatigue = np.array([c.fatigue for c in cases], dtype=bool)
+    if fatigue.any():
+        moment, shear = member.df_moment_single, member.df_shear_single
+        if moment is None or shear is None:
+            raise ValueError(
+                f"member {member.id!r}: a fatigue load needs its single-lane distribution "
+                "factors (DF moment single lane, DF shear single lane)"
+            )
+        single = np.full(il.n_effects, shear)
+        single[il.moment_rows] = moment
+        df[fatigue] = single / SINGLE_LANE_PRESENCE.number
+    return df
+
+
 Allowance = NDArray[np.float64] | float
 
 
@@ -228,6 +262,35 @@ def _allowances(
     return out[0], out[1]
 
 
+def _no_extremes(shape: tuple[int, int]) -> FleetExtremes:
+    """Extremes of cases that give no effect: zero, no position, no direction."""
+    return FleetExtremes(
+        max_value=np.zeros(shape),
+        max_position=np.full(shape, np.nan),
+        max_direction=np.zeros(shape, np.int8),
+        min_value=np.zeros(shape),
+        min_position=np.full(shape, np.nan),
+        min_direction=np.zeros(shape, np.int8),
+    )
+
+
+def _active_extremes(
+    il: InfluenceLines,
+    cases: Sequence[LoadCase],
+    active: NDArray[np.bool_],
+    directions: tuple[int, ...],
+) -> FleetExtremes:
+    """Axle extremes of the ``active`` cases (their span rule met); the others' rows hold none."""
+    if active.all():
+        return _axle_extremes(il, cases, directions)
+    out = _no_extremes((len(cases), il.n_effects))
+    if active.any():
+        kept = _axle_extremes(il, [c for c, a in zip(cases, active, strict=True) if a], directions)
+        for name in vars(out):
+            getattr(out, name)[active] = getattr(kept, name)
+    return out
+
+
 def _axle_extremes(
     il: InfluenceLines, cases: Sequence[LoadCase], directions: tuple[int, ...]
 ) -> FleetExtremes:
@@ -240,15 +303,7 @@ def _axle_extremes(
     placed = np.array([c.other_span_load for c in cases], dtype=bool)
     if not placed.any():
         return fleet_extremes_of(il, cases, directions)
-    shape = (len(cases), il.n_effects)
-    out = FleetExtremes(
-        max_value=np.zeros(shape),
-        max_position=np.full(shape, np.nan),
-        max_direction=np.zeros(shape, np.int8),
-        min_value=np.zeros(shape),
-        min_position=np.full(shape, np.nan),
-        min_direction=np.zeros(shape, np.int8),
-    )
+    out = _no_extremes((len(cases), il.n_effects))
     if not placed.all():
         moved = fleet_extremes_of(
             il, [c for c, p in zip(cases, placed, strict=True) if not p], directions

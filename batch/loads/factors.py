@@ -8,16 +8,23 @@ value is written once, beside its source.
 from __future__ import annotations
 
 from batch.loads.cases import ImpactFormula
+from batch.loads.sourced import Sourced
 
 __all__ = [
+    "FATIGUE_I",
+    "FATIGUE_II",
+    "FATIGUE_NO_MULTIPLE_PRESENCE",
     "KIP_PER_TON",
     "KN_PER_TONNE",
     "MIN_CAPACITY_FACTOR",
     "POSTING_DIVISOR",
     "POSTING_FLOOR",
     "PUBLISHED_FACTORS",
+    "SINGLE_LANE_PRESENCE",
     "STANDARD_SPECIFICATIONS_IMPACT",
 ]
+
+_LRFD = "AASHTO LRFD Bridge Design Specifications"
 
 #: MBE Eq. 6A.4.2.1-3 (from memory): phi_c * phi_s is not taken below 0.85.
 MIN_CAPACITY_FACTOR = 0.85
@@ -52,3 +59,41 @@ PUBLISHED_FACTORS: dict[str, tuple[float, float]] = {
     "ll_factor_legal": (1.3, 1.8),
     "ll_factor_permit": (1.1, 1.85),
 }
+
+#: The multiple presence factor of one loaded lane. The approximate single-lane
+#: distribution factors of LRFD 4.6.2.2 and 4.6.2.3 include it; where a standard asks for
+#: the single-lane factor without it (the fatigue limit state; single-trip permits), the
+#: tabulated factor is divided by this value.
+SINGLE_LANE_PRESENCE = Sourced(
+    what="multiple presence factor, one loaded lane",
+    value=(1.2,),
+    source=f"{_LRFD}, Table 3.6.1.1.2-1",
+    status="secondary",
+    seen="TRB's project summary of NCHRP 20-07/Task 285 (the one-lane distribution factor"
+    " is used with its multiple presence factor, 'such as a value of 1.2', divided out)",
+)
+
+#: The fatigue rule on lanes: one design truck, and no multiple presence factor.
+FATIGUE_NO_MULTIPLE_PRESENCE = Sourced(
+    what="fatigue: one truck, the single-lane distribution factor with the one-lane"
+    " multiple presence factor divided out",
+    source=f"{_LRFD}, Art. 3.6.1.1.2 and 3.6.1.4.3b",
+    status="from memory",
+)
+
+#: Load factors on LL + IM of the fatigue load combinations (Fatigue I: infinite life;
+#: Fatigue II: finite life). Before the recalibration of the 2010s they were 1.50 and
+#: 0.75 (seen in Mertz, "AASHTO LRFD", ASPIRE, Summer 2011, p. 60); the values used are
+#: those of the current editions, from memory.
+FATIGUE_I = Sourced(
+    what="load factor on LL + IM, Fatigue I",
+    value=(1.75,),
+    source=f"{_LRFD}, 8th ed. (2017) and later, Table 3.4.1-1",
+    status="from memory",
+)
+FATIGUE_II = Sourced(
+    what="load factor on LL + IM, Fatigue II",
+    value=(0.80,),
+    source=f"{_LRFD}, 8th ed. (2017) and later, Table 3.4.1-1",
+    status="from memory",
+)

@@ -320,7 +320,10 @@ class Member:
     Lengths in the run's length unit; ``span_ei`` is relative flexural stiffness
     (only ratios matter), one value per span. ``hinges`` are internal moment
     releases measured from the left end. Distribution factors multiply the
-    live-load effects (``df_moment`` moments; ``df_shear`` shears and reactions).
+    live-load effects (``df_moment`` moments; ``df_shear`` shears and reactions);
+    ``df_moment_single`` and ``df_shear_single`` are the single-lane factors as
+    tabulated (with the one-lane multiple presence factor), used by fatigue loads
+    (None: not given).
     ``dc_load`` and ``dw_load`` are uniform dead loads per unit length.
 
     As built (filled in from the other input sheets, not Members columns):
@@ -420,6 +423,25 @@ class Member:
         default="",
         meaning="Free text.",
         example="EXAMPLE, replace or delete: Harlow Creek overpass, girder 1 (KVHA)",
+    )
+    df_moment_single: float | None = column(
+        "DF moment single lane",
+        "number",
+        default=None,
+        above=0.0,
+        meaning="Single-lane live-load distribution factor on moments, as tabulated (AASHTO "
+        "LRFD 4.6.2.2), that is WITH the one-lane multiple presence factor 1.2 in it; "
+        "spanfleet divides it by 1.2 where a load asks for it without (fatigue loads). "
+        "Needed when the fleet has a fatigue load.",
+    )
+    df_shear_single: float | None = column(
+        "DF shear single lane",
+        "number",
+        default=None,
+        above=0.0,
+        meaning="Single-lane live-load distribution factor on shears and reactions, as "
+        "tabulated, WITH the one-lane multiple presence factor 1.2 in it (divided out as for "
+        "DF moment single lane). Needed when the fleet has a fatigue load.",
     )
     # As built: filled in from the Segments sheet (not a column of Members).
     segments: tuple[Segment, ...] = ()

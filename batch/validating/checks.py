@@ -153,7 +153,7 @@ _Check = Callable[[dict[str, Any], DocPath, _Context], Iterator[_Found]]
 def _member(m: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[_Found]:
     spans = _numbers(m.get("spans")) if cx.ok((*at, "spans")) else None
     hinges = _numbers(m.get("hinges", [])) if cx.ok((*at, "hinges")) else None
-    for key in ("df_moment", "df_shear"):
+    for key in ("df_moment", "df_shear", "df_moment_single", "df_shear_single"):
         value = finite_number(m.get(key))
         if value is not None and cx.ok((*at, key)):
             yield from cx.magnitude((*at, key), "df", value)
