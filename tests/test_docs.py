@@ -3,9 +3,11 @@
 docs/workbook.md states the input sheets; its tables are generated from the column
 declarations of batch/model/case.py (scripts/generate.py writes them), so a column
 added in code cannot be missing from the specification that engineers and scripts
-read. Every test, docstring, comment and document cites the published source itself
-or a file inside this repository, never a file outside it or an absolute path of a
-machine (project rule).
+read. docs/load-models.md lists every value of every built-in load model with its
+source and status, generated from the library (batch/loads/library), so a value
+cannot change without its listing. Every test, docstring, comment and document cites
+the published source itself or a file inside this repository, never a file outside it
+or an absolute path of a machine (project rule).
 """
 
 from __future__ import annotations
@@ -15,7 +17,13 @@ import subprocess
 from pathlib import Path
 
 import pytest
-from generate import WORKBOOK_DOC, input_sheet_tables, workbook_doc
+from generate import (
+    LOAD_MODELS_DOC,
+    WORKBOOK_DOC,
+    input_sheet_tables,
+    load_models_doc,
+    workbook_doc,
+)
 
 
 def test_workbook_doc_tables_are_current() -> None:
@@ -31,6 +39,21 @@ def test_every_input_column_is_in_the_workbook_doc() -> None:
         assert f"### {sheet.name}" in tables
         for col in SETTING_ROWS if sheet is SETTINGS else sheet.columns:
             assert f"| {col.header} |" in tables, (sheet.name, col.header)
+
+
+def test_load_models_doc_is_current() -> None:
+    current = LOAD_MODELS_DOC.read_text("utf-8")
+    assert load_models_doc() == current, "run `python scripts/generate.py` and commit"
+
+
+def test_every_model_and_value_is_in_the_load_models_doc() -> None:
+    from batch.loads import library
+
+    doc = load_models_doc()
+    for m in library.MODELS:
+        assert f"## {m.name}\n" in doc
+        for v in m.values:
+            assert f"| {v.what.replace('|', chr(92) + '|')} |" in doc, (m.name, v.what)
 
 
 # --- references a maintainer can follow ------------------------------------------------

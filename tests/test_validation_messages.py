@@ -48,6 +48,8 @@ MC = M | {"DC load": 1.1}  # a member with a dead load, as rating needs
 CAP = ["Member", "Span", "Station", "Resistance M+"]
 SEG = ["Member", "From", "To", "EI"]
 V = {"Vehicle": "KV-T3", "Axle loads": "10, 30, 30", "Axle spacings": "14, 16"}
+F = {"Vehicle": "KV-FAT", "Library": "Fatigue I"}
+MF = M | {"DF moment single lane": 0.5, "DF shear single lane": 0.6}  # as fatigue needs
 E, W = "error", "warning"
 
 
@@ -679,6 +681,30 @@ WORKBOOK_CASES = [
         {"vehicles": [V | {"Factor": 5000}]},
         [("Vehicles", "D2", "limit-exceeded", E)],
     ),
+    # library models' needs: a fatigue load uses the single-lane distribution factors
+    # (AASHTO LRFD 3.6.1.1.2, from memory); an emergency vehicle is rated with the generic
+    # legal factor, the MBE's own EV factors not being in published text (a warning).
+    (
+        "fatigue-without-single-lane-df",
+        {"members": [M | {"DF moment single lane": 0.5}], "vehicles": [F]},
+        [("Members", "A2", "fatigue-needs-single-lane-df", E)],
+    ),
+    ("fatigue-with-single-lane-df", {"members": [MF], "vehicles": [F]}, []),
+    (
+        "fatigue-reference-without-single-lane-df",
+        {"settings": {"Reference vehicle": "Fatigue II"}},
+        [("Members", "A2", "fatigue-needs-single-lane-df", E)],
+    ),
+    (
+        "emergency-vehicle-rated",
+        {
+            "members": [MC],
+            "vehicles": [V, {"Vehicle": "KV-EV3", "Library": "EV3"}],
+            "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1, 0.5, 900])},
+        },
+        [("Vehicles", "D3", "library-caution", W)],
+    ),
+    ("emergency-vehicle-not-rated", {"vehicles": [V, {"Vehicle": "KV-EV3", "Library": "EV3"}]}, []),
 ]
 
 

@@ -432,18 +432,29 @@ def _cmd_template(args: argparse.Namespace) -> int:
 
 def _cmd_library(args: argparse.Namespace) -> int:
     from batch.loads import library
+    from batch.loads.sourced import STATUS_MEANINGS
 
-    describe = getattr(library, "describe", None)
-    rows = list(describe(args.units)) if describe is not None else []
+    rows = library.describe(args.units)
     if not rows:
         print("No built-in load models in this version; give every vehicle's axles.")
         return EXIT_OK
     unit = "kip" if args.units == "US" else "kN"
-    header = ("Library name", "Axles", f"Weight ({unit})", "Source")
-    table = [header, *((str(r[0]), str(r[1]), f"{float(r[2]):.1f}", str(r[3])) for r in rows)]
-    widths = [max(len(row[k]) for row in table) for k in range(3)]
-    for name, axles, weight, source in table:
-        print(f"{name:<{widths[0]}}  {axles:>{widths[1]}}  {weight:>{widths[2]}}  {source}")
+    header = ("Library name", "Axles", f"Weight ({unit})", "Status", "Source")
+    table = [header, *((r.name, str(r.axles), f"{r.weight:.1f}", r.status, r.source) for r in rows)]
+    widths = [max(len(row[k]) for row in table) for k in range(4)]
+    for name, axles, weight, status, source in table:
+        print(
+            f"{name:<{widths[0]}}  {axles:>{widths[1]}}  {weight:>{widths[2]}}  "
+            f"{status:<{widths[3]}}  {source}"
+        )
+    print("\nStatus of a model's values (each value's source and status: docs/load-models.md):")
+    for status, meaning in STATUS_MEANINGS.items():
+        print(f"  {status}: {meaning}")
+    print("\nFrom memory, to be checked against the standard before relying on them:")
+    for m in library.MODELS:
+        memory = [v.what for v in m.values if v.status == "from memory"]
+        if memory:
+            print(f"  {m.name}: {'all values' if m.status == 'from memory' else '; '.join(memory)}")
     return EXIT_OK
 
 

@@ -392,6 +392,67 @@ def _library(name: str, has: dict[str, bool], at: DocPath) -> Iterator[_Found]:
         )
 
 
+def _library_rows(document: dict[str, Any], cx: _Context) -> Iterator[tuple[DocPath, str]]:
+    """(path, model name) of every readable Vehicles row that names a built-in model."""
+    vehicles = document.get("vehicles")
+    for i, v in enumerate(vehicles if isinstance(vehicles, list) else []):
+        at: DocPath = ("vehicles", i, "library")
+        name = v.get("library") if isinstance(v, dict) else None
+        if isinstance(name, str) and cx.ok(at) and _library_known(name):
+            yield at, name
+
+
+def _library_needs(
+    document: dict[str, Any], settings: dict[str, Any], rated: bool, cx: _Context
+) -> Iterator[_Found]:
+    """What the fleet's library models need of the rest of the input, and their cautions.
+
+    A fatigue load needs every member's single-lane distribution factors (one
+    error at the first member without them); a model with a caution gets it as
+    a warning on its row when the run rates (there are Capacities rows).
+    """
+    rows = list(_library_rows(document, cx))
+    reference = settings.get("reference_vehicle")
+    ids = {
+        str(v.get("id", "")).strip().casefold()
+        for v in document.get("vehicles") or []
+        if isinstance(v, dict)
+    }
+    if isinstance(reference, str) and reference.strip() and _library_known(reference):
+        if reference.strip().casefold() not in ids and cx.ok(("settings", "reference_vehicle")):
+            rows.append((("settings", "reference_vehicle"), reference))
+    fatigue = next((name for _, name in rows if library.model(name).fatigue), None)
+    members = document.get("members")
+    if fatigue is not None and isinstance(members, list):
+        keys = ("df_moment_single", "df_shear_single")
+        lacking = [
+            (i, key)
+            for i, m in enumerate(members)
+            if isinstance(m, dict)
+            for key in keys
+            if key not in m and cx.ok(("members", i, key))
+        ]
+        if lacking:
+            i, key = lacking[0]
+            count = len({i for i, _ in lacking})
+            others = f" ({count - 1} more members lack them too)" if count > 1 else ""
+            yield (
+                ("members", i, key),
+                "fatigue-needs-single-lane-df",
+                f"the fatigue load {fatigue!r} uses each member's single-lane distribution "
+                f"factors, and this member has no {label(('members', i, key))}{others}; give "
+                "DF moment single lane and DF shear single lane as tabulated (with the "
+                "one-lane multiple presence factor 1.2, which spanfleet divides out), or take "
+                "the fatigue load out of the fleet",
+                "error",
+            )
+    if rated:
+        for at, name in rows:
+            caution = library.model(name).caution
+            if caution and at[0] == "vehicles":
+                yield (at, "library-caution", f"{library.model(name).name}: {caution}", "warning")
+
+
 def _spacings(
     value: object, axles: list[float] | None, at: DocPath, cx: _Context
 ) -> Iterator[_Found]:
@@ -486,6 +547,7 @@ def check_document(
     segments = document.get("segments")
     if isinstance(segments, list):
         found += segment_problems(segments, document, cx.ok, UNIT_LABELS[cx.units]["length"])
+    found += _library_needs(document, settings, bool(capacities), cx)
     out = []
     for path, code, message, severity in found:
         sheet, cell = locator.where(path)

@@ -1,46 +1,99 @@
 """The AASHTO and FHWA load models, defined in kip, ft and kip/ft.
 
-Where a value was seen in a published source it says so; where it could not
-be checked against the standard's text it is marked "from memory", here and in
-the model's ``source`` text. Sources seen, besides the standards named:
-
-* HL-93 and the fatigue truck: an HL-93 article from engineeringcivil.org (posted
-  on Scribd), an HL-93 loading page at aboutcivil.org, an engineers' forum thread
-  at engineerboards.com quoting LRFD Table 3.6.2.1-1, and an excerpt of AASHTO
-  LRFD (2014) Art. 3.6.1.4.1 posted on Scribd;
-* the H and HS family and the alternate military load: structural engineers'
-  mailing-list posts (SEAINT archive, 1999 and 2000), an HS20-44 explainer at
-  knowledgewow.com, the AASHO 1941 loadings (H15 = 75 % of H20) as printed in
-  *Interregional Highways* (on Wikisource), and the TxDOT Bridge Inspection
-  Manual, ch. 6 (HS scaling);
-* the specialized hauling and emergency vehicles: the FHWA memorandum on
-  specialized hauling vehicles (fhwa.dot.gov/bridge/loadrating/131115.cfm), FHWA's
-  questions and answers on the FAST Act emergency vehicles (2016, as reported by
-  J. J. Keller) and the FHWA FAST Act truck size and weight fact sheet.
+Every value is a :class:`~batch.loads.sourced.Sourced`: its source (standard,
+edition, article), its status (``verified`` in the standard's own text,
+``secondary`` in a published text that states it, or ``from memory``) and
+where it was seen. docs/load-models.md lists them all, generated from here.
 """
 
 from __future__ import annotations
 
-from batch.loads.library.models import UNBOUNDED, LoadModel, part
+from batch.loads.factors import FATIGUE_I, FATIGUE_II, FATIGUE_NO_MULTIPLE_PRESENCE
+from batch.loads.library.models import LoadModel, part
+from batch.loads.sourced import UNBOUNDED, Sourced
 
 __all__ = ["US_MODELS"]
 
-# HL-93 design truck: 8, 32, 32 kip at 14 ft then 14-30 ft; tandem 2 x 25 kip at
-# 4 ft; lane 0.64 kip/ft; IM on truck and tandem only (LRFD 3.6.1.2.2-3.6.1.2.4,
-# 3.6.2.1; seen in the HL-93 article, the aboutcivil.org page and the forum thread
-# named above).
-_TRUCK = (8.0, 32.0, 32.0)
-_TANDEM = (25.0, 25.0)
-_LANE = 0.64
-# Two design trucks with 14 ft rear spacings, at least 50 ft from the lead axle of
-# one to the rear axle of the other, 90 % of trucks and lane (LRFD 3.6.1.3.1; the
-# 90 %, 50 ft and 14 ft were seen quoted from that article in a search result).
-_TWO_TRUCKS = (*_TRUCK, *_TRUCK)
-_TWO_TRUCK_SPACINGS = (14.0, 14.0, (50.0, UNBOUNDED), 14.0, 14.0)
+_STD = "AASHTO Standard Specifications for Highway Bridges, 17th ed. (2002)"
+_LRFD = "AASHTO LRFD Bridge Design Specifications, 7th ed. (2014) and later"
+_MBE = "AASHTO Manual for Bridge Evaluation, 3rd ed. (2018)"
+_SEAINT = "engineers' descriptions of the article in the SEAINT mailing-list archive"
 
-_DROP_NOTE = (
-    " Axles that would lessen an effect are left out (LRFD 3.6.1.3.1: axles that do not"
-    " contribute to the extreme force effect are neglected)."
+# ---------------------------------------------------------------- Standard Specifications
+
+_HS20_AXLES = Sourced(
+    what="HS20-44 axle loads",
+    value=(8.0, 32.0, 32.0),
+    unit="kip",
+    source=f"{_STD}, Art. 3.7.7, Fig. 3.7.7A",
+    status="secondary",
+    seen=f"{_SEAINT} (1996, 2004): 4 and 16 tons, rear spacing 14 to 30 ft",
+)
+_HS_SPACINGS = Sourced(
+    what="HS truck spacings (the rear one varied for the worst effect)",
+    value=(14.0, (14.0, 30.0)),
+    unit="ft",
+    source=f"{_STD}, Art. 3.7.7, Fig. 3.7.7A",
+    status="secondary",
+    seen=f"{_SEAINT} (1996, 2004)",
+)
+_H20_AXLES = Sourced(
+    what="H20-44 axle loads",
+    value=(8.0, 32.0),
+    unit="kip",
+    source=f"{_STD}, Art. 3.7.6, Fig. 3.7.6A",
+    status="secondary",
+    seen=f"{_SEAINT} (2004); Khan, Bridge and Highway Structure Rehabilitation and Repair"
+    " (McGraw-Hill, 2010), Table 6.7",
+)
+_H_SPACING = Sourced(
+    what="H truck axle spacing",
+    value=(14.0,),
+    unit="ft",
+    source=f"{_STD}, Art. 3.7.6, Fig. 3.7.6A",
+    status="secondary",
+    seen=f"{_SEAINT} (2004)",
+)
+_SEVENTY_FIVE = "the 1941 AASHO loadings as printed in Interregional Highways (1944), Appendix 6"
+_HS15_AXLES = Sourced(
+    what="HS15-44 axle loads (75 % of HS20-44)",
+    value=(6.0, 24.0, 24.0),
+    unit="kip",
+    source=f"{_STD}, Art. 3.7.7",
+    status="secondary",
+    seen=f"{_SEVENTY_FIVE} (H15-S12 is 75 % of H20-S16, spacings unchanged)",
+)
+_H15_AXLES = Sourced(
+    what="H15-44 axle loads (75 % of H20-44)",
+    value=(6.0, 24.0),
+    unit="kip",
+    source=f"{_STD}, Art. 3.7.6",
+    status="secondary",
+    seen=f"{_SEVENTY_FIVE} (H15 is 75 % of H20); {_SEAINT} (2004): 3 and 12 tons",
+)
+_MILITARY_AXLES = Sourced(
+    what="alternate military loading: two axles",
+    value=(24.0, 24.0),
+    unit="kip",
+    source=f"{_STD}, Art. 3.7.4",
+    status="secondary",
+    seen=f"{_SEAINT} (2000, 2004)",
+)
+_MILITARY_SPACING = Sourced(
+    what="alternate military loading: axle spacing",
+    value=(4.0,),
+    unit="ft",
+    source=f"{_STD}, Art. 3.7.4",
+    status="secondary",
+    seen=f"{_SEAINT} (2000, 2004)",
+)
+_RUN_IMPACT_STD = Sourced(
+    what="impact I = 50/(L + 125) <= 0.30 is not computed: the run's dynamic load"
+    " allowance applies",
+    source=f"{_STD}, Art. 3.8.2",
+    status="secondary",
+    seen="the formula and its 30 % cap in the documentation of civilpy, an open-source"
+    " structural library (HS20Load.impact_factor)",
 )
 
 HS20 = LoadModel(
@@ -48,13 +101,12 @@ HS20 = LoadModel(
     aliases=("HS20-44",),
     units="US",
     category="design",
-    source="AASHTO Standard Specifications for Highway Bridges, 17th ed. (2002), Art. 3.7"
-    " (HS20-44 truck); axle loads and spacings seen in published summaries",
+    source=f"{_STD}, Art. 3.7 (HS20-44 truck)",
     description="Standard truck 8, 32, 32 kip; 14 ft, then 14 to 30 ft (the worst spacing in"
     " that range is used). Truck loading only: the equivalent lane loading is not included."
     " The run's dynamic load allowance applies; the Standard Specifications' span-dependent"
     " impact 50/(L + 125) <= 0.30 is not computed.",
-    parts=(part("", _TRUCK, (14.0, (14.0, 30.0))),),  # seen: SEAINT post, knowledgewow.com
+    parts=(part("", _HS20_AXLES, _HS_SPACINGS, rules=(_RUN_IMPACT_STD,)),),
 )
 
 H20 = LoadModel(
@@ -62,11 +114,10 @@ H20 = LoadModel(
     aliases=("H20-44",),
     units="US",
     category="design",
-    source="AASHTO Standard Specifications for Highway Bridges, 17th ed. (2002), Art. 3.7"
-    " (H20-44 truck); seen in published summaries",
+    source=f"{_STD}, Art. 3.7 (H20-44 truck)",
     description="Two-axle standard truck 8, 32 kip at 14 ft. Truck loading only. The run's"
     " dynamic load allowance applies.",
-    parts=(part("", (8.0, 32.0), (14.0,)),),  # seen: SEAINT post; AASHO 1941
+    parts=(part("", _H20_AXLES, _H_SPACING, rules=(_RUN_IMPACT_STD,)),),
 )
 
 HS15 = LoadModel(
@@ -74,10 +125,9 @@ HS15 = LoadModel(
     aliases=("HS15-44",),
     units="US",
     category="design",
-    source="AASHTO Standard Specifications for Highway Bridges, 17th ed. (2002), Art. 3.7"
-    " (HS15-44 = 75 % of HS20-44); seen in published summaries",
+    source=f"{_STD}, Art. 3.7 (HS15-44 = 75 % of HS20-44)",
     description="75 % of HS20: 6, 24, 24 kip; 14 ft, then 14 to 30 ft. Truck loading only.",
-    parts=(part("", (6.0, 24.0, 24.0), (14.0, (14.0, 30.0))),),  # 75 % rule seen: AASHO 1941
+    parts=(part("", _HS15_AXLES, _HS_SPACINGS, rules=(_RUN_IMPACT_STD,)),),
 )
 
 H15 = LoadModel(
@@ -85,10 +135,9 @@ H15 = LoadModel(
     aliases=("H15-44",),
     units="US",
     category="design",
-    source="AASHTO Standard Specifications for Highway Bridges, 17th ed. (2002), Art. 3.7"
-    " (H15-44 = 75 % of H20-44); seen in published summaries",
+    source=f"{_STD}, Art. 3.7 (H15-44 = 75 % of H20-44)",
     description="75 % of H20: 6, 24 kip at 14 ft. Truck loading only.",
-    parts=(part("", (6.0, 24.0), (14.0,)),),  # 75 % rule seen: AASHO 1941
+    parts=(part("", _H15_AXLES, _H_SPACING, rules=(_RUN_IMPACT_STD,)),),
 )
 
 ALTERNATE_MILITARY = LoadModel(
@@ -96,81 +145,243 @@ ALTERNATE_MILITARY = LoadModel(
     aliases=("Alt military", "Military"),
     units="US",
     category="design",
-    source="AASHTO Standard Specifications for Highway Bridges, 17th ed. (2002), Art. 3.7.4"
-    " (alternate military loading); seen in published summaries",
-    description="Two 24 kip axles 4 ft apart.",
-    parts=(part("", (24.0, 24.0), (4.0,)),),  # seen: SEAINT post (2000)
+    source=f"{_STD}, Art. 3.7.4 (alternate military loading)",
+    description="Two 24 kip axles 4 ft apart. The run's dynamic load allowance applies.",
+    parts=(part("", _MILITARY_AXLES, _MILITARY_SPACING),),
+)
+
+# ---------------------------------------------------------------- LRFD: HL-93, fatigue
+
+_HL93_SUMMARIES = (
+    "published summaries of the article giving the SI values beside them (an HL-93 article"
+    " of EngineeringCivil.org; aboutcivil.org's HL-93 page)"
+)
+_TRUCK = Sourced(
+    what="design truck axle loads",
+    value=(8.0, 32.0, 32.0),
+    unit="kip",
+    source=f"{_LRFD}, Art. 3.6.1.2.2, Fig. 3.6.1.2.2-1",
+    status="secondary",
+    seen=_HL93_SUMMARIES,
+)
+_TRUCK_SPACINGS = Sourced(
+    what="design truck spacings (the rear one varied for the worst effect)",
+    value=(14.0, (14.0, 30.0)),
+    unit="ft",
+    source=f"{_LRFD}, Art. 3.6.1.2.2, Fig. 3.6.1.2.2-1",
+    status="secondary",
+    seen=_HL93_SUMMARIES,
+)
+_TANDEM = Sourced(
+    what="design tandem axle loads",
+    value=(25.0, 25.0),
+    unit="kip",
+    source=f"{_LRFD}, Art. 3.6.1.2.3",
+    status="secondary",
+    seen=_HL93_SUMMARIES,
+)
+_TANDEM_SPACING = Sourced(
+    what="design tandem axle spacing",
+    value=(4.0,),
+    unit="ft",
+    source=f"{_LRFD}, Art. 3.6.1.2.3",
+    status="secondary",
+    seen=_HL93_SUMMARIES,
+)
+_LANE = Sourced(
+    what="design lane load",
+    value=(0.64,),
+    unit="kip/ft",
+    source=f"{_LRFD}, Art. 3.6.1.2.4",
+    status="secondary",
+    seen=_HL93_SUMMARIES,
+)
+_NO_IM_ON_LANE = Sourced(
+    what="the dynamic load allowance applies to the truck and tandem, never to the lane load",
+    source=f"{_LRFD}, Art. 3.6.1.2.4 and 3.6.2.1",
+    status="verified",
+    seen="a reproduced page of Art. 3.6.1.2.4 of the SI edition (lane force effects 'shall"
+    " not be subject to a dynamic load allowance')",
+)
+_DROP_AXLES = Sourced(
+    what="axles that do not contribute to the extreme force effect are neglected",
+    source=f"{_LRFD}, Art. 3.6.1.3.1",
+    status="from memory",
+)
+_TWO_TRUCK_FACTOR = Sourced(
+    what="two-truck load: fraction of the trucks and lane load",
+    value=(0.90,),
+    source=f"{_LRFD}, Art. 3.6.1.3.1",
+    status="secondary",
+    seen="an engineer's restatement of the article in the SEAINT mailing-list archive"
+    " (2003); an HL-93 article of EngineeringCivil.org",
+)
+_TWO_TRUCK_HEADWAY = Sourced(
+    what="two-truck load: lead axle of one truck to rear axle of the other",
+    value=((50.0, UNBOUNDED),),
+    unit="ft",
+    source=f"{_LRFD}, Art. 3.6.1.3.1",
+    status="secondary",
+    seen="an engineer's restatement of the article in the SEAINT mailing-list archive"
+    " (2003); an HL-93 article of EngineeringCivil.org",
+)
+_TWO_TRUCK_SPACINGS = Sourced(
+    what="two-truck load: spacings of each truck (rear spacing fixed)",
+    value=(14.0, 14.0),
+    unit="ft",
+    source=f"{_LRFD}, Art. 3.6.1.3.1",
+    status="from memory",
+)
+_TWO_TRUCK_SCOPE = Sourced(
+    what="two-truck load only for hogging moment between the points of contraflexure under"
+    " a uniform load on all spans, and for reactions at interior piers",
+    source=f"{_LRFD}, Art. 3.6.1.3.1",
+    status="from memory",
 )
 
 HL93 = LoadModel(
     name="HL-93",
+    aliases=("HL-93 (US edition)",),
     units="US",
     category="design",
-    source="AASHTO LRFD Bridge Design Specifications (7th ed. 2014 and later), Art. 3.6.1.2"
-    " (design truck, tandem, lane), 3.6.1.3.1 (application, 90 % two-truck rule) and Table"
-    " 3.6.2.1-1 (IM); values seen in published excerpts",
-    description="Envelope of design truck + lane and design tandem + lane, and, for hogging"
-    " moment between the points of contraflexure under uniform load and for interior"
-    " reactions only, 90 % of two design trucks (14 ft rear spacings, at least 50 ft from"
-    " the lead axle of one to the rear axle of the other) with 90 % of the lane load. The"
-    " run's dynamic load allowance applies to trucks and tandem, never to the lane"
-    " load." + _DROP_NOTE,
+    source=f"{_LRFD}, Art. 3.6.1.2 (design truck, tandem, lane), 3.6.1.3.1 (application,"
+    " two-truck rule) and 3.6.2.1 (IM); US customary values, converted exactly in SI runs",
+    description="HL-93 of the US customary edition (in an SI run its exact conversion; the SI"
+    " edition's own values are 'HL-93 (SI edition)'). Envelope of design truck + lane and"
+    " design tandem + lane, and, for hogging moment between the points of contraflexure"
+    " under uniform load and for interior reactions only, 90 % of two design trucks (14 ft"
+    " rear spacings, at least 50 ft from the lead axle of one to the rear axle of the other)"
+    " with 90 % of the lane load. The run's dynamic load allowance applies to trucks and"
+    " tandem, never to the lane load. Axles that would lessen an effect are left out.",
     parts=(
         part(
             "truck + lane",
             _TRUCK,
-            (14.0, (14.0, 30.0)),
+            _TRUCK_SPACINGS,
             lane_load=_LANE,
             drop_adverse_axles=True,
+            rules=(_NO_IM_ON_LANE, _DROP_AXLES),
         ),
-        part("tandem + lane", _TANDEM, (4.0,), lane_load=_LANE, drop_adverse_axles=True),
+        part(
+            "tandem + lane",
+            _TANDEM,
+            _TANDEM_SPACING,
+            lane_load=_LANE,
+            drop_adverse_axles=True,
+            rules=(_NO_IM_ON_LANE, _DROP_AXLES),
+        ),
         part(
             "two trucks + lane, 90 %",
-            _TWO_TRUCKS,
-            _TWO_TRUCK_SPACINGS,
+            (_TRUCK, _TRUCK),
+            (_TWO_TRUCK_SPACINGS, _TWO_TRUCK_HEADWAY, _TWO_TRUCK_SPACINGS),
             lane_load=_LANE,
-            factor=0.90,
+            factor=_TWO_TRUCK_FACTOR,
             scope="interior-hogging",
             drop_adverse_axles=True,
+            rules=(_TWO_TRUCK_SCOPE, _NO_IM_ON_LANE, _DROP_AXLES),
         ),
     ),
 )
 
-FATIGUE = LoadModel(
-    name="Fatigue truck",
-    aliases=("LRFD fatigue", "HL-93 fatigue", "Fatigue"),
-    units="US",
-    category="design",
-    source="AASHTO LRFD Bridge Design Specifications (7th ed. 2014 and later), Art."
-    " 3.6.1.4.1 and Table 3.6.2.1-1 (IM 15 %); seen in published excerpts",
-    description="One design truck 8, 32, 32 kip with a fixed 30 ft spacing between the"
-    " 32 kip axles, or axles thereof; no lane load. IM is fixed at 0.15 whatever the run's"
-    " setting. The fatigue load factor (Fatigue I or II) is not included: put it in the"
-    " row's Factor.",
-    # "one design truck or axles thereof": axles that lessen an effect are left out (seen in the
-    # LRFD 3.6.1.4.1 excerpt).
-    parts=(part("", _TRUCK, (14.0, 30.0), impact=0.15, drop_adverse_axles=True),),
+_FATIGUE_SPACINGS = Sourced(
+    what="fatigue truck spacings (constant 30 ft between the 32 kip axles)",
+    value=(14.0, 30.0),
+    unit="ft",
+    source=f"{_LRFD}, Art. 3.6.1.4.1",
+    status="verified",
+    seen="a reproduced page of Art. 3.6.1.4.1 of the 7th ed. (2014): one design truck 'or"
+    " axles thereof' with a constant 30.0 ft spacing between the 32.0 kip axles, the dynamic"
+    " load allowance applied",
+)
+_FATIGUE_AXLES = Sourced(
+    what="fatigue load: one design truck or axles thereof (axles that lessen an effect left out)",
+    source=f"{_LRFD}, Art. 3.6.1.4.1",
+    status="verified",
+    seen="a reproduced page of Art. 3.6.1.4.1 of the 7th ed. (2014)",
+)
+_FATIGUE_IM = Sourced(
+    what="dynamic load allowance, fatigue and fracture limit state",
+    value=(0.15,),
+    source=f"{_LRFD}, Table 3.6.2.1-1",
+    status="secondary",
+    seen="an engineer's answer listing Table 3.6.2.1-1 (75 % deck joints, 15 % fatigue, 33 %"
+    " otherwise) on engineerboards.com",
 )
 
-_MBE = "AASHTO Manual for Bridge Evaluation, 3rd ed. (2018), Art. 6A.4.4.2.1 and Appendix D6A"
+
+def _fatigue(name: str, aliases: tuple[str, ...], factor: Sourced | None, what: str) -> LoadModel:
+    return LoadModel(
+        name=name,
+        aliases=aliases,
+        units="US",
+        category="design",
+        source=f"{_LRFD}, Art. 3.6.1.4.1 (fatigue load), 3.6.1.1.2 (no multiple presence),"
+        " Tables 3.6.2.1-1 (IM 15 %) and 3.4.1-1 (fatigue load factors)",
+        description=f"One design truck 8, 32, 32 kip with a fixed 30 ft spacing between the"
+        f" 32 kip axles, or axles thereof; no lane load; IM fixed at 0.15 whatever the run's"
+        f" setting; {what} Its effects use each member's single-lane distribution factors"
+        " (DF moment single lane, DF shear single lane) divided by 1.2, the one-lane"
+        " multiple presence factor. The Fatigue sheet gives its moment range at every"
+        " station (largest minus smallest moment).",
+        parts=(
+            part(
+                "",
+                _TRUCK,
+                _FATIGUE_SPACINGS,
+                impact=_FATIGUE_IM,
+                factor=factor,
+                drop_adverse_axles=True,
+                fatigue=True,
+                rules=(_FATIGUE_AXLES, FATIGUE_NO_MULTIPLE_PRESENCE),
+            ),
+        ),
+        caution="a fatigue load is not rated by the strength equation: its rating factors"
+        " (with the design live-load factor) mean nothing; use its moment range (Fatigue"
+        " sheet) and leave it out of the rated fleet",
+    )
+
+
+FATIGUE = _fatigue(
+    "Fatigue truck",
+    ("LRFD fatigue", "HL-93 fatigue", "Fatigue"),
+    None,
+    "no load factor (put Fatigue I or II's in the row's Factor, or use those models).",
+)
+FATIGUE_I_MODEL = _fatigue(
+    "Fatigue I", ("Fatigue I truck",), FATIGUE_I, "times the Fatigue I load factor 1.75."
+)
+FATIGUE_II_MODEL = _fatigue(
+    "Fatigue II", ("Fatigue II truck",), FATIGUE_II, "times the Fatigue II load factor 0.80."
+)
+
+# ---------------------------------------------------------------- MBE legal loads
+
 _LEGAL_NOTE = (
     " The run's dynamic load allowance applies (the MBE's standard IM for legal loads is"
     " 33 %, from memory). Every axle counts wherever it stands."
 )
+_D6A = f"{_MBE}, Art. 6A.4.4.2.1a and Appendix D6A"
 
-# The AASHTO legal trucks (MBE 6A.4.4.2.1, Appendix D6A): axle loads and spacings
-# from memory.
-_TYPE_33 = (12.0, 12.0, 12.0, 16.0, 14.0, 14.0)
-_TYPE_33_SPACINGS = (15.0, 4.0, 15.0, 16.0, 4.0)
+
+def _legal(what: str, value: tuple[float, ...], unit: str) -> Sourced:
+    return Sourced(what=what, value=value, unit=unit, source=_D6A, status="from memory")
+
+
+_TYPE_3 = _legal("Type 3 axle loads", (16.0, 17.0, 17.0), "kip")
+_TYPE_3_SPACINGS = _legal("Type 3 spacings", (15.0, 4.0), "ft")
+_TYPE_3S2 = _legal("Type 3S2 axle loads", (10.0, 15.5, 15.5, 15.5, 15.5), "kip")
+_TYPE_3S2_SPACINGS = _legal("Type 3S2 spacings", (11.0, 4.0, 22.0, 4.0), "ft")
+_TYPE_33 = _legal("Type 3-3 axle loads", (12.0, 12.0, 12.0, 16.0, 14.0, 14.0), "kip")
+_TYPE_33_SPACINGS = _legal("Type 3-3 spacings", (15.0, 4.0, 15.0, 16.0, 4.0), "ft")
 
 TYPE_3 = LoadModel(
     name="Type 3",
     units="US",
     category="legal",
-    source=_MBE + " (AASHTO legal loads); axle loads and spacings from memory",
+    source=f"{_D6A} (AASHTO legal loads)",
     description="AASHTO legal Type 3 unit: 16, 17, 17 kip at 15, 4 ft (50 kip, 25 t)."
     + _LEGAL_NOTE,
-    parts=(part("", (16.0, 17.0, 17.0), (15.0, 4.0)),),  # from memory
+    parts=(part("", _TYPE_3, _TYPE_3_SPACINGS),),
 )
 
 TYPE_3S2 = LoadModel(
@@ -178,10 +389,10 @@ TYPE_3S2 = LoadModel(
     aliases=("3S2",),
     units="US",
     category="legal",
-    source=_MBE + " (AASHTO legal loads); axle loads and spacings from memory",
+    source=f"{_D6A} (AASHTO legal loads)",
     description="AASHTO legal Type 3S2 semi: 10, 15.5, 15.5, 15.5, 15.5 kip at 11, 4, 22, 4 ft"
     " (72 kip, 36 t)." + _LEGAL_NOTE,
-    parts=(part("", (10.0, 15.5, 15.5, 15.5, 15.5), (11.0, 4.0, 22.0, 4.0)),),  # from memory
+    parts=(part("", _TYPE_3S2, _TYPE_3S2_SPACINGS),),
 )
 
 TYPE_33 = LoadModel(
@@ -189,49 +400,85 @@ TYPE_33 = LoadModel(
     aliases=("3-3",),
     units="US",
     category="legal",
-    source=_MBE + " (AASHTO legal loads); axle loads and spacings from memory",
+    source=f"{_D6A} (AASHTO legal loads)",
     description="AASHTO legal Type 3-3 train: 12, 12, 12, 16, 14, 14 kip at 15, 4, 15, 16, 4 ft"
     " (80 kip, 40 t)." + _LEGAL_NOTE,
-    parts=(part("", _TYPE_33, _TYPE_33_SPACINGS),),  # from memory
+    parts=(part("", _TYPE_33, _TYPE_33_SPACINGS),),
 )
 
-# Lane-type legal load: 75 % of Type 3-3 with 0.2 kip/ft; and two 75 % Type 3-3
-# heading the same way, 30 ft clear (rear axle of one to front axle of the other),
-# with 0.2 kip/ft for negative moment and interior reactions. The 75 % is on the
-# trucks only, so it is in the axle loads, not the part factor. From memory
-# (MBE 6A.4.4.2.1).
-_TYPE_33_75 = tuple(0.75 * p for p in _TYPE_33)
+# The lane-type legal load. The 75 % is on the trucks only, so it is in the axle loads,
+# not the part factor.
+_LANE_TYPE_FRACTION = _legal("lane-type model: fraction of the Type 3-3 axle loads", (0.75,), "")
+_TYPE_33_75 = Sourced.derived(
+    "0.75 x Type 3-3 axle loads",
+    tuple(0.75 * p for p in _TYPE_33.numbers),
+    "kip",
+    _TYPE_33,
+    _LANE_TYPE_FRACTION,
+)
+_LEGAL_LANE_LOAD = _legal("lane-type model: lane load", (0.2,), "kip/ft")
+_LANE_TYPE_SPAN = Sourced(
+    what="lane-type model: the single truck with lane load applies to spans this long or"
+    " longer (only the vehicles below); a member qualifies by its longest span",
+    value=(200.0,),
+    unit="ft",
+    source=_D6A,
+    status="from memory",
+)
+_LEGAL_CLEAR = _legal(
+    "two-truck model: clear distance, rear axle of the lead truck to front axle of the next",
+    (30.0,),
+    "ft",
+)
+_LEGAL_TWO_TRUCK_SCOPE = Sourced(
+    what="two-truck model, at any span: negative moment and reactions at interior supports,"
+    " the trucks heading the same way",
+    source=_D6A,
+    status="from memory",
+)
+_LANE_TYPE_W = Sourced(
+    what="posting: gross weight W when the lane-type model governs",
+    value=(80.0,),
+    unit="kip",
+    source=f"{_MBE}, Art. 6A.8.3",
+    status="from memory",
+)
 
 LEGAL_LANE = LoadModel(
     name="Legal lane",
     aliases=("Lane-type legal", "Legal lane load", "Type 3-3 lane"),
     units="US",
     category="legal",
-    source=_MBE + " (lane-type legal load model); values and span rule from memory",
-    description="75 % of Type 3-3 with 0.2 kip/ft; and, for hogging moment between the"
-    " points of contraflexure under uniform load and for interior reactions, two 75 % Type"
-    " 3-3 trucks heading the same way, 30 ft clear between them, with 0.2 kip/ft. The MBE"
-    " asks for the first part on spans of 200 ft or more (from memory) and for the"
-    " two-truck part at any span; the engine applies both to every member it is run on, which"
-    " on shorter spans can only add to the fleet's envelope: leave the row out for members"
-    " whose spans are all under 200 ft if the single-truck part should not apply. The"
-    " two-truck part uses the HL-93 region (between the points of contraflexure) for"
-    " hogging." + _LEGAL_NOTE,
+    source=f"{_D6A} (lane-type legal load models) and 6A.8.3 (posting weight)",
+    description="Lane-type legal load. On members with a span of 200 ft or more: 75 % of"
+    " Type 3-3 with 0.2 kip/ft (on shorter members this part gives nothing: the legal trucks"
+    " alone apply there). On every member, for hogging moment at every station and for"
+    " reactions at interior supports: two 75 % Type 3-3 trucks heading the same way, 30 ft"
+    " clear between them, with 0.2 kip/ft. Posting uses W = 80 kip (40 t), the Type 3-3's"
+    " weight, not the 60 kip of the reduced truck." + _LEGAL_NOTE,
     parts=(
-        part("75 % Type 3-3 + lane", _TYPE_33_75, _TYPE_33_SPACINGS, lane_load=0.2),
+        part(
+            "75 % Type 3-3 + lane",
+            _TYPE_33_75,
+            _TYPE_33_SPACINGS,
+            lane_load=_LEGAL_LANE_LOAD,
+            min_span=_LANE_TYPE_SPAN,
+        ),
         part(
             "two 75 % Type 3-3 + lane",
-            (*_TYPE_33_75, *_TYPE_33_75),
-            (*_TYPE_33_SPACINGS, 30.0, *_TYPE_33_SPACINGS),
-            lane_load=0.2,
-            scope="interior-hogging",
+            (_TYPE_33_75, _TYPE_33_75),
+            (_TYPE_33_SPACINGS, _LEGAL_CLEAR, _TYPE_33_SPACINGS),
+            lane_load=_LEGAL_LANE_LOAD,
+            scope="hogging-interior-reactions",
+            rules=(_LEGAL_TWO_TRUCK_SCOPE,),
         ),
     ),
+    gross_weight=_LANE_TYPE_W,
 )
 
-# Specialized hauling vehicles (NCHRP Report 575; adopted by AASHTO in 2005, names
-# seen in the FHWA memorandum on specialized hauling vehicles). Axle loads and spacings
-# from memory (MBE Appendix D6A).
+# ---------------------------------------------------------------- SHVs and the NRL
+
+_SHV_SOURCE = f"{_MBE}, Art. 6A.4.4.2.1b and Appendix D6A, from NCHRP Report 575 (2007)"
 _SHV = {
     "SU4": ((12.0, 8.0, 17.0, 17.0), (10.0, 4.0, 4.0)),
     "SU5": ((12.0, 8.0, 8.0, 17.0, 17.0), (10.0, 4.0, 4.0, 4.0)),
@@ -239,22 +486,61 @@ _SHV = {
     "SU7": ((11.5, 8.0, 8.0, 17.0, 17.0, 8.0, 8.0), (10.0, 4.0, 4.0, 4.0, 4.0, 4.0)),
 }
 
-SHVS = tuple(
-    LoadModel(
+
+def _shv(name: str, loads: tuple[float, ...], spacings: tuple[float, ...]) -> LoadModel:
+    return LoadModel(
         name=name,
         units="US",
         category="legal",
-        source=_MBE + " (specialized hauling vehicles, from NCHRP Report 575, 2007);"
-        " axle loads and spacings from memory",
+        source=f"{_SHV_SOURCE} (specialized hauling vehicles)",
         description=f"Specialized hauling single-unit truck {name}: "
         + ", ".join(f"{p:g}" for p in loads)
         + " kip at "
         + ", ".join(f"{s:g}" for s in spacings)
         + f" ft ({sum(loads):g} kip)."
         + _LEGAL_NOTE,
-        parts=(part("", loads, spacings),),
+        parts=(
+            part(
+                "",
+                Sourced(
+                    what=f"{name} axle loads",
+                    value=loads,
+                    unit="kip",
+                    source=_SHV_SOURCE,
+                    status="from memory",
+                ),
+                Sourced(
+                    what=f"{name} spacings",
+                    value=spacings,
+                    unit="ft",
+                    source=_SHV_SOURCE,
+                    status="from memory",
+                ),
+            ),
+        ),
     )
-    for name, (loads, spacings) in _SHV.items()
+
+
+SHVS = tuple(_shv(name, loads, spacings) for name, (loads, spacings) in _SHV.items())
+
+_NRL_AXLES = Sourced(
+    what="NRL axle loads",
+    value=(6.0, 8.0, 8.0, 17.0, 17.0, 8.0, 8.0, 8.0),
+    unit="kip",
+    source=_SHV_SOURCE,
+    status="from memory",
+)
+_NRL_SPACINGS = Sourced(
+    what="NRL spacings (the first varies, for the worst effect)",
+    value=((6.0, 14.0), 4.0, 4.0, 4.0, 4.0, 4.0, 4.0),
+    unit="ft",
+    source=_SHV_SOURCE,
+    status="from memory",
+)
+_NRL_DROP = Sourced(
+    what="NRL: axles that do not contribute to the maximum load effect are neglected",
+    source=_SHV_SOURCE,
+    status="from memory",
 )
 
 NRL = LoadModel(
@@ -262,53 +548,88 @@ NRL = LoadModel(
     aliases=("Notional rating load",),
     units="US",
     category="legal",
-    source=_MBE + " (notional rating load, from NCHRP Report 575, 2007); axle loads and"
-    " spacings from memory: the first spacing is taken as a fixed 6 ft, not checked"
-    " against the MBE figure",
-    description="Notional rating load: 6, 8, 8, 17, 17, 8, 8, 8 kip at 6 ft, then 4 ft"
-    " (80 kip). A screening load: RF >= 1 for NRL means SU4 to SU7 need not be rated."
-    " Axles that would lessen an effect are left out (the MBE's note on the NRL, from"
-    " memory), which is what lets it envelope the SU trucks. The run's dynamic load"
-    " allowance applies.",
-    parts=(
-        part(
-            "",
-            (6.0, 8.0, 8.0, 17.0, 17.0, 8.0, 8.0, 8.0),
-            (6.0, 4.0, 4.0, 4.0, 4.0, 4.0, 4.0),
-            drop_adverse_axles=True,
-        ),
-    ),
+    source=f"{_SHV_SOURCE} (notional rating load)",
+    description="Notional rating load: 6, 8, 8, 17, 17, 8, 8, 8 kip (80 kip); the first"
+    " spacing varies from 6 to 14 ft (the worst is used), then six of 4 ft. A screening"
+    " load: RF >= 1 for NRL means SU4 to SU7 need not be rated. Axles that would lessen an"
+    " effect are left out, which is what lets it envelope the SU trucks. The run's dynamic"
+    " load allowance applies.",
+    parts=(part("", _NRL_AXLES, _NRL_SPACINGS, drop_adverse_axles=True, rules=(_NRL_DROP,)),),
 )
+
+# ---------------------------------------------------------------- emergency vehicles
 
 _EV_SOURCE = (
-    "FHWA memorandum on load rating for the FAST Act's emergency vehicles (2016-11-03) and"
-    " MBE 6A.4.4.2.1 (2019 interim): axle limits and gross weight seen in FHWA material;"
-    " axle spacings from memory"
+    "FHWA memorandum 'Load Rating for the FAST Act's Emergency Vehicles' (2016-11-03) and"
+    f" {_MBE} with its 2019 interim revisions, Art. 6A.4.4.2.1"
+)
+_FAST_ACT = (
+    "FHWA's notice of February 2016 on the FAST Act's size and weight provisions, as"
+    " summarised by J. J. Keller (2016-03-02); Kentucky Transportation Cabinet, 'Know Your"
+    " Limits' (86,000 lb gross)"
+)
+_EV2_AXLES = Sourced(
+    what="EV2 axle loads: steering axle and single drive axle (the FAST Act limits)",
+    value=(24.0, 33.5),
+    unit="kip",
+    source=f"{_EV_SOURCE}; 23 U.S.C. 127 as amended by the FAST Act",
+    status="secondary",
+    seen=_FAST_ACT,
+)
+_EV2_SPACING = Sourced(
+    what="EV2 axle spacing", value=(15.0,), unit="ft", source=_EV_SOURCE, status="from memory"
+)
+_EV3_AXLES = Sourced(
+    what="EV3 axle loads: steering axle and a 62 kip tandem (the FAST Act limits, 86 kip)",
+    value=(24.0, 31.0, 31.0),
+    unit="kip",
+    source=f"{_EV_SOURCE}; 23 U.S.C. 127 as amended by the FAST Act",
+    status="secondary",
+    seen=_FAST_ACT,
+)
+_EV3_SPACINGS = Sourced(
+    what="EV3 spacings", value=(15.0, 4.0), unit="ft", source=_EV_SOURCE, status="from memory"
+)
+_EV_CAUTION = (
+    "emergency vehicles are rated here with the generic legal-load factor (LL factor legal)"
+    " and posted by the generic legal-load equation; the MBE's later revisions give"
+    " emergency vehicles their own live-load factors and posting approach (NCHRP 20-07/410),"
+    " which spanfleet does not have in published text: check the rating against them"
 )
 
-EV2 = LoadModel(
-    name="EV2",
-    units="US",
-    category="legal",
-    source=_EV_SOURCE,
-    description="Emergency vehicle, single rear axle: 24 kip steer and 33.5 kip drive axle at"
-    " 15 ft (57.5 kip). The run's dynamic load allowance applies.",
-    parts=(part("", (24.0, 33.5), (15.0,)),),  # loads seen (FHWA EV Q&A); 15 ft from memory
-)
 
-EV3 = LoadModel(
-    name="EV3",
-    units="US",
-    category="legal",
-    source=_EV_SOURCE,
-    description="Emergency vehicle, tandem rear axle: 24 kip steer and 2 x 31 kip (62 kip"
-    " tandem) at 15 ft, then 4 ft (86 kip). The run's dynamic load allowance applies.",
-    parts=(part("", (24.0, 31.0, 31.0), (15.0, 4.0)),),  # loads seen (FHWA); spacings from memory
+def _ev(name: str, description: str, axles: Sourced, spacings: Sourced) -> LoadModel:
+    return LoadModel(
+        name=name,
+        units="US",
+        category="legal",
+        source=_EV_SOURCE,
+        description=description + " The run's dynamic load allowance applies.",
+        parts=(part("", axles, spacings),),
+        caution=_EV_CAUTION,
+    )
+
+
+EV2 = _ev(
+    "EV2",
+    "Emergency vehicle, single rear axle: 24 kip steer and 33.5 kip drive axle at 15 ft"
+    " (57.5 kip).",
+    _EV2_AXLES,
+    _EV2_SPACING,
+)
+EV3 = _ev(
+    "EV3",
+    "Emergency vehicle, tandem rear axle: 24 kip steer and 2 x 31 kip (62 kip tandem) at"
+    " 15 ft, then 4 ft (86 kip).",
+    _EV3_AXLES,
+    _EV3_SPACINGS,
 )
 
 US_MODELS: tuple[LoadModel, ...] = (
     HL93,
     FATIGUE,
+    FATIGUE_I_MODEL,
+    FATIGUE_II_MODEL,
     HS20,
     H20,
     HS15,

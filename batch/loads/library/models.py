@@ -6,25 +6,28 @@ envelopes every part like a separate vehicle, and results name the part that
 governs, e.g. ``HL-93 (tandem + lane)``. Each part is an axle train (fixed or
 ranged spacings), an optional lane load on the adverse parts of each influence
 line, a dynamic load allowance on the axles (fixed by the standard, or the
-run's), a multiplier and a scope (see :data:`batch.engine.envelope.SCOPES`).
+run's), a multiplier, a scope (see :data:`batch.loads.cases.SCOPES`) and a span
+rule.
+
+Every number of a part is a :class:`~batch.loads.sourced.Sourced` value, so the
+model knows where each of its values comes from and whether it was seen in
+published text; :attr:`LoadModel.values` lists them and :attr:`LoadModel.status`
+sums them up.
 
 Loads are downward; axle loads are listed front axle first.
 """
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 from batch.loads.cases import SCOPES, LoadCase
+from batch.loads.sourced import UNBOUNDED, Number, Sourced
 from batch.model import CATEGORIES, UNIT_SYSTEMS, AxleTrain, Category
 from batch.model.units import UnitSystem, conversion
 
 __all__ = ["UNBOUNDED", "LoadModel", "Part", "part"]
-
-#: Upper end of a spacing that the standard leaves open ("at least 50 ft"), in the
-#: model's length unit. The engine caps a range at the member length, so any
-#: value longer than every member gives the same result.
-UNBOUNDED = 10_000.0
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -36,8 +39,11 @@ class Part:
     and ft or m, front axle first; ``lane_load`` kip/ft or kN/m on the adverse parts, with no
     dynamic allowance. ``impact`` is the dynamic load allowance the standard
     fixes for this part, or ``None`` to use the run's. ``factor`` multiplies
-    axles and lane alike. ``drop_adverse_axles`` leaves out axles that would
-    lessen an effect, where the standard says so.
+    axles and lane alike. ``min_span`` (ft or m; 0: none) limits the part to
+    members with a span at least that long. ``drop_adverse_axles`` leaves out
+    axles that would lessen an effect, where the standard says so; ``fatigue``
+    marks a fatigue load (see :class:`~batch.loads.cases.LoadCase`).
+    ``sources`` are the published values and rules the part is built from.
     """
 
     label: str
@@ -46,7 +52,10 @@ class Part:
     impact: float | None = None
     factor: float = 1.0
     scope: str = "all"
+    min_span: float = 0.0
     drop_adverse_axles: bool = False
+    fatigue: bool = False
+    sources: tuple[Sourced, ...] = ()
 
     def __post_init__(self) -> None:
         loads, spacings = self.train.loads, self.train.spacings
@@ -65,30 +74,53 @@ class Part:
         return self.train.weight
 
 
+def _joined(values: Sourced | Sequence[Sourced]) -> tuple[tuple[Number, ...], list[Sourced]]:
+    """The entries of one value, or of several values one after the other."""
+    items = [values] if isinstance(values, Sourced) else list(values)
+    return tuple(n for v in items for n in v.value), items
+
+
 def part(
     label: str,
-    axle_loads: tuple[float, ...],
-    spacings: tuple[float | tuple[float, float], ...] = (),
+    axle_loads: Sourced | Sequence[Sourced],
+    spacings: Sourced | Sequence[Sourced] = (),
     *,
-    lane_load: float = 0.0,
-    impact: float | None = None,
-    factor: float = 1.0,
+    lane_load: Sourced | None = None,
+    impact: Sourced | None = None,
+    factor: Sourced | None = None,
     scope: str = "all",
+    min_span: Sourced | None = None,
     drop_adverse_axles: bool = False,
+    fatigue: bool = False,
+    rules: Sequence[Sourced] = (),
 ) -> Part:
-    """Build a :class:`Part`; a spacing is a number, or ``(low, high)`` for a range."""
+    """Build a :class:`Part` from published values only.
+
+    ``axle_loads`` and ``spacings`` are one value or several joined in order
+    (e.g. two trucks and the headway between them); a spacing entry is a number
+    or a ``(low, high)`` range. ``rules`` are the published rules the part
+    follows (its scope, the axles it leaves out, ...), kept with its sources.
+    """
+    loads, load_sources = _joined(axle_loads)
+    gaps, gap_sources = _joined(spacings)
+    if any(isinstance(p, tuple) for p in loads):
+        raise ValueError(f"part {label!r}: an axle load cannot be a range")
+    single = [v for v in (lane_load, impact, factor, min_span) if v is not None]
     return Part(
         label=label,
         train=AxleTrain.of(
-            axle_loads,
-            [s[0] if isinstance(s, tuple) else s for s in spacings],
-            [s[1] if isinstance(s, tuple) else s for s in spacings],
+            [float(p) for p in loads],  # type: ignore[arg-type]
+            [s[0] if isinstance(s, tuple) else s for s in gaps],
+            [s[1] if isinstance(s, tuple) else s for s in gaps],
         ),
-        lane_load=lane_load,
-        impact=impact,
-        factor=factor,
+        lane_load=0.0 if lane_load is None else lane_load.number,
+        impact=None if impact is None else impact.number,
+        factor=1.0 if factor is None else factor.number,
         scope=scope,
+        min_span=0.0 if min_span is None else min_span.number,
         drop_adverse_axles=drop_adverse_axles,
+        fatigue=fatigue,
+        sources=tuple(dict.fromkeys([*load_sources, *gap_sources, *single, *rules])),
     )
 
 
@@ -99,7 +131,12 @@ class LoadModel:
     ``units`` is the system the model is defined in ("US": kip, ft, kip/ft;
     "SI": kN, m, kN/m); :meth:`cases` converts exactly. ``category`` is the
     rating category it usually belongs to. ``source`` names the standard,
-    edition and article or table, and says which values are from memory.
+    edition and articles; each value's own source and status are in
+    :attr:`values`. ``gross_weight`` is the weight W the posting equation uses
+    when it is not the principal part's axle total (e.g. the lane-type legal
+    load). ``notes`` are published rules of the model as a whole. ``caution`` is
+    a warning given with every run that rates a vehicle naming the model (e.g.
+    a value the rating cannot yet honour); empty for none.
     """
 
     name: str
@@ -109,6 +146,9 @@ class LoadModel:
     description: str
     parts: tuple[Part, ...]
     aliases: tuple[str, ...] = ()
+    gross_weight: Sourced | None = None
+    notes: tuple[Sourced, ...] = ()
+    caution: str = ""
 
     def __post_init__(self) -> None:
         if self.units not in UNIT_SYSTEMS or self.category not in CATEGORIES:
@@ -117,13 +157,47 @@ class LoadModel:
             raise ValueError(f"model {self.name!r}: give at least one part")
 
     @property
+    def fatigue(self) -> bool:
+        """Whether the model has a fatigue load part (single-lane distribution factors)."""
+        return any(p.fatigue for p in self.parts)
+
+    @property
     def axles(self) -> int:
         """Axle count of the model's first (principal) part."""
         return len(self.parts[0].train.loads)
 
     def weight(self, units: UnitSystem) -> float:
-        """Total axle load of the first part, in kip ("US") or kN ("SI")."""
-        return self.parts[0].weight * conversion(self.units, units).force
+        """Gross weight W for posting, in kip ("US") or kN ("SI").
+
+        The model's ``gross_weight`` where it has one, else the total axle load
+        of its first (principal) part.
+        """
+        own = self.parts[0].weight if self.gross_weight is None else self.gross_weight.number
+        return own * conversion(self.units, units).force
+
+    @property
+    def values(self) -> tuple[Sourced, ...]:
+        """Every published value and rule of the model, each once, parts first.
+
+        A computed value (e.g. 75 % of a truck) is listed as the published
+        values it is computed from.
+        """
+        extra = [] if self.gross_weight is None else [self.gross_weight]
+        every = (*(s for p in self.parts for s in p.sources), *extra, *self.notes)
+        return tuple(dict.fromkeys(p for s in every for p in s.published))
+
+    @property
+    def status(self) -> str:
+        """The status of the model's values taken together.
+
+        ``verified``, ``verified (secondary)``, ``partly from memory`` or ``from memory``.
+        """
+        found = {v.status for v in self.values}
+        if found == {"from memory"}:
+            return "from memory"
+        if "from memory" in found:
+            return "partly from memory"
+        return "verified (secondary)" if "secondary" in found else "verified"
 
     def label(self, item: Part) -> str:
         """Result label of one part, e.g. ``HL-93 (tandem + lane)``."""
@@ -144,7 +218,9 @@ class LoadModel:
                 impact=impact if item.impact is None else item.impact,
                 factor=item.factor,
                 scope=item.scope,
+                min_span=item.min_span * c.length,
                 drop_adverse_axles=item.drop_adverse_axles,
+                fatigue=item.fatigue,
             )
             for item in self.parts
         ]
