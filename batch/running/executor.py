@@ -7,7 +7,8 @@ member's result is its envelope (:func:`batch.engine.envelope_of`), its
 per-vehicle peaks (for every vehicle, the extreme M max, M min, V max, V min,
 R max and R min over all stations and supports) and, when the case asks for it,
 its load rating and screening (:mod:`batch.rating.assess`), computed in the same worker
-from the same load-case effects.
+from the same load-case effects, and, when the fleet has a fatigue load, its moment
+ranges (:mod:`batch.engine.fatigue`).
 
 With a :class:`~batch.running.store.CheckpointStore`, every finished member is written to
 it as soon as its chunk returns, and members already there from an interrupted
@@ -36,6 +37,7 @@ from numpy.typing import NDArray
 
 from batch.engine.effects import EFFECTS, MemberEnvelope
 from batch.engine.envelope import case_effects, envelope_of
+from batch.engine.fatigue import FatigueRanges, fatigue_ranges
 from batch.engine.influence import InfluenceLines
 from batch.loads.cases import LoadCase
 from batch.loads.fleet import fleet_cases
@@ -89,7 +91,8 @@ class MemberResult:
     """One member's results: envelope, per-vehicle peaks (n_vehicles, 6), warnings.
 
     ``assessment`` holds its rating and screening (see
-    :class:`~batch.rating.assess.MemberAssessment`).
+    :class:`~batch.rating.assess.MemberAssessment`); ``fatigue`` its moment
+    ranges under the fleet's fatigue loads (None: the fleet has none).
     """
 
     index: int
@@ -97,6 +100,7 @@ class MemberResult:
     peaks: NDArray[np.float64]
     warnings: tuple[str, ...] = ()
     assessment: MemberAssessment = field(default_factory=MemberAssessment)
+    fatigue: FatigueRanges | None = None
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -121,6 +125,9 @@ class RunResult:
     holds each member's rating and screening, in member order (empty when the
     case asks for neither). With a store, ``envelopes`` and ``assessments`` are
     read from it as they are iterated (:class:`~batch.running.store.StoredMembers`).
+    ``fatigue`` holds each member's moment ranges under the fleet's fatigue loads
+    (:class:`~batch.engine.fatigue.FatigueRanges`), in member order; empty when
+    the fleet has no fatigue load.
     """
 
     case: Case
@@ -134,6 +141,7 @@ class RunResult:
     resumed: int = 0
     store: Path | None = None
     assessments: Sequence[MemberAssessment] = ()
+    fatigue: Sequence[FatigueRanges | None] = ()
 
     @property
     def n_members(self) -> int:
@@ -202,6 +210,7 @@ def analyse_member(
         assessment = (
             MemberAssessment() if plan is None else assess_member(member, effects, cases, plan)
         )
+        fatigue = fatigue_ranges(effects, cases)
     for effect in EFFECTS:
         if not np.all(np.isfinite(effect.extremes(env).value)):
             raise RunError(member.id, f"{effect.name} is not a finite number")
@@ -209,7 +218,12 @@ def analyse_member(
         dict.fromkeys(f"member {member.id!r}: numerical warning: {w.message}" for w in caught)
     )
     return MemberResult(
-        index=index, envelope=env, peaks=peaks, warnings=notes, assessment=assessment
+        index=index,
+        envelope=env,
+        peaks=peaks,
+        warnings=notes,
+        assessment=assessment,
+        fatigue=fatigue,
     )
 
 
@@ -320,6 +334,7 @@ class _Gathered:
     envelopes: dict[int, MemberEnvelope] = field(default_factory=dict)
     notes: dict[int, tuple[str, ...]] = field(default_factory=dict)
     assessed: dict[int, MemberAssessment] = field(default_factory=dict)
+    fatigue: dict[int, FatigueRanges | None] = field(default_factory=dict)
 
 
 def _gather(
@@ -335,11 +350,12 @@ def _gather(
     for results in source:
         for r in results:
             if store is not None:
-                store.put(r.index, r.envelope, r.warnings, r.peaks, r.assessment)
+                store.put(r.index, r.envelope, r.warnings, r.peaks, r.assessment, r.fatigue)
             else:
                 gathered.envelopes[r.index] = r.envelope
                 gathered.notes[r.index] = r.warnings
                 gathered.assessed[r.index] = r.assessment
+                gathered.fatigue[r.index] = r.fatigue
             if peaks is not None:
                 peaks[r.index] = r.peaks
             done += 1
@@ -388,11 +404,15 @@ def run_case(
                 gathered.assessed[i] for i in range(n_members)
             )
             notes = tuple(w for i in range(n_members) for w in gathered.notes[i])
+            fatigue: Sequence[FatigueRanges | None] = tuple(
+                gathered.fatigue[i] for i in range(n_members)
+            )
         else:
             store.check_complete(n_members)
             envelopes = store.stored_envelopes(n_members)
             assessments = store.stored_assessments(n_members)
             notes = tuple(store.warnings())
+            fatigue = store.stored_fatigue(n_members)
             if peaks is not None and finished:
                 for row in store.peak_rows():
                     if row.member_index in finished:
@@ -412,4 +432,5 @@ def run_case(
         resumed=len(finished),
         store=options.store,
         assessments=() if plan is None else assessments,
+        fatigue=fatigue if any(c.fatigue for c in cases) else (),
     )

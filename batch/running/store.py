@@ -57,6 +57,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from batch.engine.effects import Governing, MemberEnvelope
+from batch.engine.fatigue import FatigueRanges
 from batch.rating.assess import MemberAssessment
 from batch.rating.lrfr import MemberRating
 from batch.rating.screening import MemberScreening
@@ -77,11 +78,11 @@ _EXTREMES = ("m_max", "m_min", "v_max", "v_min", "r_max", "r_min")
 
 #: The layout of the tables below (SQLite's user_version); a store of another layout
 #: is rebuilt empty.
-SCHEMA_VERSION = 2
+SCHEMA_VERSION = 3
 #: Seconds a run waits for another run's write to the store to finish.
 BUSY_TIMEOUT_S = 30.0
 
-_TABLES = ("members", "vehicle_peaks", "vehicles", "assessments", "meta")
+_TABLES = ("members", "vehicle_peaks", "vehicles", "assessments", "fatigue", "meta")
 
 # A member's peaks and assessment are written in the transaction of its members row and
 # replaced or deleted with it: that row carries the proof (run key, token) for all three.
@@ -98,6 +99,7 @@ CREATE TABLE IF NOT EXISTS vehicle_peaks (
 );
 CREATE TABLE IF NOT EXISTS vehicles (idx INTEGER PRIMARY KEY, vehicle TEXT NOT NULL);
 CREATE TABLE IF NOT EXISTS assessments (idx INTEGER PRIMARY KEY, blob BLOB NOT NULL);
+CREATE TABLE IF NOT EXISTS fatigue (idx INTEGER PRIMARY KEY, blob BLOB NOT NULL);
 CREATE VIEW IF NOT EXISTS vehicle_summary AS
     SELECT m.member AS member, v.vehicle AS vehicle, p.m_max, p.m_min, p.v_max, p.v_min,
            p.r_max, p.r_min
@@ -222,6 +224,17 @@ def _unpack_assessment(blob: bytes | None) -> MemberAssessment:
     )
 
 
+def _pack_fatigue(ranges: FatigueRanges) -> bytes:
+    return _npz({"cases": ranges.cases, "m_max": ranges.m_max, "m_min": ranges.m_min})
+
+
+def _unpack_fatigue(blob: bytes | None) -> FatigueRanges | None:
+    if blob is None:
+        return None
+    with np.load(io.BytesIO(blob), allow_pickle=False) as data:
+        return FatigueRanges(cases=data["cases"], m_max=data["m_max"], m_min=data["m_min"])
+
+
 #: Each envelope array in the order it is stored, with its stored type: first the
 #: layout, then per effect family and sense value, case and position; the one-byte
 #: directions last (so every wider array stays aligned).
@@ -293,7 +306,7 @@ class StoredMembers(Sequence[T]):
     A sequence in member order that holds nothing in memory: iterating streams
     the members from the store file (one query, read as it goes), indexing reads
     one. It keeps a run's memory flat however many members the inventory has.
-    ``column`` is one of the store's blob columns (``m.envelope`` or ``a.blob``),
+    ``column`` is one of the store's blob columns (``m.envelope``, ``a.blob`` or ``f.blob``),
     ``decode`` turns (member id, blob) into the result. Only members stored under
     the run key ``key`` are read, and each must be there: a member missing (the
     store was reset by another run after this one finished) raises
@@ -320,7 +333,7 @@ class StoredMembers(Sequence[T]):
     def _rows(self, first: int, last: int) -> Iterator[T]:
         query = (
             f"SELECT m.idx, m.member, {self._column} FROM members m "  # fixed column names
-            "LEFT JOIN assessments a ON a.idx = m.idx "
+            "LEFT JOIN assessments a ON a.idx = m.idx LEFT JOIN fatigue f ON f.idx = m.idx "
             "WHERE m.run = ? AND m.idx >= ? AND m.idx < ? ORDER BY m.idx"
         )
         expected = first
@@ -477,10 +490,12 @@ class CheckpointStore:
         warnings: tuple[str, ...],
         peaks: NDArray[np.float64],
         assessment: MemberAssessment | None = None,
+        fatigue: FatigueRanges | None = None,
     ) -> None:
         """Store one finished member, with its per-vehicle peaks (n_vehicles, 6), atomically.
 
-        ``assessment`` (its rating and screening) is stored when given. Raises
+        ``assessment`` (its rating and screening) and ``fatigue`` (its moment ranges
+        under fatigue loads) are stored when given. Raises
         :class:`StoreError` when the store is no longer this run's.
         """
         db = self._db
@@ -505,6 +520,10 @@ class CheckpointStore:
                 db.execute(
                     "INSERT OR REPLACE INTO assessments VALUES (?, ?)",
                     (index, _pack_assessment(assessment)),
+                )
+            if fatigue is not None:
+                db.execute(
+                    "INSERT OR REPLACE INTO fatigue VALUES (?, ?)", (index, _pack_fatigue(fatigue))
                 )
 
     def check_complete(self, size: int) -> None:
@@ -536,6 +555,12 @@ class CheckpointStore:
         """Members 0..size-1's ratings and screenings, read as they are needed."""
         return StoredMembers(
             self.path, self.key, size, "a.blob", lambda _, blob: _unpack_assessment(blob)
+        )
+
+    def stored_fatigue(self, size: int) -> StoredMembers[FatigueRanges | None]:
+        """Members 0..size-1's fatigue moment ranges (None: no fatigue load), as needed."""
+        return StoredMembers(
+            self.path, self.key, size, "f.blob", lambda _, blob: _unpack_fatigue(blob)
         )
 
     def warnings(self) -> list[str]:

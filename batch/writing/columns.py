@@ -32,6 +32,7 @@ from batch.engine.effects import (
     Rows,
     governing_row,
 )
+from batch.engine.fatigue import FatigueRanges
 from batch.model import Case
 from batch.rating.lrfr import FLAGS, RATED_EFFECTS, MemberRating, RatingFactors
 from batch.rating.screening import SCREEN_EFFECTS, MemberScreening
@@ -52,6 +53,7 @@ if TYPE_CHECKING:
 __all__ = [
     "CHARTS_SHEET",
     "ENVELOPES",
+    "FATIGUE",
     "GOVERNING",
     "RATINGS",
     "RATING_MATRIX",
@@ -65,6 +67,7 @@ __all__ = [
     "SCREEN_EXCEEDED_RGB",
     "SHEAR_CHARTS_SHEET",
     "VEHICLE_SUMMARY",
+    "FatigueMember",
     "MemberPeaks",
     "RatedMember",
     "ScreenedMember",
@@ -750,6 +753,113 @@ SCREENING_DETAIL: ResultTable[ScreenedMember] = ResultTable(
 )
 
 
+# ---------------------------------------------------------------- fatigue
+
+
+class FatigueMember(NamedTuple):
+    """One member's block of the Fatigue sheet: each fatigue load case at every station."""
+
+    envelope: MemberEnvelope
+    ranges: FatigueRanges
+
+
+def _fatigue_blocks(result: RunResult) -> list[FatigueMember]:
+    return [
+        FatigueMember(envelope=env, ranges=ranges)
+        for env, ranges in zip(result.envelopes, result.fatigue, strict=True)
+        if ranges is not None
+    ]
+
+
+def _n_fatigue(result: RunResult) -> int:
+    return result.n_stations * sum(c.fatigue for c in result.load_cases)
+
+
+def _each_case(get: Callable[[FatigueMember, int, int], object]) -> Callable[[Any], list[object]]:
+    """A column with one cell per fatigue case and station: ``get(block, case row, station)``."""
+
+    def values(b: FatigueMember) -> list[object]:
+        stations = b.envelope.station_x.size
+        return [get(b, k, i) for k in range(b.ranges.cases.size) for i in range(stations)]
+
+    return values
+
+
+FATIGUE: ResultTable[FatigueMember] = ResultTable(
+    sheet="Fatigue",
+    purpose="One row per member, fatigue load and station: the largest and smallest moment "
+    "as the fatigue load crosses the member, and the moment range between them (AASHTO LRFD "
+    "3.6.1.4: one fatigue truck, single-lane distribution factor without the multiple "
+    "presence factor, IM 15 %, the model's load factor).",
+    blocks=_fatigue_blocks,
+    rows=_n_fatigue,
+    wanted=lambda result: _n_fatigue(result) > 0,
+    frozen_columns=5,
+    columns=(
+        ResultColumn(
+            header="Member",
+            width=16,
+            values=_each_case(lambda b, _k, _i: b.envelope.member),
+            text=True,
+            meaning="Member id.",
+        ),
+        ResultColumn(
+            header="Fatigue load",
+            width=22,
+            values=_each_case(lambda b, k, _i: b.envelope.labels[int(b.ranges.cases[k])]),
+            text=True,
+            meaning="The fatigue load case (a Vehicles row naming a fatigue model).",
+        ),
+        ResultColumn(
+            header="Span",
+            number_format=FORMAT_WHOLE,
+            width=6,
+            values=_each_case(lambda b, _k, i: int(b.envelope.station_span[i])),
+            meaning="Span number, from 1 at the left end.",
+        ),
+        ResultColumn(
+            header="Station",
+            number_format=FORMAT_FRACTION,
+            width=8,
+            values=_each_case(lambda b, _k, i: float(b.envelope.station_fraction[i])),
+            meaning="Fraction of the span's length.",
+        ),
+        ResultColumn(
+            header="x",
+            quantity="length",
+            number_format=FORMAT_VALUE,
+            width=9,
+            values=_each_case(lambda b, _k, i: float(b.envelope.station_x[i])),
+            meaning="Distance from the member's left end.",
+        ),
+        ResultColumn(
+            header="M max",
+            quantity="moment",
+            number_format=FORMAT_VALUE,
+            width=11,
+            values=_each_case(lambda b, k, i: float(b.ranges.m_max[k, i])),
+            meaning="Largest (sagging) moment under the fatigue load, factored.",
+        ),
+        ResultColumn(
+            header="M min",
+            quantity="moment",
+            number_format=FORMAT_VALUE,
+            width=11,
+            values=_each_case(lambda b, k, i: float(b.ranges.m_min[k, i])),
+            meaning="Smallest (most hogging) moment under the fatigue load, factored.",
+        ),
+        ResultColumn(
+            header="M range",
+            quantity="moment",
+            number_format=FORMAT_VALUE,
+            width=11,
+            values=_each_case(lambda b, k, i: float(b.ranges.m_range[k, i])),
+            meaning="Moment range: M max minus M min (never negative).",
+        ),
+    ),
+)
+
+
 # ---------------------------------------------------------------- the guide to them all
 
 
@@ -828,6 +938,7 @@ RESULT_TABLES: tuple[AnyTable, ...] = (
     ENVELOPES,
     REACTIONS,
     GOVERNING,
+    FATIGUE,
     VEHICLE_SUMMARY,
     RATINGS,
     RATING_MATRIX,
