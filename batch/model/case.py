@@ -422,7 +422,7 @@ class Member:
         "text",
         default="",
         meaning="Free text.",
-        example="EXAMPLE, replace or delete: Harlow Creek overpass, girder 1 (KVHA)",
+        example="EXAMPLE: KVHA girder",  # short: Members prints to one page width
     )
     df_moment_single: float | None = column(
         "DF moment single lane",
