@@ -23,6 +23,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 import pytest
+from tolerances import REL_TOL_EXACT
 
 from batch.engine.envelope import case_effects
 from batch.engine.fatigue import fatigue_ranges
@@ -34,7 +35,6 @@ from batch.writing.package.splice import SourcePackage, empty_package
 from batch.writing.results import result_package
 from batch.writing.runlog import InputInfo
 
-REL_TOL_EXACT = 1e-9  # hand arithmetic against the exact engine
 SPAN = 100.0  # ft
 DF_SINGLE = 0.6  # as tabulated, with the one-lane multiple presence factor 1.2
 FATIGUE_IM = 0.15
