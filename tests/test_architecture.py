@@ -1,14 +1,13 @@
 """The tree shows the pipeline, and data flows one way (DEVELOPERS.md, "Architecture").
 
 The stages of batch/, in order: model, reading, loads, validating, engine, rating,
-running, writing, interface, command. A module may import its own stage and earlier
-ones, never a later one; no stage imports batch.demo (demo and benchmark data live
-apart). Checked
-on the source (every import statement, including those inside functions and under
-TYPE_CHECKING), and by importing the early stages in a fresh interpreter and looking
-at what got loaded: reading and validating an input never loads numba, the engine
-or the writers (so `spanfleet check` starts fast). Common practice of layered
-architectures; no external source.
+running, writing, interface, reporting, command. A module may import its own stage
+and earlier ones, never a later one; no stage imports batch.demo (demo and benchmark
+data live apart). Checked on the source (every import statement, including those
+inside functions and under TYPE_CHECKING), and by importing the early stages in a
+fresh interpreter and looking at what got loaded: reading and validating an input
+never loads numba, the engine or the writers (so `spanfleet check` starts fast).
+Common practice of layered architectures; no external source.
 """
 
 from __future__ import annotations
@@ -33,6 +32,7 @@ STAGES = (
     "running",
     "writing",
     "interface",
+    "reporting",
     "command",
 )
 

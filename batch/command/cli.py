@@ -8,6 +8,7 @@ Commands::
     spanfleet check BOOK.xlsx [--json]       validate only; every problem printed
     spanfleet template NEW.xlsx              a blank, documented input workbook
     spanfleet library [--units SI]           the built-in load models
+    spanfleet report BOOK.xlsx [--bridge P]  the printable rating report (PDF)
 
 ``--out`` never replaces a file spanfleet did not write unless ``--overwrite`` is
 given; a read-only target, one open in a spreadsheet program, and a folder that
@@ -23,6 +24,7 @@ internal error.
 from __future__ import annotations
 
 import argparse
+import dataclasses
 import json
 import os
 import sys
@@ -35,8 +37,9 @@ from typing import TYPE_CHECKING
 import batch
 
 if TYPE_CHECKING:
-    from batch.interface.session import Input
+    from batch.interface.session import Input, Results
     from batch.reading.problems import InputReport
+    from batch.reporting.report import Report
     from batch.running.executor import ProgressFn
     from batch.writing.package.splice import SourcePackage
 
@@ -147,7 +150,33 @@ def build_parser() -> argparse.ArgumentParser:
 
     library = sub.add_parser("library", help="list the built-in load models")
     library.add_argument("--units", choices=("US", "SI"), default="US", help="weights in kip or kN")
+    _report_parser(sub)
     return parser
+
+
+def _report_parser(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
+    """The ``report`` command's arguments."""
+    report = sub.add_parser("report", help="write the printable rating report (PDF) of a run")
+    report.add_argument("book", type=Path, help="input workbook (.xlsx, .xlsm) or JSON document")
+    report.add_argument(
+        "--out", type=Path, help="the PDF to write (default: BOOK's name ending in -report.pdf)"
+    )
+    report.add_argument(
+        "--bridge",
+        metavar="PREFIX",
+        help="only the members whose id starts with PREFIX, e.g. the girder lines of one "
+        "bridge (KV-0412 for KV-0412 G1, G2, ...); default: the whole inventory",
+    )
+    report.add_argument(
+        "--store",
+        type=Path,
+        help="the checkpoint store of a finished run of BOOK (default: BOOK's own, beside "
+        "it); without one, BOOK is run first (nothing is written to it)",
+    )
+    report.add_argument(
+        "--jobs", type=_positive_int, default=None, metavar="N", help="worker processes"
+    )
+    report.add_argument("-q", "--quiet", action="store_true", help="print problems only")
 
 
 # ---------------------------------------------------------------- reading
@@ -458,11 +487,86 @@ def _cmd_library(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
+def _cmd_report(args: argparse.Namespace) -> int:
+    """Write the rating report of BOOK's results (from its store, or from a fresh run)."""
+    src: Path = args.book
+    _require_file(src)
+    out: Path = args.out or src.with_name(f"{src.stem}-report.pdf")
+    if out.suffix.lower() != ".pdf":
+        raise Usage(f"{out.name}: the report is a PDF; give a name ending in .pdf")
+    if out.is_dir() or not out.parent.is_dir():
+        raise Refused(f"{out}: give --out a PDF file name in an existing folder")
+    report = _read(src)
+    if (status := _report_problems(report, src.name)) != EXIT_OK:
+        return status
+    results = _report_results(src, report, args)
+    members = [
+        m.id for m in results.case.members if args.bridge is None or m.id.startswith(args.bridge)
+    ]
+    if not members:
+        raise Refused(
+            f"--bridge {args.bridge}: no member id of {src.name} starts with it; the member ids "
+            f"start like {', '.join(m.id for m in results.case.members[:5])}"
+        )
+    written = _write_report(results, out, members, args.bridge)
+    if not args.quiet:
+        count = len(written.members)
+        print(f"{out.name}: {written.pages} pages, {count} member{'s' if count != 1 else ''}.")
+    return EXIT_OK
+
+
+def _report_results(src: Path, report: InputReport, args: argparse.Namespace) -> Results:
+    """The results of BOOK: read from a finished run's store, or computed afresh."""
+    from batch.interface.session import InputChanged, StoreMismatch, input_of, read_store, run
+    from batch.running.executor import ClusterError, RunError
+    from batch.running.store import StoreError, store_path_for
+
+    store = args.store or store_path_for(src)
+    try:
+        if store.is_file():
+            try:
+                return read_store(store, src)
+            except StoreMismatch as exc:
+                if args.store is not None:
+                    raise Refused(str(exc)) from exc
+                if not args.quiet:
+                    _say(f"{exc}; computing the results instead")
+        elif args.store is not None:
+            raise Refused(f"{store}: no such checkpoint store")
+        return run(input_of(report, src), jobs=args.jobs, progress=_progress(args.quiet))
+    except (InputChanged, RunError, StoreError, ClusterError) as exc:
+        raise Refused(str(exc)) from exc
+
+
+def _write_report(results: Results, out: Path, members: list[str], bridge: str | None) -> Report:
+    """Write the report atomically: to a temporary file beside ``out``, then into place."""
+    import tempfile
+
+    from batch.reporting.report import write_report
+
+    count = f"{len(members)} member{'s' if len(members) != 1 else ''}"
+    scope = f"Bridge {bridge}, {count}" if bridge else ""
+    handle, name = tempfile.mkstemp(prefix=f".{out.stem}-", suffix=".pdf", dir=out.parent)
+    os.close(handle)
+    temp = Path(name)
+    try:
+        written = write_report(results, temp, members, scope)
+        os.replace(temp, out)
+    except OSError as exc:
+        raise Refused(
+            f"{out.name}: the report could not be written ({exc.strerror or exc})"
+        ) from exc
+    finally:
+        temp.unlink(missing_ok=True)
+    return dataclasses.replace(written, path=out)
+
+
 _COMMANDS = {
     "run": _cmd_run,
     "check": _cmd_check,
     "template": _cmd_template,
     "library": _cmd_library,
+    "report": _cmd_report,
 }
 
 

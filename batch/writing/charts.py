@@ -29,7 +29,7 @@ from batch.writing.package.xmltext import attr, text
 from batch.writing.printing import area_page_setup, wrapped_height
 from batch.writing.tables import column_format
 
-__all__ = ["CHART_SHEETS", "ChartSheet", "write_charts"]
+__all__ = ["CHART_COLOURS", "CHART_SHEETS", "ChartSheet", "write_charts"]
 
 #: Line colours of the two series: dark teal for the largest value, brick red for the least.
 CHART_COLOURS = ("1F6F8B", "B5452F")

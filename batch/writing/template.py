@@ -107,7 +107,8 @@ def _header_note(column: InputColumn) -> str:
     return "\n".join(line for line in lines if line)
 
 
-def _header_text(column: InputColumn, units: UnitSystem) -> str:
+def header_text(column: InputColumn, units: UnitSystem) -> str:
+    """An input column's header with its unit in ``units``, e.g. ``"Spans (ft)"``."""
     if not column.quantity:
         return column.header
     return f"{column.header} ({UNIT_LABELS[units][column.quantity]})"
@@ -183,7 +184,7 @@ def example_rows() -> dict[str, list[dict[str, CellValue]]]:
 def _style_header(ws: Worksheet, sheet: InputSheet, units: UnitSystem) -> None:
     for j, column in enumerate(sheet.columns, start=1):
         cell = ws.cell(row=1, column=j)
-        _put(cell, _header_text(column, units))
+        _put(cell, header_text(column, units))
         cell.font = _HEADER_FONT
         cell.fill = _REQUIRED_FILL if column.required else _HEADER_FILL
         cell.alignment = Alignment(vertical="center")
@@ -254,7 +255,7 @@ def _write_table(
             _add_choice_list(ws, column.header, column.choices, f"{letter}2:{letter}{_LAST_ROW}")
     widths = _set_widths(
         ws,
-        [[_header_text(c, units), *(str(r.get(c.key) or "") for r in rows)] for c in sheet.columns],
+        [[header_text(c, units), *(str(r.get(c.key) or "") for r in rows)] for c in sheet.columns],
     )
     ws.freeze_panes = "B2"
     _print_setup(ws, page_setup(widths, 1, units))
