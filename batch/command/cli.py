@@ -38,6 +38,7 @@ import batch
 
 if TYPE_CHECKING:
     from batch.interface.session import Input, Results
+    from batch.model.units import UnitSystem
     from batch.reading.problems import InputReport
     from batch.reporting.report import Report
     from batch.running.executor import ProgressFn
@@ -149,7 +150,12 @@ def build_parser() -> argparse.ArgumentParser:
     template.add_argument("new", type=Path, help="name of the new workbook (.xlsx)")
 
     library = sub.add_parser("library", help="list the built-in load models")
-    library.add_argument("--units", choices=("US", "SI"), default="US", help="weights in kip or kN")
+    library.add_argument(
+        "--units", choices=("US", "SI"), default="US", help="values in kip, ft or kN, m"
+    )
+    library.add_argument(
+        "--json", action="store_true", help="print every model, part and value as JSON"
+    )
     _report_parser(sub)
     return parser
 
@@ -463,6 +469,9 @@ def _cmd_library(args: argparse.Namespace) -> int:
     from batch.loads import library
     from batch.loads.sourced import STATUS_MEANINGS
 
+    if args.json:
+        print(json.dumps(_library_document(args.units), indent=2))
+        return EXIT_OK
     rows = library.describe(args.units)
     if not rows:
         print("No built-in load models in this version; give every vehicle's axles.")
@@ -476,6 +485,7 @@ def _cmd_library(args: argparse.Namespace) -> int:
             f"{name:<{widths[0]}}  {axles:>{widths[1]}}  {weight:>{widths[2]}}  "
             f"{status:<{widths[3]}}  {source}"
         )
+    _print_parts(args.units)
     print("\nStatus of a model's values (each value's source and status: docs/load-models.md):")
     for status, meaning in STATUS_MEANINGS.items():
         print(f"  {status}: {meaning}")
@@ -485,6 +495,134 @@ def _cmd_library(args: argparse.Namespace) -> int:
         if memory:
             print(f"  {m.name}: {'all values' if m.status == 'from memory' else '; '.join(memory)}")
     return EXIT_OK
+
+
+@dataclasses.dataclass(frozen=True)
+class _PartRow:
+    """One part of a built-in model as listed: what it puts on the member.
+
+    In the listing's units: axle loads front first; each spacing as [low, high] (equal
+    for a fixed one; high None where the standard sets no upper end, "at least").
+    ``dynamic_allowance`` is the standard's where it fixes one, else None (the run's).
+    """
+
+    part: str
+    axle_loads: list[float]
+    spacings: list[tuple[float, float | None]]
+    lane_load: float
+    dynamic_allowance: float | None
+    factor: float
+    scope: str
+    min_span: float
+    fatigue: bool
+
+
+def _library_parts(units: UnitSystem) -> dict[str, list[_PartRow]]:
+    """Each model's parts in ``units``, converted exactly (:meth:`LoadModel.cases`)."""
+    from batch.loads import library
+    from batch.loads.sourced import UNBOUNDED
+
+    return {
+        m.name: [
+            _PartRow(
+                part=case.label,
+                axle_loads=list(case.train.loads),
+                spacings=[
+                    (s.low, None if own.high >= UNBOUNDED else s.high)
+                    for s, own in zip(case.train.spacings, item.train.spacings, strict=True)
+                ],
+                lane_load=case.lane_load,
+                dynamic_allowance=item.impact,
+                factor=case.factor,
+                scope=case.scope,
+                min_span=case.min_span,
+                fatigue=case.fatigue,
+            )
+            for item, case in zip(m.parts, m.cases(units, 0.0), strict=True)
+        ]
+        for m in library.MODELS
+    }
+
+
+def _print_parts(units: UnitSystem) -> None:
+    """The parts table of ``spanfleet library``: what each model puts on the member."""
+    from batch.model.units import UNIT_LABELS
+
+    u = UNIT_LABELS[units]
+    table = [
+        (
+            "Model (part)",
+            f"Axle loads ({u['force']})",
+            f"Spacings ({u['length']})",
+            f"Lane ({u['line_load']})",
+            "IM",
+            "Factor",
+        )
+    ]
+    for parts in _library_parts(units).values():
+        table += [
+            (
+                p.part,
+                ", ".join(f"{x:.4g}" for x in p.axle_loads),
+                ", ".join(_spacing_text(low, high) for low, high in p.spacings) or "-",
+                f"{p.lane_load:.4g}",
+                "run's" if p.dynamic_allowance is None else f"{p.dynamic_allowance:g}",
+                f"{p.factor:g}",
+            )
+            for p in parts
+        ]
+    widths = [max(len(row[k]) for row in table) for k in range(len(table[0]))]
+    print(
+        "\nParts (front axle first; a spacing range is searched exactly; IM: the dynamic "
+        "allowance on axles, the run's Settings value unless the standard fixes it):"
+    )
+    for row in table:
+        print("  " + "  ".join(f"{c:<{w}}" for c, w in zip(row, widths, strict=True)).rstrip())
+
+
+def _spacing_text(low: float, high: float | None) -> str:
+    """A spacing as listed: ``14``, a range ``14-30``, or ``50 or more``."""
+    if high is None:
+        return f"{low:.4g} or more"
+    return f"{low:.4g}" if high == low else f"{low:.4g}-{high:.4g}"
+
+
+def _library_document(units: UnitSystem) -> dict[str, object]:
+    """Every built-in model as a JSON document: its parts in ``units`` and its values' sources."""
+    from batch.loads import library
+    from batch.loads.sourced import STATUS_MEANINGS
+    from batch.model.units import UNIT_LABELS
+
+    parts = _library_parts(units)
+    return {
+        "units": units,
+        "unit_labels": UNIT_LABELS[units],
+        "statuses": dict(STATUS_MEANINGS),
+        "models": [
+            {
+                "name": m.name,
+                "aliases": list(m.aliases),
+                "category": m.category,
+                "defined_in": m.units,
+                "description": m.description,
+                "source": m.source,
+                "status": m.status,
+                "weight": m.weight(units),
+                "parts": [dataclasses.asdict(p) for p in parts[m.name]],
+                "values": [
+                    {
+                        "what": v.what,
+                        "value": [list(x) if isinstance(x, tuple) else x for x in v.value],
+                        "unit": v.unit,
+                        "source": v.source,
+                        "status": v.status,
+                    }
+                    for v in m.values
+                ],
+            }
+            for m in library.MODELS
+        ],
+    }
 
 
 def _cmd_report(args: argparse.Namespace) -> int:

@@ -119,7 +119,8 @@ def _number_text(value: float) -> str:
     return str(int(v)) if v.is_integer() else repr(v)
 
 
-def _entry_text(entry: float | Spacing) -> str:
+def entry_text(entry: float | Spacing) -> str:
+    """A list entry as typed in an input cell: ``60``, ``14.5`` or a range ``14-30``."""
     if not isinstance(entry, Spacing):
         return _number_text(entry)
     if entry.is_range:
@@ -135,7 +136,7 @@ def _cell_value(value: object) -> CellValue:
         first = value[0]
         if len(value) == 1 and not (isinstance(first, Spacing) and first.is_range):
             return _cell_value(first.low if isinstance(first, Spacing) else first)
-        return ", ".join(_entry_text(v) for v in value)
+        return ", ".join(entry_text(v) for v in value)
     if isinstance(value, str):
         return value
     if isinstance(value, int | float) and not isinstance(value, bool):
