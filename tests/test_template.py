@@ -30,8 +30,8 @@ CONTRACT_COLUMNS = {
         "Condition factor", "System factor", "Description",
     ],
     "Vehicles": [
-        "Vehicle", "Axle loads", "Axle spacings", "Lane load", "Factor", "Library", "Category",
-        "Description",
+        "Vehicle", "Axle loads", "Axle spacings", "Lane load", "Load multiplier", "Library",
+        "Category", "Description",
     ],
     "Capacities": [
         "Member", "Span", "Station", "Resistance M+", "Resistance M-", "Resistance V", "DC M",

@@ -619,6 +619,61 @@ WORKBOOK_CASES = [
         {"vehicles": [{"Vehicle": "KV-X", "Library": "KVHA-99"}]},
         [("Vehicles", "B2", "unknown-library", E)],
     ),
+    # what was probably meant (batch/validating/friendly.py: a value unusual in the Units
+    # setting's system but ordinary in the other; HL-93 in AASHTO LRFD 3.6.1.2: axles 8, 32,
+    # 32 kip = 35, 145, 145 kN, lane 0.64 kip/ft = 9.3 kN/m; common practice for the bounds)
+    (
+        "kN-axles-in-a-US-workbook",
+        {"vehicles": [V | {"Axle loads": "35, 145, 145"}]},
+        [("Vehicles", "B2", "unit-mixup", W)],
+    ),
+    (
+        "kN-lane-in-a-US-workbook",
+        {"vehicles": [V | {"Lane load": 9.3}]},
+        [("Vehicles", "D2", "unit-mixup", W)],
+    ),
+    (
+        "kip-axles-in-an-SI-workbook",
+        {
+            "settings": {"Units": "SI"},
+            "members": [M],
+            "vehicles": [V | {"Axle loads": "8, 32, 32"}],
+        },
+        [("Vehicles", "B2", "unit-mixup", W)],
+    ),
+    (
+        "kip-lane-in-an-SI-workbook",
+        {
+            "settings": {"Units": "SI"},
+            "members": [M],
+            "vehicles": [V | {"Axle loads": "50, 150, 150", "Lane load": 0.64}],
+        },
+        [("Vehicles", "D2", "unit-mixup", W)],
+    ),
+    (
+        "ft-spans-in-an-SI-workbook",
+        {
+            "settings": {"Units": "SI"},
+            "members": [M | {"Spans": "180, 240"}],
+            "vehicles": [V | {"Axle loads": "50, 150, 150"}],
+        },
+        [("Members", "B2", "unit-mixup", W)],
+    ),
+    (
+        "no-axle-loads-column",
+        {"vehicles": [{"Vehicle": f"KV-T{k}", "Axle spacing": "14"} for k in range(3)]},
+        [("Vehicles", "", "no-axle-loads-column", E), ("Vehicles", "B1", "unknown-column", W)],
+    ),
+    (
+        "former-factor-header",
+        {"vehicles": [V | {"Factor": 1.1}]},
+        [],
+    ),
+    (
+        "load-multiplier-header",
+        {"vehicles": [V | {"Load multiplier": 1.2}]},
+        [],
+    ),
     (
         "spacing-count",
         {"vehicles": [V | {"Axle spacings": "14"}]},
@@ -775,6 +830,24 @@ def test_messages_name_the_fix(make_workbook, tmp_path):
     assert "the part from 0 to 30 ft and the part from 30 to 60 ft" in rendered[0]
     assert rendered[1].startswith("Vehicles!B2: 'KVHA-99' is not a built-in load model; ")
     assert "HL-93" in rendered[1]
+
+
+def test_an_unknown_library_name_suggests_the_nearest(make_workbook, tmp_path):
+    path = make_workbook(tmp_path, vehicles=[{"Vehicle": "V1", "Library": "Type3S"}])
+    (problem,) = read_input(path).problems
+    assert "did you mean Type 3S2" in problem.render()
+
+
+def test_a_missing_axle_column_is_one_message(make_workbook, tmp_path):
+    rows = [{"Vehicle": f"KV-T{k}", "Lane load": 0.64} for k in range(5)]
+    problems = read_input(make_workbook(tmp_path, vehicles=rows)).problems
+    assert [p.code for p in problems] == ["no-axle-loads-column"]
+    assert "Axle loads (kip)" in problems[0].render()
+
+
+def test_the_load_multiplier_is_read_under_its_former_header(make_workbook, tmp_path):
+    path = make_workbook(tmp_path, vehicles=[V | {"Factor": 1.1}])
+    assert read_input(path).case.vehicles[0].factor == 1.1
 
 
 def test_render_shapes():

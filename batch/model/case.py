@@ -580,12 +580,15 @@ class Vehicle:
         meaning="Uniform load placed on the adverse parts of the member, no dynamic allowance.",
     )
     factor: float = column(
-        "Factor",
+        "Load multiplier",
         "number",
         default=1.0,
         above=0.0,
-        meaning="Multiplier on the whole row's effects (default 1).",
+        meaning="Multiplies the row's whole load, axles and lane alike, and so its effects "
+        "and its weight (default 1), e.g. 1.1 for a 10 % overload allowance. Not a load "
+        "factor of the rating: those are settings.",
         example=1,
+        former=("Factor",),
     )
     library: str | None = column(
         "Library",

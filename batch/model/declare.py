@@ -44,6 +44,7 @@ class InputColumn:
     the value of a setting that is not given (``None`` for table columns:
     their defaults are the dataclass's). ``schema_note`` adds to the schema's
     description what a workbook user learns from the template instead.
+    ``former`` lists headers the column had before, still accepted when read.
     """
 
     key: str
@@ -61,6 +62,12 @@ class InputColumn:
     meaning: str = ""
     example: str | float | None = None
     default: str | float | int | None = None
+    former: tuple[str, ...] = ()
+
+    @property
+    def headers(self) -> tuple[str, ...]:
+        """Every header the column is read under: its own, then its former ones."""
+        return (self.header, *self.former)
 
 
 def column(
@@ -79,6 +86,7 @@ def column(
     min_items: int = 0,
     meaning: str = "",
     example: str | float | None = None,
+    former: tuple[str, ...] = (),
 ) -> Any:
     """A dataclass field that is also an input column (see :class:`InputColumn`).
 
@@ -102,6 +110,7 @@ def column(
         meaning=meaning,
         example=example,
         default=None if default is dataclasses.MISSING else default,
+        former=former,
     )
     return dataclasses.field(default=default, metadata={"column": declared})
 

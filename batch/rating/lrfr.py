@@ -34,7 +34,7 @@ memory), so C = phi_c*(phi*Rn) for shear. For flexure phi_c*phi_s is not taken
 below :data:`MIN_CAPACITY_FACTOR` (MBE Eq. 6A.4.2.1-3, from memory).
 
 LL + IM is the vehicle's envelope over its load cases (a library model's
-parts) with the distribution factor, the row's Factor and the dynamic load
+parts) with the distribution factor, the row's Load multiplier and the dynamic load
 allowance, exactly as in Envelopes. Where a vehicle produces no effect of the
 rated sense (LL + IM = 0) that effect is not rated for it (RF = inf). The
 member's rating factor for a vehicle is the smallest over its rated stations
@@ -343,7 +343,7 @@ def rate_member(
 
 
 def gross_weight(vehicle: Vehicle, units: UnitSystem) -> float:
-    """Gross weight of a vehicle in the force unit, times the row's Factor.
+    """Gross weight of a vehicle in the force unit, times the row's Load multiplier.
 
     The sum of its axle loads, or for a library model that of its principal
     (first) part; lane loads do not count.

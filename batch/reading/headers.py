@@ -65,7 +65,7 @@ class HeaderMatch:
 
 def match_headers(sheet: InputSheet, row: list[tuple[str, object]]) -> HeaderMatch:
     """Match ``row`` (header (cell, value) pairs, left to right) to the columns of ``sheet``."""
-    wanted = {header_key(c.header): c.key for c in sheet.columns}
+    wanted = {header_key(h): c.key for c in sheet.columns for h in c.headers}
     columns: dict[str, int] = {}
     cells: dict[str, str] = {}
     duplicates: list[tuple[str, str, str]] = []

@@ -30,6 +30,7 @@ from batch.model.layout import POSITION_TOL, mechanism_parts
 from batch.reading.problems import DocPath, Locator, PathSet, Problem, Severity
 from batch.validating.capacities import capacity_problems
 from batch.validating.fields import finite_number, label, shown
+from batch.validating.friendly import missing_axle_column, nearest_models, unit_mixups
 from batch.validating.segments import segment_problems
 
 __all__ = ["LIMITS", "Limit", "check_document"]
@@ -384,10 +385,12 @@ def _library(name: str, has: dict[str, bool], at: DocPath) -> Iterator[_Found]:
             else "the built-in library is empty in this version: give the axle loads and "
             "spacings instead"
         )
+        near = nearest_models(name)
+        hint = f"did you mean {' or '.join(near)}? " if near else ""
         yield (
             (*at, "library"),
             "unknown-library",
-            f"{name!r} is not a built-in load model; {listed}",
+            f"{name!r} is not a built-in load model; {hint}{listed}",
             "error",
         )
 
@@ -514,6 +517,18 @@ def _duplicates(rows: list[Any], key: str, locator: Locator) -> Iterator[_Found]
             first[folded] = (key, i, "id")
 
 
+def _friendly(document: dict[str, Any], found: list[_Found], cx: _Context) -> list[_Found]:
+    """``found`` with what was probably meant (:mod:`batch.validating.friendly`)."""
+    warn_above = {
+        key: cx.bound(LIMITS[limit].warn) or math.inf
+        for key, limit in (("axle_loads", "axle"), ("lane_load", "lane_load"), ("spans", "span"))
+    }
+    vehicles = document.get("vehicles")
+    rows = vehicles if isinstance(vehicles, list) else []
+    found = missing_axle_column(rows, found, UNIT_LABELS[cx.units]["force"])
+    return [*found, *unit_mixups(document, cx.units, cx.ok, warn_above)]
+
+
 def check_document(
     document: object, locator: Locator, bad: PathSet | None = None
 ) -> list[tuple[DocPath, Problem]]:
@@ -540,6 +555,7 @@ def check_document(
         for i, row in enumerate(rows):
             if isinstance(row, dict):
                 found += check(row, (key, i), cx)
+    found = _friendly(document, found, cx)
     capacities = document.get("capacities")
     if isinstance(capacities, list):
         found += capacity_problems(capacities, document, locator, cx.ok)

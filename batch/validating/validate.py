@@ -16,6 +16,7 @@ from batch.model.sheets import INPUT_SHEETS
 from batch.reading.problems import JSON_SHEET, PathSet, Problem, Reading
 from batch.validating.characters import character_problems
 from batch.validating.checks import check_document
+from batch.validating.friendly import one_unit_question
 from batch.validating.schema import schema_problems
 from batch.validating.to_model import to_case
 
@@ -63,6 +64,7 @@ def validate(reading: Reading) -> tuple[tuple[Problem, ...], tuple[Problem, ...]
         bad = PathSet(reading.blocked | {path for path, _ in structural})
         found += [p for _, p in check_document(document, reading.locator, bad)]
         found += [p for _, p in character_problems(document, reading.locator, bad)]
+        found = one_unit_question(found)
     errors = tuple(sorted((p for p in found if p.severity == "error"), key=_position))
     warnings = tuple(sorted((p for p in found if p.severity == "warning"), key=_position))
     case = to_case(document) if document is not None and not errors else None

@@ -60,7 +60,7 @@ _LEGEND: tuple[tuple[str, str], ...] = (
     ("Supports", "Support 1 is the member's left end; R min below 0 is uplift."),
     (
         "Values",
-        "Include the distribution factor, the vehicle row's Factor and the dynamic load "
+        "Include the distribution factor, the vehicle row's Load multiplier and the dynamic load "
         "allowance on axle loads (never on lane loads).",
     ),
     (

@@ -345,7 +345,7 @@ FATIGUE = _fatigue(
     "Fatigue truck",
     ("LRFD fatigue", "HL-93 fatigue", "Fatigue"),
     None,
-    "no load factor (put Fatigue I or II's in the row's Factor, or use those models).",
+    "no load factor (put Fatigue I or II's in the row's Load multiplier, or use those models).",
 )
 FATIGUE_I_MODEL = _fatigue(
     "Fatigue I", ("Fatigue I truck",), FATIGUE_I, "times the Fatigue I load factor 1.75."

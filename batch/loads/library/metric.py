@@ -332,7 +332,7 @@ LM1 = LoadModel(
     description="Load Model 1 for one 3 m notional lane: tandem of two 300 kN axles 1.2 m"
     " apart with 9 kN/m2 x 3 m = 27 kN/m on the adverse parts. Dynamic amplification is"
     " included, so no dynamic load allowance is added. National Annex adjustment factors are"
-    " taken as 1.0: put others in the row's Factor only if alpha_Q1 = alpha_q1.",
+    " taken as 1.0: put others in the row's Load multiplier only if alpha_Q1 = alpha_q1.",
     parts=(part("", _LM1_AXLES, _LM1_SPACING, lane_load=_LM1_UDL, impact=_LM1_DYNAMIC),),
 )
 
