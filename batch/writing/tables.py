@@ -19,6 +19,7 @@ bottom.
 
 from __future__ import annotations
 
+import dataclasses
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
@@ -61,11 +62,16 @@ class WrittenTable:
 
 
 def column_format(col: ResultColumn[Any]) -> CellFormat:
-    """The cell format of a result column's data cells (wrapped ones aligned to the top)."""
+    """The cell format of a result column's data cells.
+
+    Wrapped ones are aligned to the top; text is indented a step, so that it never
+    touches the right-aligned number of the column before it.
+    """
     return CellFormat(
         number_format=FORMAT_TEXT if col.text else col.number_format,
         wrap=col.wrap,
         vertical="top" if col.wrap else None,
+        indent=1 if col.text else 0,
     )
 
 
@@ -113,9 +119,7 @@ class _Styles:
         key = (j, rgb)
         if key not in self._filled:
             fmt = self.formats[j]
-            self._filled[key] = self.sheet.xf(
-                CellFormat(number_format=fmt.number_format, bold=fmt.bold, fill=rgb)
-            )
+            self._filled[key] = self.sheet.xf(dataclasses.replace(fmt, fill=rgb))
         return self._filled[key]
 
 

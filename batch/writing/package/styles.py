@@ -73,7 +73,9 @@ class CellFormat:
 
     ``number_format`` (e.g. ``"0.0"``; empty: General), bold type, ``fill`` and
     ``font_rgb`` colours (hex RGB; None: no fill / the default colour), text
-    wrapping and vertical alignment (``"top"``, ``"center"``; None: the default).
+    wrapping and vertical alignment (``"top"``, ``"center"``; None: the default);
+    ``indent`` the left indent of left-aligned text, in steps of about one character
+    (so text never touches a right-aligned number in the column before it).
     """
 
     number_format: str = ""
@@ -82,6 +84,7 @@ class CellFormat:
     font_rgb: str | None = None
     wrap: bool = False
     vertical: str | None = None
+    indent: int = 0
 
 
 #: The header row of every result sheet.
@@ -97,6 +100,7 @@ def highlighted(fmt: CellFormat) -> CellFormat:
         font_rgb=fmt.font_rgb,
         wrap=fmt.wrap,
         vertical=fmt.vertical,
+        indent=fmt.indent,
     )
 
 
@@ -189,10 +193,11 @@ class StyleSheet:
         applied += ' applyFont="1"' if font else ""
         applied += ' applyFill="1"' if fill else ""
         align = ""
-        if fmt.wrap or fmt.vertical:
+        if fmt.wrap or fmt.vertical or fmt.indent:
             wrap = ' wrapText="1"' if fmt.wrap else ""
             vertical = f' vertical="{attr(fmt.vertical)}"' if fmt.vertical else ""
-            align = f"<{p}alignment{wrap}{vertical}/>"
+            indent = f' horizontal="left" indent="{fmt.indent}"' if fmt.indent else ""
+            align = f"<{p}alignment{indent}{wrap}{vertical}/>"
             applied += ' applyAlignment="1"'
         parent = ' xfId="0"' if _count(self._root.find("cellStyleXfs")) else ""
         body = f'numFmtId="{num}" fontId="{font}" fillId="{fill}" borderId="0"{parent}{applied}'
