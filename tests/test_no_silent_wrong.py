@@ -19,8 +19,10 @@ import contextlib
 import io
 import json
 import os
+import re
 import subprocess
 import sys
+import zipfile
 from collections.abc import Callable
 from pathlib import Path
 
@@ -34,6 +36,7 @@ from batch.reading import workbook
 from batch.validating.checks import MIN_SPAN_RATIO
 from batch.writing.package import save
 from batch.writing.package.save import TEMP_PREFIX
+from batch.writing.package.source import SourcePackage
 
 #: The reactions of a unit load sum to 1 within this at the least span ratio accepted.
 EQUILIBRIUM_TOL = 1e-12
@@ -420,3 +423,49 @@ def test_a_cluster_that_does_not_answer_is_a_message_after_the_time_limit(
     assert book.read_bytes() == before
     status, text = spanfleet("run", str(book), "--cluster", "KVHA-cluster", "-q")
     assert status == EXIT_PROBLEMS and "check the address" in text, text
+
+
+# ---------------------------------------------------------------- earlier result sheets
+
+
+def _rezip(data: bytes, part: str, change: Callable[[bytes], bytes]) -> bytes:
+    out = io.BytesIO()
+    with zipfile.ZipFile(io.BytesIO(data)) as zin, zipfile.ZipFile(out, "w") as zout:
+        for info in zin.infolist():
+            body = zin.read(info)
+            zout.writestr(info, change(body) if info.filename == part else body)
+    return out.getvalue()
+
+
+def test_hidden_and_filtered_rows_of_earlier_results_are_said_to_be_undone(
+    tmp_path: Path, make_workbook
+) -> None:
+    # The engineer hid two rows of Envelopes and filtered it (ECMA-376 Part 1, §18.3.1.73
+    # row hidden, §18.3.2.7 filterColumn), then runs again.
+    book = _inventory(tmp_path, make_workbook, "kvha-book.xlsx")
+    assert spanfleet("run", str(book), "-q")[0] == EXIT_OK
+    data = book.read_bytes()
+    part = next(s.part for s in SourcePackage(data, book.name).sheets if s.name == "Envelopes")
+    assert part is not None
+
+    def hide(xml: bytes) -> bytes:
+        xml = xml.replace(b'<row r="3"', b'<row hidden="1" r="3"', 1)
+        xml = xml.replace(b'<row r="4"', b'<row hidden="1" r="4"', 1)
+        return re.sub(
+            rb"<autoFilter ref=\"([^\"]+)\"\s*/>",
+            rb'<autoFilter ref="\1">'
+            rb'<filterColumn colId="0"><filters><filter val="KV-0101 G1"/>'
+            rb"</filters></filterColumn></autoFilter>",
+            xml,
+            count=1,
+        )
+
+    book.write_bytes(_rezip(data, part, hide))
+    status, text = spanfleet("run", str(book))
+    assert status == EXIT_OK, text
+    expected = "Envelopes (2 hidden rows, a filter)"
+    assert "warning: kvha-book.xlsx: Replaced the result sheets of an earlier run" in text
+    assert expected in text and "Anything typed into them is not kept" in text, text
+    log = openpyxl.load_workbook(io.BytesIO(book.read_bytes()), read_only=True)["Run Log"]
+    notes = [str(v) for k, v in log.iter_rows(values_only=True) if k == "Note"]
+    assert any(expected in note for note in notes), notes

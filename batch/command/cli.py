@@ -358,6 +358,7 @@ def _cmd_run(args: argparse.Namespace) -> int:
     from batch.running.store import StoreError, store_path_for
     from batch.writing.package.save import SaveError, atomic_save
     from batch.writing.package.splice import BookProblem
+    from batch.writing.results import replaced_note
 
     src: Path = args.book
     _require_file(src)
@@ -399,6 +400,10 @@ def _cmd_run(args: argparse.Namespace) -> int:
         raise Refused(str(exc)) from exc
     for text in result.warnings:
         _warn(text)
+    replaced = replaced_note(source)
+    if replaced is not None and (replaced[1] or not args.quiet):
+        say = _warn if replaced[1] else print
+        say(f"{target.name}: {replaced[0]}")
     if not args.quiet:
         print(
             f"{target.name}: wrote {', '.join(package.sheets)} ({result.n_members} members, "

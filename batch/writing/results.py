@@ -9,6 +9,7 @@ result sheets are streamed in (:mod:`batch.writing.package.stream`).
 
 from __future__ import annotations
 
+from batch.reading.hidden import hidden_in_part
 from batch.running.executor import RunResult
 from batch.writing.charts import CHART_SHEETS, write_charts
 from batch.writing.columns import (
@@ -27,6 +28,7 @@ __all__ = [
     "InputInfo",
     "ResultPackage",
     "SourcePackage",
+    "replaced_note",
     "result_package",
     "write_results",
 ]
@@ -77,6 +79,37 @@ def write_results(
     return book.names
 
 
+def replaced_note(source: SourcePackage) -> tuple[str, bool] | None:
+    """What a run does with the result sheets of an earlier run (None: there are none).
+
+    For the Run Log and the console: the sheets replaced, the rows hidden or filtered
+    out in them (the new sheets show every row, unfiltered) and that anything typed
+    into them is not kept; and whether any of them had hidden rows or a filter.
+    """
+    if not source.ours:
+        return None
+    changed = []
+    for sheet in source.sheets:
+        if sheet.name not in source.ours or sheet.part is None:
+            continue
+        hidden = len(hidden_in_part(source.zip, sheet.part, 1).rows)
+        filtered = b"<filterColumn" in source.read(sheet.part)
+        if hidden or filtered:
+            what = [f"{hidden} hidden row{'s' if hidden != 1 else ''}"] if hidden else []
+            changed.append(f"{sheet.name} ({', '.join(what + ['a filter'] * filtered)})")
+    views = (
+        f" Hidden rows and filters in them are not kept ({'; '.join(changed)}): the new "
+        "sheets show every row."
+        if changed
+        else ""
+    )
+    text = (
+        f"Replaced the result sheets of an earlier run: {', '.join(source.ours)}.{views} "
+        "Anything typed into them is not kept; keep your notes on sheets of your own."
+    )
+    return text, bool(changed)
+
+
 def result_package(
     source: SourcePackage,
     result: RunResult,
@@ -89,9 +122,8 @@ def result_package(
     active in ``source`` stays active; if it was an earlier result sheet (or
     there is none), Governing becomes the active sheet.
     """
-    notes: tuple[str, ...] = ()
-    if source.ours:
-        notes = (f"Replaced the result sheets of an earlier run: {', '.join(source.ours)}.",)
+    note = replaced_note(source)
+    notes = () if note is None else (note[0],)
     return ResultPackage(
         source,
         lambda book: write_results(book, result, info, notes, max_rows),
