@@ -6,8 +6,13 @@ with and without a saved result, error values, text that looks like a formula),
 rows, columns and headers deleted or inserted, ids blanked or duplicated, sheets
 renamed, swapped, moved, hidden or deleted, and the file's bytes damaged
 (garbage appended or inserted, the file truncated, a byte flipped, zip members
-removed, garbled or cut short, XML entity declarations added). Each mutated
-workbook goes through ``check``, an in-place ``run`` and ``run --out``.
+removed, garbled or cut short, XML entity declarations added). Issue 13 adds the
+inputs that once gave a silently wrong result: decimal commas and mixed separators
+in number and list cells, numbers too small or too large to honour, header units
+spanfleet does not know, two sheets with one name, data under no header or below
+the last row read, and hidden rows. Each mutated workbook goes through ``check``,
+an in-place ``run`` and ``run --out``; a JSON document fuzz adds what only JSON can
+carry (NaN, infinities, overflowing numbers, control characters, lone surrogates).
 
 What must hold for every case, from docs/workbook.md (this repository's
 specification of the workbook: "The command", "Problem messages") and issue 7:
@@ -19,7 +24,10 @@ specification of the workbook: "The command", "Problem messages") and issue 7:
   the ``r`` attribute of a cell);
 * ``check`` and ``run --out`` never change the input's bytes, nor does an
   in-place ``run`` that fails; a successful in-place run leaves a workbook that
-  opens and still holds every sheet it had; no temporary file is left behind.
+  opens and still holds every sheet it had; no temporary file is left behind;
+* no silent change of count (issue 13): after a successful run, the members,
+  spans and axles the Run Log says were analysed are those the workbook holds,
+  counted here from the cells themselves.
 
 Zip damage follows the archive layout of PKWARE's APPNOTE.TXT (local headers,
 central directory, end record); the rest is common practice for fuzzing a file
@@ -33,6 +41,7 @@ from __future__ import annotations
 import contextlib
 import datetime as dt
 import io
+import json
 import re
 import subprocess
 import sys
@@ -50,6 +59,7 @@ from hypothesis import strategies as st
 
 from batch.command.cli import EXIT_OK, EXIT_PROBLEMS, main
 from batch.model.sheets import INPUT_SHEETS
+from batch.reading import workbook
 from batch.writing.package.save import TEMP_PREFIX
 
 #: Distinct mutation programs the fuzz run must try (issue 7: "at least 500 ways per run").
@@ -124,7 +134,7 @@ class SetCell:
             return
         cell = wb[self.sheet][self.ref]
         cell.value = self.value
-        if self.how == "text" and isinstance(self.value, str):
+        if self.how in ("text", "comma", "header") and isinstance(self.value, str):
             cell.data_type = "s"  # text that looks like a formula stays text
 
 
@@ -196,16 +206,34 @@ class Merge:
 
 
 @dataclass(frozen=True)
+class HideRows:
+    """Hide rows of a sheet, by hand or as a filter leaves them (``action``: hide-rows)."""
+
+    sheet: str
+    rows: tuple[int, ...]
+    action: str = "hide-rows"
+
+    def apply(self, wb: Any) -> None:
+        if self.sheet in wb.sheetnames:
+            for row in self.rows:
+                wb[self.sheet].row_dimensions[row].hidden = True
+
+
+@dataclass(frozen=True)
 class SheetOp:
     """Rename, delete, move, hide or clear a sheet, swap two, or add a new one."""
 
-    action: str  # rename, swap, delete, move, hide, clear, add
+    action: str  # rename, swap, delete, move, hide, clear, add, twin
     sheet: str
     arg: Any = None
 
     def apply(self, wb: Any) -> None:
         if self.action == "add":
             wb.create_sheet(self.sheet)["A1"] = self.arg
+            return
+        if self.action == "twin":  # a copy whose name differs only in case and spaces
+            if self.sheet in wb.sheetnames:
+                wb.copy_worksheet(wb[self.sheet]).title = self.arg
             return
         if self.sheet not in wb.sheetnames:
             return
@@ -307,6 +335,44 @@ _NUMBERS = (
     | st.floats(allow_nan=True, allow_infinity=True)
     | st.sampled_from([0, -1, 1e-300, 1e300, 0.5, 30, 2**53 + 1])
 )
+#: Texts that once became silently wrong numbers (issue 13): decimal commas, list entries
+#: typed without spaces, thousands separators, numbers too small or large to honour.
+_COMMA_VALUES = st.sampled_from(
+    [
+        "12,5, 14",
+        "60,80,60",
+        "0,62",
+        "1,250",
+        "14,5-30",
+        "1 250, 30, 30",
+        "60, 80 60",
+        "1\u00a0250",
+        "60, 0.001, 60",
+        "0.5",
+        "1e308, 1e308",
+        "1e-300",
+        "60, 1e999",
+        "1e300",
+    ]
+)
+#: Header cells with units, known and unknown.
+_HEADERS = st.sampled_from(
+    [
+        "Spans (chains)",
+        "Spans (m)",
+        "Spans (left to right)",
+        "Axle loads (t)",
+        "Axle loads (kN)",
+        "Axle spacings (yd)",
+        "Lane load (kN/m)",
+        "Hinges (ft)",
+        "DF moment (%)",
+        "Remarks",
+    ]
+)
+#: Below the last row read: the fuzz test lowers the cap to this many rows.
+FUZZ_ROW_CAP = 40
+_FAR_REF = st.builds(lambda c, r: f"{c}{r}", _COL, st.integers(FUZZ_ROW_CAP + 2, 5000))
 _FORMULAS = st.sampled_from(
     ["=1/0", "=A1", "=SUM(B2:B3)", "=30+30", "=NA()", '="60, 40"', "=Members!B2", "=B2*2"]
 )
@@ -326,6 +392,15 @@ _SET_CELL = st.one_of(
         SetCell, _SHEET, _REF, st.just("error"), st.sampled_from(["#DIV/0!", "#N/A", "#REF!"])
     ),
     st.builds(SetCell, _SHEET, _REF, st.just("blank"), st.none()),
+    st.builds(SetCell, _INPUT, _REF, st.just("comma"), _COMMA_VALUES),
+    st.builds(
+        SetCell,
+        _INPUT,
+        st.builds(lambda c: f"{c}1", _COL),
+        st.just("header"),
+        _HEADERS,
+    ),
+    st.builds(SetCell, _INPUT, _FAR_REF, st.just("far"), _COMMA_VALUES | st.just("KV-9999")),
 )
 _CACHED = st.builds(
     CachedFormula,
@@ -355,6 +430,13 @@ _STRUCTURE = st.one_of(
     st.builds(SheetOp, st.just("swap"), _SHEET, _SHEET),
     st.builds(SheetOp, st.sampled_from(["delete", "hide", "clear"]), _SHEET),
     st.builds(SheetOp, st.just("move"), _SHEET, st.integers(-3, 3)),
+    st.builds(
+        SheetOp,
+        st.just("twin"),
+        _INPUT,
+        st.sampled_from([" members ", "VEHICLES", "settings ", "Members", "Vehicles "]),
+    ),
+    st.builds(HideRows, _INPUT, st.lists(st.integers(2, 4), min_size=1, max_size=2).map(tuple)),
     st.builds(
         SheetOp,
         st.just("add"),
@@ -404,6 +486,7 @@ ALL_KINDS = {
     *("CachedFormula", "CopyCell", "Merge"),
     *("delete_rows", "insert_rows", "delete_cols", "insert_cols"),
     *("rename", "swap", "delete", "move", "hide", "clear", "add"),
+    *("comma", "header", "far", "twin", "hide-rows"),
     *(f"bytes-{a}" for a in ("append", "insert", "truncate", "flip", "remove", "garble")),
     *("bytes-cut", "bytes-entities"),
 }
@@ -469,6 +552,64 @@ def assert_clean_exit(result: Outcome, sheets: set[str], files: tuple[str, ...])
     assert not unplaced, text
 
 
+# ---------------------------------------------------------------- what the workbook holds
+
+_NUMBER_TEXT = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?")
+
+
+def _key(text: object) -> str:
+    """A header or sheet name as matched: lower case, no outer spaces, no trailing (...)."""
+    return re.sub(r"\s*\([^()]*\)\s*$", "", str(text or "").strip()).strip().lower()
+
+
+def _entries(value: object) -> int:
+    """How many numbers a list cell holds, counted from its text."""
+    if isinstance(value, int | float) and not isinstance(value, bool):
+        return 1
+    return len(_NUMBER_TEXT.findall(str(value or "")))
+
+
+def _table(wb: Any, name: str) -> list[dict[str, object]]:
+    """The non-blank rows of an input sheet as {header key: value}."""
+    ws = next(wb[t] for t in wb.sheetnames if _key(t) == name)
+    rows = [list(r) for r in ws.iter_rows(values_only=True)]
+    if not rows:
+        return []
+    keys = [_key(h) for h in rows[0]]
+    return [
+        dict(zip(keys, row, strict=False))
+        for row in rows[1:]
+        if any(v is not None and str(v).strip() for v in row)
+    ]
+
+
+def assert_counts(source: bytes, written: bytes) -> None:
+    """Members, spans and own axles the workbook holds are those its Run Log says were run."""
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        held = openpyxl.load_workbook(io.BytesIO(source), read_only=True, data_only=True)
+        out = openpyxl.load_workbook(io.BytesIO(written), read_only=True, data_only=True)
+    members, vehicles = _table(held, "members"), _table(held, "vehicles")
+    log_rows = [tuple(r[:2]) for r in out["Run Log"].iter_rows(values_only=True)]
+    held.close()
+    out.close()
+    log = dict(log_rows)
+    assert log["Members"] == len(members), "every member row is analysed, no more"
+    assert log["Vehicles"] == len(vehicles)
+    spans = sum(_entries(m.get("spans")) for m in members)
+    assert log["Supports (Reactions rows)"] - log["Members"] == spans, "no span gained or lost"
+    cases = [str(v) for _, v in log_rows if str(v).startswith("vehicle row ")]
+    for v in vehicles:
+        if v.get("library") not in (None, "") or v.get("axle loads") is None:
+            continue
+        ident = v["vehicle"]
+        if isinstance(ident, float) and ident.is_integer():
+            ident = int(ident)  # an id typed as a number, as the reader shows it
+        lead = f"vehicle row {str(ident).strip()}; axles "
+        axles = {len(c[len(lead) :].split(";")[0].split(",")) for c in cases if c.startswith(lead)}
+        assert axles == {_entries(v["axle loads"])}, f"axles of {v['vehicle']!r}"
+
+
 def check_one(folder: Path, data: bytes, sheets: set[str]) -> None:
     """Every assertion of the module docstring, for one mutated file."""
     book, out = folder / "book.xlsx", folder / "results.xlsx"
@@ -499,6 +640,7 @@ def check_one(folder: Path, data: bytes, sheets: set[str]) -> None:
         written.close()
         assert sheets <= names, "every sheet of the input is kept"
         assert "Envelopes" in names
+        assert_counts(data, book.read_bytes())
         book.write_bytes(data)
     else:
         assert book.read_bytes() == data, "a failed run must leave the input as it was"
@@ -523,7 +665,11 @@ def test_the_base_workbook_is_valid_and_runs(base_bytes: bytes, tmp_path: Path) 
     assert call("run", str(book), "-q").status == EXIT_OK
 
 
-def test_fuzzed_workbooks(base_bytes: bytes, tmp_path: Path) -> None:
+def test_fuzzed_workbooks(
+    base_bytes: bytes, tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # A low row cap, so that data "below the last row read" is a few rows away.
+    monkeypatch.setattr(workbook, "MAX_INPUT_ROWS", FUZZ_ROW_CAP)
     seen: set[str] = set()
     kinds: set[str] = set()
 
@@ -576,3 +722,112 @@ def test_fuzzed_workbooks_in_a_real_process(base_bytes: bytes, tmp_path: Path, n
         assert_clean_exit(result, known, (book.name, "out.xlsx"))
         assert result.status == status, done.stderr
         assert book.read_bytes() == data
+
+
+# ---------------------------------------------------------------- JSON documents
+
+#: Raw JSON tokens a document may carry where a value belongs: what a workbook cannot
+#: (RFC 8259 leaves NaN and Infinity out, Python's parser lets them in; control
+#: characters and lone surrogates come in as \u escapes, W3C XML 1.0 §2.2 keeps them
+#: out of a cell), and what looks like a number but is not one spanfleet can honour.
+_RAW = [
+    "NaN",
+    "Infinity",
+    "-Infinity",
+    "1e999",
+    "-1e999",
+    "1e308",
+    "1e-320",
+    "123456789012345678901234567890",
+    "-1",
+    "0",
+    '"\\u0007KV"',
+    '"\\ud800"',
+    '"KV\\udfff\\ud800"',
+    '"\\uffff"',
+    '"' + "x" * 33_000 + '"',
+    '"60,5"',
+    '"12,5, 14"',
+    "null",
+    "true",
+    "[]",
+    "{}",
+    "[1e999]",
+    '["\\u0000"]',
+    "30",
+    "0.5",
+    '"KV-0999 G1"',
+]
+#: Distinct JSON cases the run must try.
+JSON_EXAMPLES = 120
+_PLACEHOLDER = "\u0001raw\u0001"
+
+
+def _leaves(value: Any, path: tuple[Any, ...] = ()) -> list[tuple[Any, ...]]:
+    if isinstance(value, dict):
+        return [path] + [p for k, v in value.items() for p in _leaves(v, (*path, k))]
+    if isinstance(value, list):
+        return [path] + [p for k, v in enumerate(value) for p in _leaves(v, (*path, k))]
+    return [path]
+
+
+def _json_text(document: dict[str, Any], path: tuple[Any, ...], raw: str, new_key: bool) -> str:
+    """The document with ``raw`` at ``path`` (or under a new key named by ``raw`` there)."""
+    doc = json.loads(json.dumps(document))
+    parent = doc
+    for step in path[:-1]:
+        parent = parent[step]
+    if new_key and isinstance(parent, dict):
+        parent[_PLACEHOLDER + "key"] = 1
+        text = json.dumps(doc)
+        key = raw if raw.startswith('"') else f'"{raw}"'
+        return text.replace(json.dumps(_PLACEHOLDER + "key"), key)
+    if path:
+        parent[path[-1]] = _PLACEHOLDER
+    else:
+        doc = _PLACEHOLDER
+    return json.dumps(doc).replace(json.dumps(_PLACEHOLDER), raw)
+
+
+def test_fuzzed_json_documents(base_bytes: bytes, tmp_path: Path) -> None:
+    from batch.validating import read_input
+
+    book = tmp_path / "base.xlsx"
+    book.write_bytes(base_bytes)
+    document = read_input(book).document
+    assert document is not None
+    paths = [p for p in _leaves(document) if p]
+    seen: set[str] = set()
+
+    @settings(max_examples=JSON_EXAMPLES, deadline=None, derandomize=True, database=None)
+    @given(st.sampled_from(paths), st.sampled_from(_RAW), st.booleans())
+    def one(path: tuple[Any, ...], raw: str, new_key: bool) -> None:
+        text = _json_text(document, path, raw, new_key)
+        seen.add(text)
+        doc, out = tmp_path / "case.json", tmp_path / "results.xlsx"
+        doc.write_text(text, "utf-8")
+        before = doc.read_bytes()
+        checked = call("check", str(doc))
+        ran = call("run", str(doc), "--out", str(out), "-q")
+        for result in (checked, ran):
+            body = "\n".join(result.out + result.err)
+            assert result.status in (EXIT_OK, EXIT_PROBLEMS), body
+            assert "internal error" not in body and "Traceback" not in body, body
+        assert (checked.status == EXIT_OK) == (ran.status == EXIT_OK), "check says what run says"
+        for line in ran.err:
+            line = line.removeprefix("warning: ")
+            assert line.startswith(("JSON /", "JSON: ", "file: ", "case.json", "results.xlsx"))
+        assert doc.read_bytes() == before
+        if ran.status == EXIT_OK:
+            with warnings.catch_warnings():
+                warnings.simplefilter("ignore")
+                wb = openpyxl.load_workbook(out, read_only=True)
+            log = {r[0]: r[1] for r in wb["Run Log"].iter_rows(max_col=2, values_only=True)}
+            wb.close()
+            parsed = read_input(doc).document
+            assert parsed is not None
+            assert log["Members"] == len(parsed["members"])
+            out.unlink()
+
+    one()
+    assert len(seen) >= JSON_EXAMPLES * 0.9
