@@ -970,6 +970,11 @@ JSON_CASES = [
         [("/members/1/id", "duplicate-id")],
     ),
     (
+        "vehicles-a-number",  # found by the JSON fuzz: once an internal error
+        '{"members": [{"id": "M", "spans": [60]}], "vehicles": 1e308}',
+        [("/vehicles", "wrong-type")],
+    ),
+    (
         "control-character-in-an-id",
         json.dumps(_doc(members=[{"id": "KV-0101\u0007 G1", "spans": [60]}])),
         [("/members/0/id", "text-control-character")],

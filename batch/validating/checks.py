@@ -416,9 +416,10 @@ def _library_needs(
     """
     rows = list(_library_rows(document, cx))
     reference = settings.get("reference_vehicle")
+    vehicles = document.get("vehicles")
     ids = {
         str(v.get("id", "")).strip().casefold()
-        for v in document.get("vehicles") or []
+        for v in (vehicles if isinstance(vehicles, list) else [])
         if isinstance(v, dict)
     }
     if isinstance(reference, str) and reference.strip() and _library_known(reference):
