@@ -508,7 +508,9 @@ class _PartRow:
 
     In the listing's units: axle loads front first; each spacing as [low, high] (equal
     for a fixed one; high None where the standard sets no upper end, "at least").
-    ``dynamic_allowance`` is the standard's where it fixes one, else None (the run's).
+    ``dynamic_allowance`` is the standard's where it fixes one, else None (the run's);
+    ``impact_formula`` the standard's formula where the allowance depends on the loaded
+    length (then on axles and lane load alike), else None.
     """
 
     part: str
@@ -516,6 +518,7 @@ class _PartRow:
     spacings: list[tuple[float, float | None]]
     lane_load: float
     dynamic_allowance: float | None
+    impact_formula: str | None
     factor: float
     scope: str
     min_span: float
@@ -526,6 +529,7 @@ def _library_parts(units: UnitSystem) -> dict[str, list[_PartRow]]:
     """Each model's parts in ``units``, converted exactly (:meth:`LoadModel.cases`)."""
     from batch.loads import library
     from batch.loads.sourced import UNBOUNDED
+    from batch.model.units import UNIT_LABELS
 
     return {
         m.name: [
@@ -538,6 +542,9 @@ def _library_parts(units: UnitSystem) -> dict[str, list[_PartRow]]:
                 ],
                 lane_load=case.lane_load,
                 dynamic_allowance=item.impact,
+                impact_formula=None
+                if case.impact_formula is None
+                else case.impact_formula.text(UNIT_LABELS[units]["length"]),
                 factor=case.factor,
                 scope=case.scope,
                 min_span=case.min_span,
@@ -571,7 +578,8 @@ def _print_parts(units: UnitSystem) -> None:
                 ", ".join(f"{x:.4g}" for x in p.axle_loads),
                 ", ".join(_spacing_text(low, high) for low, high in p.spacings) or "-",
                 f"{p.lane_load:.4g}",
-                "run's" if p.dynamic_allowance is None else f"{p.dynamic_allowance:g}",
+                p.impact_formula
+                or ("run's" if p.dynamic_allowance is None else f"{p.dynamic_allowance:g}"),
                 f"{p.factor:g}",
             )
             for p in parts
@@ -579,7 +587,9 @@ def _print_parts(units: UnitSystem) -> None:
     widths = [max(len(row[k]) for row in table) for k in range(len(table[0]))]
     print(
         "\nParts (front axle first; a spacing range is searched exactly; IM: the dynamic "
-        "allowance on axles, the run's Settings value unless the standard fixes it):"
+        "allowance on axles, the run's Settings value unless the standard fixes it; a "
+        "formula of the loaded length L is computed for each effect and applies to the lane "
+        "load too):"
     )
     for row in table:
         print("  " + "  ".join(f"{c:<{w}}" for c, w in zip(row, widths, strict=True)).rstrip())

@@ -271,13 +271,14 @@ class InfluenceLines:
         (n_effects, n_spans). A cubic piece takes its extremes at an end of
         its interval (both one-sided limits at a break are taken, so the unit
         jump of a shear line counts) or at a root of its quadratic derivative
-        inside it; every piece lies in one span (the supports are breaks), so
-        the extremes of a span are the extremes of its pieces. Ordinates as in
+        inside it; every piece of a line's own partition (:attr:`reduced`) lies in
+        one span (the supports are breaks), so the extremes of a span are the
+        extremes of its pieces. Ordinates as in
         :meth:`evaluate`; positions from the member's left end.
         """
-        start, end = self.breaks[:-1], self.breaks[1:]
-        h = end - start
-        c = self.coef  # (E, J, 4)
+        breaks, _, c = self.reduced  # each line on its own few pieces: (E, W) and (E, W-1, 4)
+        start = breaks[:, :-1]
+        h = np.diff(breaks, axis=1)  # padded pieces have zero length
         a, b, k = 3.0 * c[..., 3], 2.0 * c[..., 2], c[..., 1]
         disc = b * b - 4.0 * a * k
         root = np.sqrt(np.where(disc >= 0.0, disc, 0.0))
@@ -286,26 +287,26 @@ class InfluenceLines:
         with np.errstate(divide="ignore", invalid="ignore"):
             t1 = np.where(a != 0.0, q / a, np.where(b != 0.0, -k / b, np.nan))
             t2 = np.where((a != 0.0) & (q != 0.0), k / q, np.nan)
-        t = np.stack([np.zeros_like(t1), np.broadcast_to(h, t1.shape), t1, t2], axis=-1)
-        inside = (disc[..., None] >= 0.0) & (t > 0.0) & (t < h[None, :, None])
+        t = np.stack([np.zeros_like(t1), h, t1, t2], axis=-1)
+        inside = (disc[..., None] >= 0.0) & (t > 0.0) & (t < h[..., None])
         inside[..., :2] = True  # the ends of the piece are always candidates
         t = np.where(inside, t, 0.0)
         value = ((c[..., 3:4] * t + c[..., 2:3]) * t + c[..., 1:2]) * t + c[..., 0:1]
-        x = start[None, :, None] + t
-        span = np.searchsorted(self.support_x, 0.5 * (start + end)) - 1  # span of each piece
+        x = start[..., None] + t
+        span = np.searchsorted(self.support_x, start + 0.5 * h) - 1  # span of each piece
+        span[h <= 0.0] = -1  # padding belongs to no span
         rows = np.arange(c.shape[0])
         n_spans = self.support_x.size - 1
         out = []
         for sense in (1.0, -1.0):
-            signed = np.where(inside, sense * value, -np.inf)
             best = np.empty((c.shape[0], n_spans))
             where = np.empty((c.shape[0], n_spans))
             for s in range(n_spans):
-                pieces = span == s
-                cand = signed[:, pieces].reshape(c.shape[0], -1)
+                mine = inside & (span == s)[..., None]
+                cand = np.where(mine, sense * value, -np.inf).reshape(c.shape[0], -1)
                 pick = cand.argmax(axis=1)  # the first of equal candidates wins
                 best[:, s] = sense * cand[rows, pick]
-                where[:, s] = x[:, pieces].reshape(c.shape[0], -1)[rows, pick]
+                where[:, s] = x.reshape(c.shape[0], -1)[rows, pick]
             out.append(SpanExtremes(value=best, position=where))
         return out[0], out[1]
 

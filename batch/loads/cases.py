@@ -60,6 +60,13 @@ class ImpactFormula:
     added: float
     cap: float
 
+    def text(self, length_unit: str) -> str:
+        """The formula as text, e.g. ``50/(L + 125) <= 0.3, L in ft``."""
+        return (
+            f"{self.numerator:.6g}/(L + {self.added:.6g}) <= {self.cap:g}, L in {length_unit}"
+            " (per effect, on axles and lane)"
+        )
+
     def scaled(self, length: float) -> ImpactFormula:
         """The same formula for L measured in a unit ``length`` times smaller (e.g. ft to m)."""
         return ImpactFormula(

@@ -21,6 +21,7 @@ __all__ = [
     "POSTING_FLOOR",
     "PUBLISHED_FACTORS",
     "SINGLE_LANE_PRESENCE",
+    "STANDARD_IMPACT_RULES",
     "STANDARD_SPECIFICATIONS_IMPACT",
 ]
 
@@ -33,12 +34,53 @@ MIN_CAPACITY_FACTOR = 0.85
 POSTING_DIVISOR = 0.7
 POSTING_FLOOR = 0.3
 
-#: AASHTO Standard Specifications for Highway Bridges, 17th ed. (2002), Art. 3.8.2: impact
-#: I = 50 / (L + 125) <= 0.30, L the loaded length in ft (formula and 30 % cap seen in a
-#: published secondary source: the documentation of civilpy, an open-source structural
-#: library, HS20Load.impact_factor; the article's wording from memory). Lengths in ft:
-#: ImpactFormula.scaled converts them exactly (0.3048 m per ft).
-STANDARD_SPECIFICATIONS_IMPACT = ImpactFormula(numerator=50.0, added=125.0, cap=0.30)
+_STD = "AASHTO Standard Specifications for Highway Bridges, 17th ed. (2002)"
+
+#: The Standard Specifications' impact: I = 50 / (L + 125) <= 0.30, L the loaded length in
+#: ft. Its values (50 ft, 125 ft, the cap 0.30) and the rules that go with it.
+STANDARD_IMPACT = Sourced(
+    what="impact I = 50 / (L + 125) <= 0.30, L the loaded length in ft: 50 ft, 125 ft and the cap",
+    value=(50.0, 125.0, 0.30),
+    source=f"{_STD}, Art. 3.8.2.1",
+    status="secondary",
+    seen="the formula and its 30 % cap in the documentation of civilpy, an open-source"
+    " structural library (HS20Load.impact_factor)",
+)
+STANDARD_IMPACT_LENGTHS = Sourced(
+    what="impact loaded length L: the span for positive moment; the average of the two"
+    " adjacent loaded spans for negative moment of continuous spans; for shear, the loaded"
+    " portion of the span from the section to the far reaction (spanfleet's reading of each"
+    " effect: batch/engine/impact.py)",
+    source=f"{_STD}, Art. 3.8.2.2",
+    status="from memory",
+)
+STANDARD_IMPACT_REACTIONS = Sourced(
+    what="impact loaded length of a reaction: the span beside an end support, the average of"
+    " the two spans beside an interior support (the specification names none; spanfleet's"
+    " choice, the shorter of the two lengths in use and so the larger impact)",
+    source=f"{_STD}, Art. 3.8.2.2",
+    status="from memory",
+)
+STANDARD_IMPACT_ON_LANE = Sourced(
+    what="the impact allowance applies to the truck and the lane loading alike",
+    source=f"{_STD}, Art. 3.8.1 and 3.8.2",
+    status="from memory",
+)
+#: The impact formula of :data:`STANDARD_IMPACT` (lengths in ft;
+#: :meth:`~batch.loads.cases.ImpactFormula.scaled` converts them exactly, 0.3048 m per ft).
+STANDARD_SPECIFICATIONS_IMPACT = ImpactFormula(
+    numerator=STANDARD_IMPACT.numbers[0],
+    added=STANDARD_IMPACT.numbers[1],
+    cap=STANDARD_IMPACT.numbers[2],
+)
+#: Every published value and rule of the Standard Specifications' impact, for the parts
+#: and rows that use it.
+STANDARD_IMPACT_RULES = (
+    STANDARD_IMPACT,
+    STANDARD_IMPACT_LENGTHS,
+    STANDARD_IMPACT_REACTIONS,
+    STANDARD_IMPACT_ON_LANE,
+)
 
 #: A US (short) ton is 2 kip; a tonne is 1000 kg, 9.80665 kN under standard gravity.
 KIP_PER_TON = 2.0

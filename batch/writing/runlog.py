@@ -123,9 +123,14 @@ def _rows(
     for lc in result.load_cases:
         vehicle = result.case.vehicles[lc.vehicle].id
         axles = ", ".join(f"{p:g}" for p in lc.train.loads)
+        allowance = (
+            f"{lc.impact:g}"
+            if lc.impact_formula is None
+            else lc.impact_formula.text(settings.unit_labels["length"])
+        )
         text = (
             f"vehicle row {vehicle}; axles {axles}; lane load {lc.lane_load:g}; "
-            f"dynamic allowance {lc.impact:g}; factor {lc.factor:g}"
+            f"dynamic allowance {allowance}; factor {lc.factor:g}"
         )
         yield lc.label, text + ("" if lc.scope == "all" else f"; scope {lc.scope}"), _PLAIN
     yield "Result sheets", None, _SECTION

@@ -8,7 +8,13 @@ where it was seen. docs/load-models.md lists them all, generated from here.
 
 from __future__ import annotations
 
-from batch.loads.factors import FATIGUE_I, FATIGUE_II, FATIGUE_NO_MULTIPLE_PRESENCE
+from batch.loads.factors import (
+    FATIGUE_I,
+    FATIGUE_II,
+    FATIGUE_NO_MULTIPLE_PRESENCE,
+    STANDARD_IMPACT_RULES,
+    STANDARD_SPECIFICATIONS_IMPACT,
+)
 from batch.loads.library.models import LoadModel, part
 from batch.loads.sourced import UNBOUNDED, Sourced
 
@@ -87,57 +93,186 @@ _MILITARY_SPACING = Sourced(
     status="secondary",
     seen=f"{_SEAINT} (2000, 2004)",
 )
-_RUN_IMPACT_STD = Sourced(
-    what="impact I = 50/(L + 125) <= 0.30 is not computed: the run's dynamic load"
-    " allowance applies",
-    source=f"{_STD}, Art. 3.8.2",
+_KHAN = (
+    "Khan, Bridge and Highway Structure Rehabilitation and Repair (McGraw-Hill, 2010), Table"
+    " 6.7 (lane loads of 0.64 kips/ft, 18 kips for moment and 26 kips for shear, in lieu of"
+    " the H-20 truck)"
+)
+_STD_LANE = Sourced(
+    what="H20 and HS20 lane loading: uniform load",
+    value=(0.64,),
+    unit="kip/ft",
+    source=f"{_STD}, Art. 3.7.6, Fig. 3.7.6B",
     status="secondary",
-    seen="the formula and its 30 % cap in the documentation of civilpy, an open-source"
-    " structural library (HS20Load.impact_factor)",
+    seen=f"{_KHAN}; {_SEAINT} (1996): 640 lb per linear foot of lane",
+)
+_STD_MOMENT_LOAD = Sourced(
+    what="H20 and HS20 lane loading: concentrated load for moment",
+    value=(18.0,),
+    unit="kip",
+    source=f"{_STD}, Art. 3.7.6, Fig. 3.7.6B",
+    status="secondary",
+    seen=f"{_KHAN}; {_SEAINT} (1996): 18,000 lb for moment",
+)
+_STD_SHEAR_LOAD = Sourced(
+    what="H20 and HS20 lane loading: concentrated load for shear",
+    value=(26.0,),
+    unit="kip",
+    source=f"{_STD}, Art. 3.7.6, Fig. 3.7.6B",
+    status="secondary",
+    seen=f"{_KHAN}; {_SEAINT} (1996): 26,000 lb for shear",
+)
+_SEVENTY_FIVE_LANE = Sourced(
+    what="H15 and HS15 are 75 % of H20 and HS20, truck and lane loading alike",
+    value=(0.75,),
+    source=f"{_STD}, Art. 3.7.6 and 3.7.7",
+    status="secondary",
+    seen=f"{_SEVENTY_FIVE} (other loadings by changing the weights of both the standard truck"
+    " and the corresponding lane loads in proportion)",
+)
+_TRUCK_OR_LANE = Sourced(
+    what="the design loading is the standard truck or the lane loading, whichever is worse;"
+    " one truck per lane on the whole structure",
+    source=f"{_STD}, Art. 3.7.1 and 3.11.3",
+    status="secondary",
+    seen=f"{_SEVENTY_FIVE} (standard trucks or lane loads equivalent to truck trains);"
+    f" {_SEAINT} (1999): only one standard truck on the structure",
+)
+_LANE_ONE_LOAD = Sourced(
+    what="lane loading: one concentrated load per lane, the lighter for moment and the heavier"
+    " for shear, where it is worst, with the uniform load on the adverse parts; the load for"
+    " shear also for reactions (a reaction being an end shear)",
+    source=f"{_STD}, Art. 3.7.6 and 3.11.3",
+    status="from memory",
+)
+_TWO_LOADS_CONTINUOUS = Sourced(
+    what="continuous spans: the lane loading's uniform load with one concentrated load, or two",
+    source=f"{_STD}, Art. 3.11.3",
+    status="secondary",
+    seen="Galambos, Highway bridge loadings (FHWA): the uniform load is supplemented by one"
+    " concentrated load (or two for continuous spans)",
+)
+_SECOND_LOAD = Sourced(
+    what="for the largest negative moment of continuous spans, a second concentrated load of"
+    " equal weight in one other span, placed where it is worst; not for positive moment, not"
+    " for shear or reactions",
+    source=f"{_STD}, Art. 3.11.3",
+    status="from memory",
 )
 
-HS20 = LoadModel(
-    name="HS20",
-    aliases=("HS20-44",),
-    units="US",
-    category="design",
-    source=f"{_STD}, Art. 3.7 (HS20-44 truck)",
-    description="Standard truck 8, 32, 32 kip; 14 ft, then 14 to 30 ft (the worst spacing in"
-    " that range is used). Truck loading only: the equivalent lane loading is not included."
-    " The run's dynamic load allowance applies; the Standard Specifications' span-dependent"
-    " impact 50/(L + 125) <= 0.30 is not computed.",
-    parts=(part("", _HS20_AXLES, _HS_SPACINGS, rules=(_RUN_IMPACT_STD,)),),
+
+def _standard(
+    name: str,
+    axles: Sourced,
+    spacings: Sourced,
+    lane: tuple[Sourced, Sourced, Sourced],
+    description: str,
+    source: str,
+) -> LoadModel:
+    """An H or HS loading: the envelope of its truck and its lane loading, with impact.
+
+    ``lane`` is the uniform load and the concentrated loads for moment and for shear.
+    """
+    uniform, for_moment, for_shear = lane
+    impact = STANDARD_SPECIFICATIONS_IMPACT
+    rules = (*STANDARD_IMPACT_RULES, _TRUCK_OR_LANE)
+    lane_rules = (*rules, _LANE_ONE_LOAD)
+    return LoadModel(
+        name=name,
+        aliases=(f"{name}-44",),
+        units="US",
+        category="design",
+        source=source,
+        description=description
+        + " Design loading: the worse of the truck and the lane loading (uniform load with"
+        " one concentrated load, the lighter for moment and the heavier for shear and"
+        " reactions, and for negative moment a second equal load for moment in one other span)."
+        " Impact I = 50/(L + 125) <= 0.30 on truck and lane loading alike, L the loaded length"
+        " of each effect (Standard Specifications Art. 3.8; the run's dynamic load allowance is"
+        " not used).",
+        parts=(
+            part("truck", axles, spacings, rules=rules, impact_formula=impact),
+            part(
+                "lane, moment",
+                for_moment,
+                lane_load=uniform,
+                scope="moments",
+                rules=lane_rules,
+                impact_formula=impact,
+            ),
+            part(
+                "lane, shear",
+                for_shear,
+                lane_load=uniform,
+                scope="shears-reactions",
+                rules=lane_rules,
+                impact_formula=impact,
+            ),
+            part(
+                "lane, two loads",
+                for_moment,
+                lane_load=uniform,
+                scope="hogging",
+                other_span_load=True,
+                rules=(*lane_rules, _TWO_LOADS_CONTINUOUS, _SECOND_LOAD),
+                impact_formula=impact,
+            ),
+        ),
+    )
+
+
+def _seventy_five(value: Sourced, what: str) -> Sourced:
+    """75 % of an H20/HS20 lane value (H15, HS15)."""
+    return Sourced.derived(
+        what, tuple(0.75 * n for n in value.numbers), value.unit, value, _SEVENTY_FIVE_LANE
+    )
+
+
+_LANE_20 = (_STD_LANE, _STD_MOMENT_LOAD, _STD_SHEAR_LOAD)
+_LANE_15 = (
+    _seventy_five(_STD_LANE, "H15 and HS15 lane loading: uniform load"),
+    _seventy_five(_STD_MOMENT_LOAD, "H15 and HS15 lane loading: concentrated load for moment"),
+    _seventy_five(_STD_SHEAR_LOAD, "H15 and HS15 lane loading: concentrated load for shear"),
 )
 
-H20 = LoadModel(
-    name="H20",
-    aliases=("H20-44",),
-    units="US",
-    category="design",
-    source=f"{_STD}, Art. 3.7 (H20-44 truck)",
-    description="Two-axle standard truck 8, 32 kip at 14 ft. Truck loading only. The run's"
-    " dynamic load allowance applies.",
-    parts=(part("", _H20_AXLES, _H_SPACING, rules=(_RUN_IMPACT_STD,)),),
+HS20 = _standard(
+    "HS20",
+    _HS20_AXLES,
+    _HS_SPACINGS,
+    _LANE_20,
+    "Standard truck 8, 32, 32 kip; 14 ft, then 14 to 30 ft (the worst spacing in that range"
+    " is used). Lane loading 0.64 kip/ft with 18 kip for moment, 26 kip for shear.",
+    f"{_STD}, Art. 3.7 (HS20-44 truck and lane loading), 3.8 (impact), 3.11.3 (application)",
 )
 
-HS15 = LoadModel(
-    name="HS15",
-    aliases=("HS15-44",),
-    units="US",
-    category="design",
-    source=f"{_STD}, Art. 3.7 (HS15-44 = 75 % of HS20-44)",
-    description="75 % of HS20: 6, 24, 24 kip; 14 ft, then 14 to 30 ft. Truck loading only.",
-    parts=(part("", _HS15_AXLES, _HS_SPACINGS, rules=(_RUN_IMPACT_STD,)),),
+H20 = _standard(
+    "H20",
+    _H20_AXLES,
+    _H_SPACING,
+    _LANE_20,
+    "Two-axle standard truck 8, 32 kip at 14 ft. Lane loading 0.64 kip/ft with 18 kip for"
+    " moment, 26 kip for shear.",
+    f"{_STD}, Art. 3.7 (H20-44 truck and lane loading), 3.8 (impact), 3.11.3 (application)",
 )
 
-H15 = LoadModel(
-    name="H15",
-    aliases=("H15-44",),
-    units="US",
-    category="design",
-    source=f"{_STD}, Art. 3.7 (H15-44 = 75 % of H20-44)",
-    description="75 % of H20: 6, 24 kip at 14 ft. Truck loading only.",
-    parts=(part("", _H15_AXLES, _H_SPACING, rules=(_RUN_IMPACT_STD,)),),
+HS15 = _standard(
+    "HS15",
+    _HS15_AXLES,
+    _HS_SPACINGS,
+    _LANE_15,
+    "75 % of HS20: 6, 24, 24 kip; 14 ft, then 14 to 30 ft. Lane loading 0.48 kip/ft with"
+    " 13.5 kip for moment, 19.5 kip for shear.",
+    f"{_STD}, Art. 3.7 (HS15-44 = 75 % of HS20-44, truck and lane loading), 3.8, 3.11.3",
+)
+
+H15 = _standard(
+    "H15",
+    _H15_AXLES,
+    _H_SPACING,
+    _LANE_15,
+    "75 % of H20: 6, 24 kip at 14 ft. Lane loading 0.48 kip/ft with 13.5 kip for moment,"
+    " 19.5 kip for shear.",
+    f"{_STD}, Art. 3.7 (H15-44 = 75 % of H20-44, truck and lane loading), 3.8, 3.11.3",
 )
 
 ALTERNATE_MILITARY = LoadModel(

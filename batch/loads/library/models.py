@@ -22,7 +22,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass
 
-from batch.loads.cases import SCOPES, LoadCase
+from batch.loads.cases import SCOPES, ImpactFormula, LoadCase
 from batch.loads.sourced import UNBOUNDED, Number, Sourced
 from batch.model import CATEGORIES, UNIT_SYSTEMS, AxleTrain, Category
 from batch.model.units import UnitSystem, conversion
@@ -37,24 +37,31 @@ class Part:
     ``label`` names the part in results (shown after the model name, in
     parentheses; empty for a model with one part). ``train`` is in kip or kN
     and ft or m, front axle first; ``lane_load`` kip/ft or kN/m on the adverse parts, with no
-    dynamic allowance. ``impact`` is the dynamic load allowance the standard
-    fixes for this part, or ``None`` to use the run's. ``factor`` multiplies
+    dynamic allowance unless ``impact_formula`` says so. ``impact`` is the dynamic load
+    allowance the standard
+    fixes for this part, or ``None`` to use the run's; ``impact_formula``, where
+    the standard's allowance depends on the loaded length (the Standard
+    Specifications), replaces both and applies to axles and lane load alike
+    (lengths in the model's unit). ``factor`` multiplies
     axles and lane alike. ``min_span`` (ft or m; 0: none) limits the part to
     members with a span at least that long. ``drop_adverse_axles`` leaves out
     axles that would lessen an effect, where the standard says so; ``fatigue``
-    marks a fatigue load (see :class:`~batch.loads.cases.LoadCase`).
-    ``sources`` are the published values and rules the part is built from.
+    marks a fatigue load and ``other_span_load`` places the part's one axle again in
+    another span (see :class:`~batch.loads.cases.LoadCase`). ``sources`` are the
+    published values and rules the part is built from.
     """
 
     label: str
     train: AxleTrain
     lane_load: float = 0.0
     impact: float | None = None
+    impact_formula: ImpactFormula | None = None
     factor: float = 1.0
     scope: str = "all"
     min_span: float = 0.0
     drop_adverse_axles: bool = False
     fatigue: bool = False
+    other_span_load: bool = False
     sources: tuple[Sourced, ...] = ()
 
     def __post_init__(self) -> None:
@@ -87,11 +94,13 @@ def part(
     *,
     lane_load: Sourced | None = None,
     impact: Sourced | None = None,
+    impact_formula: ImpactFormula | None = None,
     factor: Sourced | None = None,
     scope: str = "all",
     min_span: Sourced | None = None,
     drop_adverse_axles: bool = False,
     fatigue: bool = False,
+    other_span_load: bool = False,
     rules: Sequence[Sourced] = (),
 ) -> Part:
     """Build a :class:`Part` from published values only.
@@ -115,11 +124,13 @@ def part(
         ),
         lane_load=0.0 if lane_load is None else lane_load.number,
         impact=None if impact is None else impact.number,
+        impact_formula=impact_formula,
         factor=1.0 if factor is None else factor.number,
         scope=scope,
         min_span=0.0 if min_span is None else min_span.number,
         drop_adverse_axles=drop_adverse_axles,
         fatigue=fatigue,
+        other_span_load=other_span_load,
         sources=tuple(dict.fromkeys([*load_sources, *gap_sources, *single, *rules])),
     )
 
@@ -210,17 +221,27 @@ class LoadModel:
         standard does not fix one. ``LoadCase.vehicle`` is left 0 for the caller.
         """
         c = conversion(self.units, units)
+
+        def impact_of(item: Part) -> float:
+            if item.impact_formula is not None:
+                return 0.0
+            return impact if item.impact is None else item.impact
+
         return [
             LoadCase(
                 label=self.label(item),
                 train=item.train.scaled(c.force, c.length),
                 lane_load=item.lane_load * c.line_load,
-                impact=impact if item.impact is None else item.impact,
+                impact=impact_of(item),
+                impact_formula=None
+                if item.impact_formula is None
+                else item.impact_formula.scaled(c.length),
                 factor=item.factor,
                 scope=item.scope,
                 min_span=item.min_span * c.length,
                 drop_adverse_axles=item.drop_adverse_axles,
                 fatigue=item.fatigue,
+                other_span_load=item.other_span_load,
             )
             for item in self.parts
         ]
