@@ -35,7 +35,6 @@ from batch.engine.influence import influence_lines
 from batch.loads.cases import LoadCase
 from batch.loads.factors import MIN_CAPACITY_FACTOR
 from batch.model import AxleTrain, Capacity, Member
-from batch.model.layout import station_row
 from batch.rating.lrfr import (
     RATED_EFFECTS,
     RatingFactors,
@@ -51,6 +50,11 @@ from batch.rating.lrfr import (
 from batch.rating.screening import SCREEN_EFFECTS, screen_member
 
 MBE = RatingFactors()  # the published defaults (see the module docstring)
+
+
+def _grid_row(span: int, station: float, n: int) -> int:
+    """Row of a grid station: stations 0, 1/n, ..., 1 span by span (docs/workbook.md)."""
+    return (span - 1) * (n + 1) + round(station * n)
 
 
 def test_published_fixture_by_the_general_equation():
@@ -116,14 +120,14 @@ def _rate(member: Member, capacities: list[Capacity], cases: list[LoadCase], cat
     effects = case_effects(member, cases, stations_per_span=10)
     live = vehicle_effects(effects, cases, len(categories))
     weights = [25.0] * len(categories)  # tons; posting loads are checked in test_posting_*
-    rating = rate_member(member, effects.lines, 10, capacities, live, categories, MBE, weights)
+    rating = rate_member(member, effects.lines, capacities, live, categories, MBE, weights)
     return rating, effects
 
 
 def test_dead_load_effects_simple_span():
     il = influence_lines((L,), (1.0,), (), stations_per_span=10)
     dc = dead_load_effects(il, W_DC)
-    mid = station_row(1, 0.5, 1, 10)
+    mid = _grid_row(1, 0.5, 10)
     assert dc[il.moment_rows][mid] == pytest.approx(W_DC * L**2 / 8, rel=REL_TOL_FLOAT)
     assert dc[il.shear_rows][0] == pytest.approx(W_DC * L / 2, rel=REL_TOL_FLOAT)
     assert dc[il.shear_rows][-1] == pytest.approx(-W_DC * L / 2, rel=REL_TOL_FLOAT)
@@ -133,7 +137,7 @@ def test_dead_load_effects_two_equal_spans():
     # Hicks, Civil Engineering Formulas, Table 2.1: M_B = -wL^2/8, R_B = 5wL/4, R_A = 3wL/8.
     il = influence_lines((L, L), (1.0, 1.0), (), stations_per_span=4)
     dc = dead_load_effects(il, W_DC)
-    support_b = station_row(1, 1.0, 2, 4)
+    support_b = _grid_row(1, 1.0, 4)
     assert dc[il.moment_rows][support_b] == pytest.approx(-W_DC * L**2 / 8, rel=REL_TOL_FLOAT)
     reactions = dc[il.reaction_rows]
     assert reactions[1] == pytest.approx(5 * W_DC * L / 4, rel=REL_TOL_FLOAT)
@@ -154,7 +158,7 @@ def test_rating_worked_by_hand_on_a_simple_span():
     assert rating.rf[0] == pytest.approx(2040 / 837.9, rel=REL_TOL_FLOAT)
     assert rating.rf_operating[0] == pytest.approx(2040 / 646.38, rel=REL_TOL_FLOAT)
     assert RATED_EFFECTS[rating.effect[0]][0] == "M+"
-    assert rating.station[0] == station_row(1, 0.5, 1, 10)
+    assert rating.station[0] == _grid_row(1, 0.5, 10)
 
 
 def test_shear_rating_by_hand_uses_the_condition_factor_alone():
@@ -333,7 +337,7 @@ def test_screening_ratio_by_hand():
     live = vehicle_effects(effects, cases, 2)
     il = effects.lines
     result = screen_member(il, live, live.max_value[0], live.min_value[0], floor=0.0)
-    mid = station_row(1, 0.5, 1, 10)
+    mid = _grid_row(1, 0.5, 10)
     m_ref, m_veh = live.max_value[:, il.moment_rows][:, mid]
     assert m_ref == pytest.approx(DF_M * 600, rel=REL_TOL_FLOAT)
     assert m_veh == pytest.approx(DF_M * 920, rel=REL_TOL_FLOAT)

@@ -147,7 +147,7 @@ def test_capacity_messages_name_the_cell_and_the_fix(make_workbook, tmp_path):
                 CAPACITY_HEADERS[:4],
                 ["KV-0999 G9", 1, 0.5, 2900],
                 ["KV-0215 G1", 3, 0.5, 2900],
-                ["KV-0215 G1", 1, 0.55, 2900],
+                ["KV-0215 G1", 1, None, 2900],
                 ["KV-0215 G1", 1, 0.5, None],
             ],
         },
@@ -162,9 +162,8 @@ def test_capacity_messages_name_the_cell_and_the_fix(make_workbook, tmp_path):
         "Capacities!A2: Member 'KV-0999 G9' is not on the Members sheet; give the id of a "
         "member listed there (ids are compared ignoring case and outer spaces)",
         "Capacities!B3: Span 3: member 'KV-0215 G1' has 1 span; give span 1",
-        "Capacities!C4: Station 0.55 is not one of the stations of the span (0, 1/n, ..., 1 "
-        "with n = 10, the Stations per span setting, within 1e-06); give a station of the "
-        "Envelopes sheet, here 0.5 or 0.6, or change Stations per span",
+        "Capacities!C4: Station is blank, so the row names no section; give Span and Station "
+        "(the fraction of the span), or x (the distance from the member's left end)",
         "Capacities!D5: Resistance M+, Resistance M- and Resistance V are all blank, so "
         "nothing is rated at this station; give at least one factored resistance, or delete "
         "the row",

@@ -47,6 +47,7 @@ M = {"Member": "KV-0101 G1", "Spans": 60}
 MC = M | {"DC load": 1.1}  # a member with a dead load, as rating needs
 CAP = ["Member", "Span", "Station", "Resistance M+"]
 SEG = ["Member", "From", "To", "EI"]
+CAPX = ["Member", "Span", "x", "Resistance M+"]
 V = {"Vehicle": "KV-T3", "Axle loads": "10, 30, 30", "Axle spacings": "14, 16"}
 F = {"Vehicle": "KV-FAT", "Library": "Fatigue I"}
 MF = M | {"DF moment single lane": 0.5, "DF shear single lane": 0.6}  # as fatigue needs
@@ -151,7 +152,7 @@ WORKBOOK_CASES = [
             "members": [MC],
             "extra": {"Capacities": _sheet(CAP[:2] + CAP[3:], ["KV-0101 G1", 1, 900])},
         },
-        [("Capacities", "", "missing-header", E)],
+        [("Capacities", "A2", "no-section", E)],
     ),
     # capacities
     (
@@ -174,10 +175,72 @@ WORKBOOK_CASES = [
         {"members": [MC], "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1.5, 0.5, 900])}},
         [("Capacities", "B2", "not-a-whole-number", E)],
     ),
+    # members as built: a rated section anywhere
     (
-        "capacity-station-off-grid",
+        "capacity-station-off-grid-adds-a-station",
         {"members": [MC], "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1, 0.45, 900])}},
-        [("Capacities", "C2", "station-not-on-grid", E)],
+        [],
+    ),
+    (
+        "capacity-by-x",
+        {"members": [MC], "extra": {"Capacities": _sheet(CAPX, ["KV-0101 G1", None, 7.5, 900])}},
+        [],
+    ),
+    (
+        "capacity-by-x-off-the-member",
+        {"members": [MC], "extra": {"Capacities": _sheet(CAPX, ["KV-0101 G1", None, 61, 900])}},
+        [("Capacities", "C2", "x-off-member", E)],
+    ),
+    (
+        "capacity-by-x-at-an-interior-support",
+        {
+            "members": [MC | {"Spans": "60, 60"}],
+            "extra": {"Capacities": _sheet(CAPX, ["KV-0101 G1", None, 60, 900])},
+        },
+        [("Capacities", "B2", "x-at-support", E)],
+    ),
+    (
+        "capacity-by-x-at-an-interior-support-with-its-span",
+        {
+            "members": [MC | {"Spans": "60, 60"}],
+            "extra": {"Capacities": _sheet(CAPX, ["KV-0101 G1", 2, 60, 900])},
+        },
+        [],
+    ),
+    (
+        "capacity-by-x-in-another-span",
+        {
+            "members": [MC | {"Spans": "60, 60"}],
+            "extra": {"Capacities": _sheet(CAPX, ["KV-0101 G1", 1, 75, 900])},
+        },
+        [("Capacities", "C2", "x-not-in-span", E)],
+    ),
+    (
+        "capacity-station-and-x",
+        {
+            "members": [MC],
+            "extra": {"Capacities": _sheet([*CAP, "x"], ["KV-0101 G1", 1, 0.5, 900, 30])},
+        },
+        [("Capacities", "E2", "station-and-x", E)],
+    ),
+    (
+        "capacity-no-section",
+        {"members": [MC], "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1, None, 900])}},
+        [("Capacities", "C2", "no-section", E)],
+    ),
+    (
+        "capacity-x-twice-as-a-fraction",
+        {
+            "members": [MC],
+            "extra": {
+                "Capacities": _sheet(
+                    [*CAP, "x"],
+                    ["KV-0101 G1", 1, 0.25, 900, None],
+                    ["KV-0101 G1", None, None, 900, 15],
+                )
+            },
+        },
+        [("Capacities", "A3", "duplicate-capacity", E)],
     ),
     (
         "capacity-station-on-a-finer-grid",

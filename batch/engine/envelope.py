@@ -39,6 +39,7 @@ from batch.engine.moving import (
 from batch.loads.cases import LoadCase
 from batch.loads.factors import SINGLE_LANE_PRESENCE
 from batch.model import Member
+from batch.model.layout import Section
 
 __all__ = [
     "CaseEffects",
@@ -58,14 +59,21 @@ DIRECTION_CODES: dict[str, tuple[int, ...]] = {
 }
 
 
-def member_influence(member: Member, stations_per_span: int) -> InfluenceLines:
-    """Influence lines of a model member (see :func:`influence_lines`)."""
+def member_influence(
+    member: Member, stations_per_span: int, sections: Sequence[Section] = ()
+) -> InfluenceLines:
+    """Influence lines of a model member (see :func:`influence_lines`).
+
+    ``stations_per_span`` is the run's setting (the member's own value wins);
+    ``sections`` are stations to add off that grid, (span from 1, x).
+    """
     return influence_lines(
         member.spans,
         member.stiffness,
         member.hinges,
-        stations_per_span,
+        member.stations_per_span or stations_per_span,
         pieces=member.stiffness_pieces,
+        sections=sections,
     )
 
 

@@ -47,7 +47,9 @@ from numpy.typing import NDArray
 from batch.model.exact import Matrix, solve
 from batch.model.layout import (
     POSITION_TOL,
+    Section,
     mechanism_parts,
+    station_index,
     station_positions,
     support_positions,
 )
@@ -117,6 +119,10 @@ class InfluenceLines:
     def n_stations(self) -> int:
         """Number of station rows (an interior support counts twice)."""
         return int(self.station_x.size)
+
+    def station_index(self, section: Section) -> int | None:
+        """Row of a station (span from 1, x from the left end), or None if it is not one."""
+        return station_index(self.station_span, self.station_x, section)
 
     @property
     def n_effects(self) -> int:
@@ -557,6 +563,7 @@ def influence_lines(
     hinges: tuple[float, ...] | list[float] = (),
     stations_per_span: int = 10,
     pieces: Sequence[tuple[float, float, float]] = (),
+    sections: Sequence[Section] = (),
 ) -> InfluenceLines:
     """Exact influence lines of moment and shear at every station and of every reaction.
 
@@ -567,8 +574,10 @@ def influence_lines(
     left end; they may cross supports, must not overlap) whose EI replaces the
     span's: each of their ends becomes a node, so every element keeps one EI and
     the lines stay exact piecewise cubics. Stations are at fractions 0, 1/n,
-    ..., 1 of every span. Raises :class:`UnstableMemberError` when the layout is
-    a mechanism and ``ValueError`` for malformed geometry.
+    ..., 1 of every span, plus the ``sections`` (span from 1, x from the left
+    end) off that grid, each at exactly its x. Raises
+    :class:`UnstableMemberError` when the layout is a mechanism and
+    ``ValueError`` for malformed geometry.
     """
     spans_a = np.asarray(spans, dtype=float)
     if (
@@ -617,7 +626,7 @@ def influence_lines(
     element_ei = _element_stiffness(nodes, supports, ei, piece_a)
     element_cubics = _reaction_cubics(nodes, supports, hinge_a, element_ei, tol)
 
-    span_no, fraction, sx = station_positions(spans_a.tolist(), stations_per_span)
+    span_no, fraction, sx = station_positions(spans_a.tolist(), stations_per_span, sections)
     # A station on a node (a support or a hinge typed at a station) takes the node's
     # exact position, so that the node's element boundary stays where it is.
     on_node = np.abs(sx[:, None] - nodes[None, :]) <= tol

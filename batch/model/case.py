@@ -26,6 +26,7 @@ from dataclasses import dataclass, field
 from typing import Literal, get_args
 
 from batch.model.declare import column
+from batch.model.layout import Section, section_of
 from batch.model.units import UNIT_LABELS, UnitSystem
 
 Directions = Literal["both", "left-to-right", "right-to-left"]
@@ -443,6 +444,15 @@ class Member:
         "tabulated, WITH the one-lane multiple presence factor 1.2 in it (divided out as for "
         "DF moment single lane). Needed when the fleet has a fatigue load.",
     )
+    stations_per_span: int | None = column(
+        "Stations per span",
+        "number",
+        default=None,
+        whole=True,
+        minimum=1,
+        maximum=100,
+        meaning="This member's own number of stations per span, instead of the setting.",
+    )
     # As built: filled in from the Segments sheet (not a column of Members).
     segments: tuple[Segment, ...] = ()
 
@@ -623,7 +633,9 @@ class Capacity:
     """One row of the Capacities sheet: a station of a member to be rated.
 
     ``span`` counts from 1 at the member's left end; ``station`` is the
-    fraction of that span (one of the stations 0, 1/n, ..., 1). Resistances
+    fraction of that span, or ``x`` the distance from the member's left end
+    (see :meth:`section`); a point off the grid of stations becomes a station
+    of its own. Resistances
     are factored resistances phi*Rn (moment unit for ``resistance_m_pos``
     sagging and ``resistance_m_neg`` hogging, a positive magnitude; force unit
     for ``resistance_v``), ``None`` where that effect is not rated. The dead-load
@@ -639,22 +651,24 @@ class Capacity:
         meaning="Id of a member listed on the Members sheet.",
         example=_EXAMPLE_MEMBER,
     )
-    span: int = column(
+    span: int | None = column(
         "Span",
         "number",
-        required=True,
+        default=None,
         whole=True,
         minimum=1,
-        meaning="Span number, counted from 1 at the member's left end.",
+        meaning="Span number, counted from 1 at the member's left end. With x, needed only "
+        "at an interior support, to say which side (span k ends there, span k + 1 starts).",
         example=1,
     )
-    station: float = column(
+    station: float | None = column(
         "Station",
         "number",
-        required=True,
+        default=None,
         minimum=0.0,
         maximum=1.0,
-        meaning="Fraction of the span (0 to 1), one of the stations of the Envelopes sheet.",
+        meaning="Fraction of the span (0 to 1). A fraction between the stations of the "
+        "Envelopes sheet adds a station there. Give Span and Station, or x.",
         example=0.4,
     )
     resistance_m_pos: float | None = column(
@@ -712,6 +726,21 @@ class Capacity:
         quantity="force",
         meaning="Signed wearing-surface shear here; blank: from the member's DW load.",
     )
+    # Members as built: a rated section anywhere (instead of Span and Station).
+    x: float | None = column(
+        "x",
+        "number",
+        default=None,
+        quantity="length",
+        minimum=0.0,
+        meaning="Instead of Station: the section's distance from the member's left end "
+        "(e.g. a cover-plate end or the shear section near a support); spanfleet adds a "
+        "station exactly there.",
+    )
+
+    def section(self, spans: Sequence[float]) -> Section | None:
+        """The station this row names on a member of ``spans`` (None: no point of it)."""
+        return section_of(spans, self.span, self.station, self.x)
 
 
 @dataclass(frozen=True, kw_only=True)

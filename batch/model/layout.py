@@ -2,13 +2,17 @@
 
 Positions are measured from the member's left end in the run's length unit.
 Stations belong to spans: span k (from 1) has stations at the fractions 0, 1/n,
-..., 1 of its length (n = Stations per span), so an interior support appears
-twice, as the end of span k and the start of span k + 1.
+..., 1 of its length (n = Stations per span, the member's own or the setting),
+so an interior support appears twice, as the end of span k and the start of
+span k + 1. A rated section off that grid (a Capacities row given by x, or by a
+fraction that is not a grid station) is added to its span as one more station,
+at exactly its position.
 """
 
 from __future__ import annotations
 
 import itertools
+from collections.abc import Sequence
 from fractions import Fraction
 
 import numpy as np
@@ -19,16 +23,18 @@ from batch.model.exact import null_space
 __all__ = [
     "POSITION_TOL",
     "STATION_TOL",
+    "Section",
     "mechanism_parts",
+    "section_of",
+    "station_index",
     "station_positions",
-    "station_row",
     "support_positions",
 ]
 
 #: Two positions closer than this fraction of the member length are the same point.
 POSITION_TOL = 1e-10
 
-#: A Capacities station matches a station of the member within this fraction of a span.
+#: Two stations of a span closer than this fraction of its length are one station.
 STATION_TOL = 1e-6
 
 
@@ -93,7 +99,9 @@ def _exact_supports(spans: tuple[float, ...] | list[float]) -> list[Fraction]:
 
 
 def station_positions(
-    spans: tuple[float, ...] | list[float], stations_per_span: int
+    spans: tuple[float, ...] | list[float],
+    stations_per_span: int,
+    extra: Sequence[Section] = (),
 ) -> tuple[NDArray[np.int64], NDArray[np.float64], NDArray[np.float64]]:
     """Every station of a member: its span (from 1), fraction of the span and position.
 
@@ -101,28 +109,68 @@ def station_positions(
     span by span. Each fraction and each position is the double nearest its exact
     value (a support's own position at the fractions 0 and 1), so a station a tenth of
     the way along a 24 ft span is at 2.4, the decimal an engineer would type, not at
-    2.4000000000000004 as ``0 + 0.1 * 24`` rounds twice.
+    2.4000000000000004 as ``0 + 0.1 * 24`` rounds twice. The ``extra`` sections
+    (span, x) off that grid are added to their spans in order, each at exactly its x;
+    one within :data:`STATION_TOL` of a span of a station already there is that station.
     """
     n = int(stations_per_span)
     exact = _exact_supports(spans)
     steps = [Fraction(k, n) for k in range(n + 1)]
-    x = [float(a + f * (b - a)) for a, b in itertools.pairwise(exact) for f in steps]
-    count = len(exact) - 1
-    span_no = np.repeat(np.arange(1, count + 1, dtype=np.int64), n + 1)
-    fraction = np.tile(np.array([float(f) for f in steps]), count)
-    return span_no, fraction, np.array(x)
+    span_no: list[int] = []
+    fraction: list[float] = []
+    xs: list[float] = []
+    for k, (a, b) in enumerate(itertools.pairwise(exact), start=1):
+        here = [(float(f), float(a + f * (b - a))) for f in steps]
+        length = float(b - a)
+        for sk, sx in extra:
+            f = (sx - float(a)) / length
+            if sk == k and all(abs(f - g) > STATION_TOL for g, _ in here):
+                here.append((min(max(f, 0.0), 1.0), float(sx)))
+        here.sort()
+        span_no += [k] * len(here)
+        fraction += [f for f, _ in here]
+        xs += [x for _, x in here]
+    return np.array(span_no, dtype=np.int64), np.array(fraction), np.array(xs)
 
 
-def station_row(span: int, station: float, n_spans: int, stations_per_span: int) -> int | None:
-    """Index of the station (span from 1, fraction of the span) among a member's stations.
+#: A station of a member: (span from 1, distance from the member's left end).
+Section = tuple[int, float]
 
-    Stations are 0, 1/n, ..., 1 of every span, span by span (as in Envelopes);
-    ``station`` matches within :data:`STATION_TOL`. None when there is no such
-    station.
+
+def section_of(
+    spans: Sequence[float], span: int | None, station: float | None, x: float | None
+) -> Section | None:
+    """The station a Capacities row names: by span and fraction, or by x.
+
+    ``x`` (from the member's left end) wins when given; ``span`` then only says
+    which side of an interior support x is on (required there). Returns None
+    when the row does not name a point of the member (validation explains why).
     """
-    if not 1 <= span <= n_spans:
+    supports = support_positions(list(spans))
+    n_spans = supports.size - 1
+    if x is not None:
+        tol = POSITION_TOL * float(supports[-1])
+        if x < -tol or x > supports[-1] + tol:
+            return None
+        inside = [k + 1 for k in range(n_spans) if supports[k] - tol <= x <= supports[k + 1] + tol]
+        if span is None:
+            return (inside[0], float(x)) if len(inside) == 1 else None
+        return (span, float(x)) if span in inside else None
+    if span is None or station is None or not 1 <= span <= n_spans or not 0 <= station <= 1:
         return None
-    j = round(station * stations_per_span)
-    if abs(station - j / stations_per_span) > STATION_TOL:
+    exact = _exact_supports(list(spans))
+    a, b = exact[span - 1], exact[span]
+    return span, float(a + Fraction(repr(float(station))) * (b - a))
+
+
+def station_index(
+    station_span: NDArray[np.int64], station_x: NDArray[np.float64], section: Section
+) -> int | None:
+    """Row of ``section`` among a member's stations (as :func:`station_positions` gives them)."""
+    span, x = section
+    rows = np.flatnonzero(station_span == span)
+    if rows.size < 2:
         return None
-    return (span - 1) * (stations_per_span + 1) + j
+    length = float(station_x[rows[-1]] - station_x[rows[0]])
+    near = rows[np.abs(station_x[rows] - x) <= STATION_TOL * length]
+    return int(near[0]) if near.size else None

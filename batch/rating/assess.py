@@ -15,6 +15,7 @@ from dataclasses import dataclass, field
 from batch.engine.envelope import CaseEffects, case_effects
 from batch.loads.cases import LoadCase
 from batch.model import Capacity, Case, Category, Member
+from batch.model.layout import Section
 from batch.rating.lrfr import (
     FloatArray,
     MemberRating,
@@ -72,6 +73,15 @@ class AssessmentPlan:
             floor=case.settings.screening_floor,
         )
 
+    def sections(self, member: Member) -> tuple[Section, ...]:
+        """The stations ``member``'s Capacities rows name, as (span from 1, x).
+
+        Any off the member's grid must be added to its stations (see
+        :func:`~batch.engine.envelope.member_influence`) before it is rated.
+        """
+        found = (c.section(member.spans) for c in self.capacities.get(member.id, ()))
+        return tuple(s for s in found if s is not None)
+
 
 @dataclass(frozen=True, kw_only=True)
 class MemberAssessment:
@@ -105,7 +115,6 @@ def assess_member(
         rating = rate_member(
             member,
             effects.lines,
-            plan.stations_per_span,
             plan.capacities[member.id],
             live,
             plan.categories,

@@ -75,7 +75,6 @@ from batch.loads.factors import (
     POSTING_FLOOR,
 )
 from batch.model import Capacity, Category, Member, Settings, Vehicle
-from batch.model.layout import station_row
 from batch.model.units import UnitSystem
 
 if TYPE_CHECKING:  # the compiled engine is not needed to read ratings
@@ -261,7 +260,6 @@ def _given_or(values: Sequence[float | None], computed: FloatArray) -> FloatArra
 def rate_member(
     member: Member,
     il: InfluenceLines,
-    stations_per_span: int,
     capacities: Sequence[Capacity],
     live: VehicleEffects,
     categories: Sequence[Category],
@@ -276,7 +274,8 @@ def rate_member(
     effects on the member and ``categories`` their categories, in vehicle order.
     """
     found_rows = [
-        station_row(c.span, c.station, len(member.spans), stations_per_span) for c in capacities
+        None if (at := c.section(member.spans)) is None else il.station_index(at)
+        for c in capacities
     ]
     if not capacities or None in found_rows:
         raise ValueError(f"member {member.id!r}: give capacities at the member's own stations")

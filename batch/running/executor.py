@@ -36,7 +36,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from batch.engine.effects import EFFECTS, MemberEnvelope
-from batch.engine.envelope import case_effects, envelope_of
+from batch.engine.envelope import case_effects, envelope_of, member_influence
 from batch.engine.fatigue import FatigueRanges, fatigue_ranges
 from batch.engine.influence import InfluenceLines
 from batch.loads.cases import LoadCase
@@ -202,7 +202,11 @@ def analyse_member(
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
         try:
-            effects = case_effects(member, cases, settings.stations_per_span, settings.directions)
+            sections = () if plan is None else plan.sections(member)
+            il = member_influence(member, settings.stations_per_span, sections)
+            effects = case_effects(
+                member, cases, settings.stations_per_span, settings.directions, il=il
+            )
         except ValueError as exc:  # includes UnstableMemberError
             raise RunError(member.id, str(exc)) from exc
         env = envelope_of(member.id, effects, tuple(c.label for c in cases))

@@ -1,11 +1,13 @@
 """Checks of the Capacities rows that a JSON Schema cannot express.
 
 Each row must name a member of the Members sheet (ids compared ignoring case
-and outer spaces), one of its spans, and one of the stations of that span
-(0, 1/n, ..., 1 with n the Stations per span setting, matched within
-:data:`batch.model.layout.STATION_TOL`); it must give at least one resistance; and
-no station may be listed twice. A member whose dead load would silently be
-taken as 0 gets a warning.
+and outer spaces) and a point of it: one of its spans and a fraction of that
+span, or x from its left end (with the span too where x is an interior support,
+to say which side); a point between the member's stations becomes a station of
+its own (:func:`batch.model.layout.section_of`). It must give at least one
+resistance, and no station may be listed twice (two points within
+:data:`batch.model.layout.STATION_TOL` of a span are one station). A member whose
+dead load would silently be taken as 0 gets a warning.
 
 The schema has already judged each value on its own (types, resistances not
 negative, station from 0 to 1, span from 1); a field it rejected, or that
@@ -18,8 +20,7 @@ import math
 from collections.abc import Callable, Iterator
 from typing import Any
 
-from batch.model import Settings
-from batch.model.layout import STATION_TOL, station_row
+from batch.model.layout import POSITION_TOL, STATION_TOL, section_of
 from batch.reading.problems import DocPath, Locator, Severity
 from batch.validating.fields import finite_number, shown
 
@@ -30,33 +31,21 @@ Found = tuple[DocPath, str, str, Severity]
 _RESISTANCES = ("resistance_m_pos", "resistance_m_neg", "resistance_v")
 
 
-def _spans(member: dict[str, Any], ok: Callable[[DocPath], bool], at: DocPath) -> int | None:
-    """The member's number of spans, or None when its Spans are not usable."""
+def _spans(
+    member: dict[str, Any], ok: Callable[[DocPath], bool], at: DocPath
+) -> list[float] | None:
+    """The member's span lengths, or None when its Spans are not usable."""
     spans = member.get("spans")
     if not ok((*at, "spans")) or not isinstance(spans, list) or not spans:
         return None
-    return len(spans)
-
-
-def _stations(document: dict[str, Any], ok: Callable[[DocPath], bool]) -> int | None:
-    settings = document.get("settings")
-    value = settings.get("stations_per_span") if isinstance(settings, dict) else None
-    if value is None:
-        return Settings().stations_per_span
-    number = finite_number(value)
-    if number is None or not ok(("settings", "stations_per_span")) or number < 1:
+    lengths = [finite_number(v) for v in spans]
+    if any(v is None or v <= 0 for v in lengths):
         return None
-    return int(number) if number.is_integer() else None
-
-
-def _nearest(station: float, n: int) -> str:
-    """The stations of a span nearest ``station``, as typed fractions."""
-    j = min(max(math.floor(station * n), 0), n - 1)
-    return f"{shown(round(j / n, 6))} or {shown(round((j + 1) / n, 6))}"
+    return [float(v) for v in lengths if v is not None]
 
 
 class _Context:
-    """What every row is checked against: the members by id, the stations, rows seen."""
+    """What every row is checked against: the members by id, and the stations seen."""
 
     def __init__(
         self, document: dict[str, Any], locator: Locator, ok: Callable[[DocPath], bool]
@@ -66,10 +55,10 @@ class _Context:
         for i, m in enumerate(members if isinstance(members, list) else []):
             if isinstance(m, dict) and isinstance(m.get("id"), str):
                 self.by_id.setdefault(m["id"].strip().casefold(), (i, m))
-        self.n_per_span = _stations(document, ok)
         self.locator = locator
         self.ok = ok
-        self.seen: dict[tuple[str, int, int], DocPath] = {}
+        # Per member: the stations already listed, (span, x, where).
+        self.seen: dict[str, list[tuple[int, float, DocPath]]] = {}
         self.warned: set[str] = set()
 
 
@@ -111,14 +100,38 @@ def _row_problems(row: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[Fo
         return
     index, member = found
     yield from _dead_load_warning(row, member, at, cx.warned)
-    n_spans = _spans(member, cx.ok, ("members", index))
-    span = finite_number(row.get("span"))
-    if span is None or not cx.ok((*at, "span")) or n_spans is None:
+    spans = _spans(member, cx.ok, ("members", index))
+    keys = ("span", "station", "x")
+    if spans is None or not all(cx.ok((*at, k)) for k in keys):
         return
-    if not 1 <= span <= n_spans:
-        yield _span_off_member(span, n_spans, member, at)
+    span, station, x = (finite_number(row.get(k)) for k in keys)
+    if span is not None and not 1 <= span <= len(spans):
+        yield _span_off_member(span, len(spans), member, at)
         return
-    yield from _station_problems(row, member, int(span), n_spans, at, cx)
+    if x is not None and station is not None:
+        yield (
+            (*at, "x"),
+            "station-and-x",
+            "the row gives both Station and x; give the section once: Span and Station, "
+            "or x (with Span only where x is an interior support)",
+            "error",
+        )
+        return
+    if x is None and (span is None or station is None):
+        missing = "Span" if span is None else "Station"
+        yield (
+            (*at, "span" if span is None else "station"),
+            "no-section",
+            f"{missing} is blank, so the row names no section; give Span and Station (the "
+            "fraction of the span), or x (the distance from the member's left end)",
+            "error",
+        )
+        return
+    place = section_of(spans, None if span is None else int(span), station, x)
+    if place is None:
+        yield _x_problem(spans, span, float(x if x is not None else 0.0), member, at)
+        return
+    yield from _duplicate(place, spans, member, at, cx)
 
 
 def _span_off_member(span: float, n_spans: int, member: dict[str, Any], at: DocPath) -> Found:
@@ -136,43 +149,59 @@ def _span_off_member(span: float, n_spans: int, member: dict[str, Any], at: DocP
     )
 
 
-def _station_problems(
-    row: dict[str, Any],
+def _x_problem(
+    spans: list[float], span: float | None, x: float, member: dict[str, Any], at: DocPath
+) -> Found:
+    """Why x names no section: off the member, at an interior support, or not in Span."""
+    length = math.fsum(spans)
+    ident = member["id"].strip()
+    if x > length * (1 + POSITION_TOL):
+        return (
+            (*at, "x"),
+            "x-off-member",
+            f"x {shown(x)} is beyond the end of member {ident!r} (length {shown(length)}); "
+            "measure x from the member's left end",
+            "error",
+        )
+    if span is None:
+        return (
+            (*at, "span"),
+            "x-at-support",
+            f"x {shown(x)} is an interior support of member {ident!r}, the end of one span and "
+            "the start of the next; give Span to say which (the shear differs on either side)",
+            "error",
+        )
+    return (
+        (*at, "x"),
+        "x-not-in-span",
+        f"x {shown(x)} is not in span {shown(span)} of member {ident!r}; give the span that "
+        "holds x, or leave Span blank",
+        "error",
+    )
+
+
+def _duplicate(
+    place: tuple[int, float],
+    spans: list[float],
     member: dict[str, Any],
-    span: int,
-    n_spans: int,
     at: DocPath,
     cx: _Context,
 ) -> Iterator[Found]:
-    """The row's station must be one of the span's stations, and listed only once."""
-    station, n_per_span = finite_number(row.get("station")), cx.n_per_span
-    if station is None or not cx.ok((*at, "station")) or n_per_span is None:
-        return
-    place = station_row(span, station, n_spans, n_per_span)
-    if place is None:
-        yield (
-            (*at, "station"),
-            "station-not-on-grid",
-            f"Station {shown(station)} is not one of the stations of the span (0, 1/n, ..., "
-            f"1 with n = {n_per_span}, the Stations per span setting, within "
-            f"{STATION_TOL:g}); give a station of the Envelopes sheet, here "
-            f"{_nearest(station, n_per_span)}, or change Stations per span",
-            "error",
-        )
-        return
-    key = (member["id"].strip().casefold(), span, place)
-    if key in cx.seen:
-        sheet, cell = cx.locator.where(cx.seen[key])
-        yield (
-            (*at, "member"),
-            "duplicate-capacity",
-            f"member {member['id'].strip()!r}, span {shown(span)}, station "
-            f"{shown(station)} is listed twice (also in {cell or sheet}); keep one row per "
-            "station",
-            "error",
-        )
-    else:
-        cx.seen[key] = (*at, "member")
+    """A problem when the member's station ``place`` is already listed."""
+    span, x = place
+    seen = cx.seen.setdefault(member["id"].strip().casefold(), [])
+    for other_span, other_x, where in seen:
+        if other_span == span and abs(other_x - x) <= STATION_TOL * spans[span - 1]:
+            sheet, cell = cx.locator.where(where)
+            yield (
+                (*at, "member"),
+                "duplicate-capacity",
+                f"member {member['id'].strip()!r}, span {span}, x {shown(round(x, 6))} is "
+                f"listed twice (also in {cell or sheet}); keep one row per station",
+                "error",
+            )
+            return
+    seen.append((span, x, (*at, "member")))
 
 
 def _dead_load_warning(
