@@ -16,7 +16,7 @@ import pytest
 
 from batch.engine.envelope import case_effects, envelope_of, member_influence
 from batch.loads.fleet import fleet_cases
-from batch.model import Capacity, Case, Member, Settings, Spacing, Vehicle
+from batch.model import Analysis, Capacity, Case, Member, Settings, Spacing, Vehicle
 from batch.running.executor import run_case
 
 REL_TOL_EXACT = 1e-9
@@ -66,7 +66,11 @@ def test_an_off_grid_station_equals_a_grid_that_holds_it(section, grid, row_on_g
 
 
 def test_a_member_may_have_its_own_stations_per_span() -> None:
-    own = Member(id="KV-0706 G3", spans=(55.0, 72.0), stations_per_span=4)
+    own = Member(
+        id="KV-0706 G3",
+        spans=(55.0, 72.0),
+        analysis=Analysis(member="KV-0706 G3", stations_per_span=4),
+    )
     assert member_influence(own, 10).n_stations == 2 * 5
     assert member_influence(Member(id="x", spans=(55.0, 72.0)), 10).n_stations == 2 * 11
 

@@ -43,3 +43,23 @@ def test_segments_rows_reach_their_member(make_workbook, tmp_path) -> None:
     same = influence_lines((70.0, 70.0), (1.0, 1.0), (), 4, pieces=member.stiffness_pieces)
     x = np.linspace(0.0, 140.0, 281)
     np.testing.assert_array_equal(il.evaluate(x), same.evaluate(x))
+
+
+def test_an_analysis_row_reaches_its_member(make_workbook, tmp_path) -> None:
+    book = make_workbook(
+        tmp_path,
+        members=[{"Member": "KV-0705 G2", "Spans (ft)": "70, 70"}],
+        extra={
+            "Analysis": [
+                ["Member", "Stations per span", "EI scale (kip-in2)", "DF deflection"],
+                ["kv-0705 g2", 16, 2.9e9, 0.55],
+            ]
+        },
+    )
+    report = read_input(book)
+    assert report.case is not None, [p.render() for p in report.problems]
+    (member,) = report.case.members
+    assert member.analysis is not None and member.analysis.member == "KV-0705 G2"
+    assert member.stations_per_span == 16
+    assert (member.analysis.ei_scale, member.analysis.df_deflection) == (2.9e9, 0.55)
+    assert member_influence(member, 10).n_stations == 2 * 17

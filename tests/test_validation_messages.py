@@ -22,6 +22,9 @@ Sources, by rule:
   each end; a stiffness twenty times away from the member's is a likely typing
   slip (common practice: cover plates add tens of percent, deep haunches a few
   times);
+* Analysis rows: one per member; the deflection inputs need the EI scale, and
+  without DF deflection the moment DF is used, which AASHTO LRFD 2.5.2.6.2 (all
+  lanes loaded, all girders deflecting equally) does not ask for: a warning;
 * JSON: RFC 8259 (no NaN or Infinity; object names should be unique) and RFC
   6901 (JSON pointers);
 * text a cell cannot hold: W3C XML 1.0 (Fifth Edition) §2.2, production [2] Char,
@@ -360,6 +363,60 @@ WORKBOOK_CASES = [
         "segment-unknown-haunch",
         {"extra": {"Segments": _sheet([*SEG, "Haunch"], ["KV-0101 G1", 40, 60, 1, "curved"])}},
         [("Segments", "E2", "not-a-choice", E)],
+    ),
+    # members as built: a member's own analysis options (Analysis)
+    (
+        "analysis-own-stations",
+        {"extra": {"Analysis": _sheet(["Member", "Stations per span"], ["KV-0101 G1", 20])}},
+        [],
+    ),
+    (
+        "analysis-unknown-member",
+        {"extra": {"Analysis": _sheet(["Member", "Stations per span"], ["KV-9999", 20])}},
+        [("Analysis", "A2", "unknown-member", E)],
+    ),
+    (
+        "analysis-twice",
+        {
+            "extra": {
+                "Analysis": _sheet(
+                    ["Member", "Stations per span"], ["KV-0101 G1", 20], ["kv-0101 g1", 12]
+                )
+            }
+        },
+        [("Analysis", "A3", "duplicate-analysis", E)],
+    ),
+    (
+        "analysis-limit-without-ei",
+        {"extra": {"Analysis": _sheet(["Member", "Deflection limit"], ["KV-0101 G1", 1000])}},
+        [("Analysis", "B2", "deflection-without-ei", E)],
+    ),
+    (
+        "analysis-deflection-takes-df-moment",
+        {"extra": {"Analysis": _sheet(["Member", "EI scale (kip-in2)"], ["KV-0101 G1", 2e9])}},
+        [("Analysis", "B2", "deflection-takes-df-moment", W)],
+    ),
+    (
+        "analysis-deflection-with-its-df",
+        {
+            "extra": {
+                "Analysis": _sheet(
+                    ["Member", "EI scale", "DF deflection"], ["KV-0101 G1", 2e9, 0.5]
+                )
+            }
+        },
+        [],
+    ),
+    (
+        "analysis-ei-scale-in-kip-ft2",
+        {
+            "extra": {
+                "Analysis": _sheet(
+                    ["Member", "EI scale (kip-ft2)", "DF deflection"], ["KV-0101 G1", 2e7, 0.5]
+                )
+            }
+        },
+        [("Analysis", "B1", "header-unit-mismatch", E)],
     ),
     # settings
     (

@@ -314,6 +314,84 @@ class Segment:
         return tuple((a, b, self.stiffness_at(0.5 * (a + b))) for a, b in itertools.pairwise(cuts))
 
 
+# ---------------------------------------------------------------- members as built: a member's
+# own analysis options (the Analysis sheet).
+
+#: Span/deflection limit used when a member asks for deflections and gives none (AASHTO
+#: LRFD 2.5.2.6.2, vehicular load: L/800).
+DEFAULT_DEFLECTION_LIMIT = 800.0
+
+
+@dataclass(frozen=True, kw_only=True)
+class Analysis:
+    """One row of the Analysis sheet: how one member is analysed, where not as the settings say.
+
+    ``stations_per_span`` replaces the setting for this member. Deflection is
+    computed when ``ei_scale`` is given: the absolute flexural rigidity (rigidity
+    unit, kip-in2 or kN-m2) that a stiffness of 1 on Span EI and Segments stands
+    for; ``deflection_limit`` is the least span/deflection ratio accepted;
+    ``df_deflection`` the distribution factor of the deflection loading (None:
+    from the girder layout, else DF moment).
+    """
+
+    member: str = column(
+        "Member",
+        "id",
+        required=True,
+        meaning="Id of a member listed on the Members sheet.",
+        example=_EXAMPLE_MEMBER,
+    )
+    stations_per_span: int | None = column(
+        "Stations per span",
+        "number",
+        default=None,
+        whole=True,
+        minimum=1,
+        maximum=100,
+        meaning="This member's own number of stations per span, instead of the setting.",
+        example=20,
+    )
+    ei_scale: float | None = column(
+        "EI scale",
+        "number",
+        default=None,
+        quantity="rigidity",
+        above=0.0,
+        meaning="Give it for live-load deflections: the absolute flexural rigidity E*I that a "
+        "stiffness of 1 on Span EI and Segments stands for. E.g. the girder's E*I with Span "
+        "EI 1; or, in US units, E in ksi with Span EI and Segments giving I in in4 "
+        "(ksi x in4 = kip-in2); in SI, E in kN/m2 with I in m4.",
+        example=2.9e9,
+    )
+    deflection_limit: float | None = column(
+        "Deflection limit",
+        "number",
+        default=None,
+        above=1.0,
+        meaning="Least span/deflection ratio accepted, e.g. 800 for L/800 (AASHTO LRFD "
+        "2.5.2.6.2: 800 for vehicular load, 1000 with pedestrians). Blank: 800.",
+        example=800,
+    )
+    df_deflection: float | None = column(
+        "DF deflection",
+        "number",
+        default=None,
+        above=0.0,
+        meaning="Distribution factor of the deflection loading. AASHTO LRFD 2.5.2.6.2 loads "
+        "every design lane and takes all girders to deflect equally: lanes x multiple presence "
+        "factor / girders. Blank: from the girder layout when the member has one, else DF "
+        "moment (a warning says so).",
+        example=0.45,
+    )
+    description: str = column(
+        "Description",
+        "text",
+        default="",
+        meaning="Free text.",
+        example="EXAMPLE, replace or delete: deflection check",
+    )
+
+
 @dataclass(frozen=True, kw_only=True)
 class Member:
     """One girder line: consecutive spans supported at both ends of every span.
@@ -329,7 +407,7 @@ class Member:
 
     As built (filled in from the other input sheets, not Members columns):
     ``segments`` are the member's rows of the Segments sheet, stretches whose
-    stiffness replaces Span EI.
+    stiffness replaces Span EI; ``analysis`` its row of the Analysis sheet.
     """
 
     id: str = column(
@@ -444,17 +522,9 @@ class Member:
         "tabulated, WITH the one-lane multiple presence factor 1.2 in it (divided out as for "
         "DF moment single lane). Needed when the fleet has a fatigue load.",
     )
-    stations_per_span: int | None = column(
-        "Stations per span",
-        "number",
-        default=None,
-        whole=True,
-        minimum=1,
-        maximum=100,
-        meaning="This member's own number of stations per span, instead of the setting.",
-    )
-    # As built: filled in from the Segments sheet (not a column of Members).
+    # As built: filled in from the Segments and Analysis sheets (not columns of Members).
     segments: tuple[Segment, ...] = ()
+    analysis: Analysis | None = None
 
     @property
     def stiffness(self) -> tuple[float, ...]:
@@ -465,6 +535,11 @@ class Member:
     def length(self) -> float:
         """Total length of the member."""
         return float(sum(self.spans))
+
+    @property
+    def stations_per_span(self) -> int | None:
+        """The member's own number of stations per span (None: the setting's)."""
+        return None if self.analysis is None else self.analysis.stations_per_span
 
     @property
     def stiffness_pieces(self) -> tuple[tuple[float, float, float], ...]:

@@ -8,10 +8,11 @@ the JSON Schema and the docs read these, so nothing here is declared twice.
 
 from __future__ import annotations
 
-from batch.model.case import Capacity, Member, Segment, Settings, Vehicle
+from batch.model.case import Analysis, Capacity, Member, Segment, Settings, Vehicle
 from batch.model.declare import InputColumn, InputSheet, columns_of
 
 __all__ = [
+    "ANALYSIS",
     "CAPACITIES",
     "INPUT_SHEETS",
     "MEMBERS",
@@ -59,6 +60,15 @@ SEGMENTS = InputSheet(
     columns=columns_of(Segment),
 )
 
+ANALYSIS = InputSheet(
+    name="Analysis",
+    key="analysis",
+    purpose="Optional: one row per member analysed other than as the settings say: its own "
+    "stations per span; live-load deflection (with the member's EI scale) against a "
+    "span/deflection limit.",
+    columns=columns_of(Analysis),
+)
+
 VEHICLES = InputSheet(
     required=True,
     name="Vehicles",
@@ -75,7 +85,7 @@ CAPACITIES = InputSheet(
 )
 
 #: The sheets of one row per item (all but Settings), in workbook order.
-TABLE_SHEETS: tuple[InputSheet, ...] = (MEMBERS, SEGMENTS, VEHICLES, CAPACITIES)
+TABLE_SHEETS: tuple[InputSheet, ...] = (MEMBERS, SEGMENTS, ANALYSIS, VEHICLES, CAPACITIES)
 
-#: The sheets a run reads, in workbook order (Segments and Capacities are optional).
+#: The sheets a run reads, in workbook order (Segments, Analysis, Capacities optional).
 INPUT_SHEETS: tuple[InputSheet, ...] = (SETTINGS, *TABLE_SHEETS)

@@ -12,6 +12,7 @@ from dataclasses import dataclass
 from typing import Literal, get_args
 
 __all__ = [
+    "IN_CONSISTENT_UNITS",
     "KN_PER_KIP",
     "M_PER_FT",
     "UNIT_LABELS",
@@ -24,13 +25,37 @@ __all__ = [
 
 UnitSystem = Literal["US", "SI"]
 #: A physical quantity whose unit a header shows ("" for a plain number).
-Quantity = Literal["", "length", "force", "moment", "line_load"]
+Quantity = Literal["", "length", "force", "moment", "line_load", "rigidity", "deflection"]
 UNIT_SYSTEMS: tuple[str, ...] = get_args(UnitSystem)
 
-#: Unit labels of each system, by quantity, as shown in result headers.
+#: Unit labels of each system, by quantity, as shown in headers.
+#: Flexural rigidity (an input) and deflection (a result) are in the units engineers use
+#: for them, not in the run's consistent force and length units (IN_CONSISTENT_UNITS).
 UNIT_LABELS: dict[str, dict[str, str]] = {
-    "US": {"force": "kip", "length": "ft", "moment": "kip-ft", "line_load": "kip/ft"},
-    "SI": {"force": "kN", "length": "m", "moment": "kN-m", "line_load": "kN/m"},
+    "US": {
+        "force": "kip",
+        "length": "ft",
+        "moment": "kip-ft",
+        "line_load": "kip/ft",
+        "rigidity": "kip-in2",
+        "deflection": "in",
+    },
+    "SI": {
+        "force": "kN",
+        "length": "m",
+        "moment": "kN-m",
+        "line_load": "kN/m",
+        "rigidity": "kN-m2",
+        "deflection": "mm",
+    },
+}
+
+#: What one unit of a quantity whose label is not the run's consistent unit is in the
+#: consistent units (kip and ft, or kN and m): 1 kip-in2 = 1/144 kip-ft2, 1 in = 1/12 ft,
+#: 1 mm = 0.001 m (exact by definition).
+IN_CONSISTENT_UNITS: dict[str, dict[str, float]] = {
+    "US": {"rigidity": 1.0 / 144.0, "deflection": 1.0 / 12.0},
+    "SI": {"rigidity": 1.0, "deflection": 1e-3},
 }
 
 #: kN in one kip (exact: 1000 lbf of 4.4482216152605 N).

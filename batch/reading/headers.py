@@ -34,6 +34,13 @@ _UNIT_SPELLINGS: dict[str, tuple[str, str | None]] = {
     **{s: ("line_load", "US") for s in ("kip/ft", "klf", "k/ft", "kips/ft")},
     **{s: ("line_load", "SI") for s in ("kn/m",)},
     **{s: ("line_load", None) for s in ("lb/ft", "plf", "n/mm", "n/m", "t/m")},
+    # Members as built: flexural rigidity (EI scale).
+    **{s: ("rigidity", "US") for s in ("kip-in2", "kip-in²", "kip·in2", "kip·in²", "k-in2")},
+    **{s: ("rigidity", "SI") for s in ("kn-m2", "kn-m²", "kn·m2", "kn·m²", "knm2")},
+    **{
+        s: ("rigidity", None)
+        for s in ("kip-ft2", "kip-ft²", "lb-in2", "n-mm2", "n-mm²", "kn-mm2", "n-m2", "mn-m2")
+    },
 }
 
 

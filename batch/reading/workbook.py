@@ -233,6 +233,7 @@ _NOUNS = {
     "vehicles": "vehicle",
     "capacities": "station",
     "segments": "stretch",
+    "analysis": "member",
 }
 
 

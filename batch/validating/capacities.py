@@ -22,6 +22,7 @@ from typing import Any
 
 from batch.model.layout import POSITION_TOL, STATION_TOL, section_of
 from batch.reading.problems import DocPath, Locator, Severity
+from batch.validating.analysis import members_by_id, unknown_member
 from batch.validating.fields import finite_number, shown
 
 __all__ = ["capacity_problems"]
@@ -50,11 +51,7 @@ class _Context:
     def __init__(
         self, document: dict[str, Any], locator: Locator, ok: Callable[[DocPath], bool]
     ) -> None:
-        members = document.get("members")
-        self.by_id: dict[str, tuple[int, dict[str, Any]]] = {}
-        for i, m in enumerate(members if isinstance(members, list) else []):
-            if isinstance(m, dict) and isinstance(m.get("id"), str):
-                self.by_id.setdefault(m["id"].strip().casefold(), (i, m))
+        self.by_id = members_by_id(document)
         self.locator = locator
         self.ok = ok
         # Per member: the stations already listed, (span, x, where).
@@ -90,13 +87,7 @@ def _row_problems(row: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[Fo
         return
     found = cx.by_id.get(name.strip().casefold())
     if found is None:
-        yield (
-            (*at, "member"),
-            "unknown-member",
-            f"Member {name.strip()!r} is not on the Members sheet; give the id of a member "
-            "listed there (ids are compared ignoring case and outer spaces)",
-            "error",
-        )
+        yield unknown_member(name, at)
         return
     index, member = found
     yield from _dead_load_warning(row, member, at, cx.warned)

@@ -28,6 +28,7 @@ from batch.model import UNIT_LABELS, UNIT_SYSTEMS, Settings
 from batch.model.case import MAX_RANGES
 from batch.model.layout import POSITION_TOL, mechanism_parts
 from batch.reading.problems import DocPath, Locator, PathSet, Problem, Severity
+from batch.validating.analysis import analysis_problems
 from batch.validating.capacities import capacity_problems
 from batch.validating.fields import finite_number, label, shown
 from batch.validating.friendly import missing_axle_column, nearest_models, unit_mixups
@@ -560,10 +561,13 @@ def check_document(
     capacities = document.get("capacities")
     if isinstance(capacities, list):
         found += capacity_problems(capacities, document, locator, cx.ok)
-    # Members as built: stiffness along a member (the Segments sheet).
+    # Members as built: stiffness along a member (Segments), a member's own analysis.
     segments = document.get("segments")
     if isinstance(segments, list):
         found += segment_problems(segments, document, cx.ok, UNIT_LABELS[cx.units]["length"])
+    analysis = document.get("analysis")
+    if isinstance(analysis, list):
+        found += analysis_problems(analysis, document, locator, cx.ok, set())
     found += _library_needs(document, settings, bool(capacities), cx)
     out = []
     for path, code, message, severity in found:

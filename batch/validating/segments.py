@@ -21,6 +21,7 @@ from typing import Any
 
 from batch.model.layout import POSITION_TOL
 from batch.reading.problems import DocPath, Severity
+from batch.validating.analysis import members_by_id, unknown_member
 from batch.validating.fields import finite_number, shown
 
 __all__ = ["EI_RATIO_WARN", "MAX_PIECES", "segment_problems"]
@@ -51,11 +52,7 @@ def segment_problems(
 
     ``unit`` is the run's length unit label, for messages.
     """
-    members = document.get("members")
-    by_id: dict[str, tuple[int, dict[str, Any]]] = {}
-    for i, m in enumerate(members if isinstance(members, list) else []):
-        if isinstance(m, dict) and isinstance(m.get("id"), str):
-            by_id.setdefault(m["id"].strip().casefold(), (i, m))
+    by_id = members_by_id(document)
     stretches: dict[str, list[tuple[float, float, DocPath]]] = {}
     pieces: dict[str, int] = {}
     for i, row in enumerate(rows):
@@ -68,13 +65,7 @@ def segment_problems(
             continue
         found = by_id.get(name.strip().casefold())
         if found is None:
-            yield (
-                (*at, "member"),
-                "unknown-member",
-                f"Member {name.strip()!r} is not on the Members sheet; give the id of a member "
-                "listed there (ids are compared ignoring case and outer spaces)",
-                "error",
-            )
+            yield unknown_member(name, at)
             continue
         index, member = found
         key = member["id"].strip().casefold()

@@ -9,7 +9,8 @@ floats, or ints where the model's field is an int; text loses its outer spaces
 A vehicle row that names a library model and leaves Category blank takes the
 model's category. A capacity row names its member by the member's id exactly
 as the Members sheet spells it (ids match ignoring case and outer spaces). Each
-member carries its Segments rows (:attr:`batch.model.Member.segments`).
+member carries its Segments rows and its Analysis row
+(:attr:`batch.model.Member.segments`, :attr:`batch.model.Member.analysis`).
 """
 
 from __future__ import annotations
@@ -17,9 +18,16 @@ from __future__ import annotations
 from typing import Any
 
 from batch.loads import library
-from batch.model import Capacity, Case, Member, Segment, Settings, Spacing, Vehicle
+from batch.model import Analysis, Capacity, Case, Member, Segment, Settings, Spacing, Vehicle
 from batch.model.declare import InputColumn
-from batch.model.sheets import CAPACITIES, MEMBERS, SEGMENTS, SETTING_ROWS, VEHICLES
+from batch.model.sheets import (
+    ANALYSIS,
+    CAPACITIES,
+    MEMBERS,
+    SEGMENTS,
+    SETTING_ROWS,
+    VEHICLES,
+)
 
 __all__ = ["to_case"]
 
@@ -69,13 +77,28 @@ def _segments(document: dict[str, Any], ids: dict[str, str]) -> dict[str, tuple[
     return {member: tuple(rows) for member, rows in out.items()}
 
 
+def _analysis(document: dict[str, Any], ids: dict[str, str]) -> dict[str, Analysis]:
+    """Each member's Analysis row by member id (spelled as on Members)."""
+    out = {}
+    for row in document.get("analysis", []):
+        values = _fields(ANALYSIS.columns, row)
+        values["member"] = ids[values["member"].casefold()]
+        out[values["member"]] = Analysis(**values)
+    return out
+
+
 def to_case(document: dict[str, Any]) -> Case:
     """The model of a document that passed validation with no errors."""
     rows = document["members"]
     ids = {str(m["id"]).strip().casefold(): str(m["id"]).strip() for m in rows}
     segments = _segments(document, ids)
+    analysis = _analysis(document, ids)
     members = tuple(
-        Member(**_fields(MEMBERS.columns, m), segments=segments.get(str(m["id"]).strip(), ()))
+        Member(
+            **_fields(MEMBERS.columns, m),
+            segments=segments.get(str(m["id"]).strip(), ()),
+            analysis=analysis.get(str(m["id"]).strip()),
+        )
         for m in rows
     )
     return Case(

@@ -151,7 +151,7 @@ def _put(cell: Cell | MergedCell, value: CellValue) -> None:
 
 
 def case_rows(case: Case) -> dict[str, list[dict[str, CellValue]]]:
-    """The Members, Vehicles and (when it has any) Capacities and Segments rows of a case.
+    """The Members, Vehicles and (when it has any) Capacities, Segments and Analysis rows.
 
     Rows are keyed by the declared column keys. Empty values (no hinges, no
     library, a blank resistance, ...) become blank cells; every other value is
@@ -163,6 +163,9 @@ def case_rows(case: Case) -> dict[str, list[dict[str, CellValue]]]:
     segments = tuple(s for m in case.members for s in m.segments)
     if segments:
         objects["Segments"] = segments
+    analysis = tuple(m.analysis for m in case.members if m.analysis is not None)
+    if analysis:
+        objects["Analysis"] = analysis
     sheets = {sheet.name: sheet for sheet in INPUT_SHEETS}
     return {
         name: [
@@ -301,7 +304,9 @@ def _guide_lines(units: UnitSystem) -> list[tuple[str, Font | None]]:
         ("How to fill them in", section),
         (
             "1. Settings: choose the unit system first; every number in the workbook is in it "
-            f"(this workbook: {units}, i.e. " + ", ".join(UNIT_LABELS[units].values()) + "). "
+            f"(this workbook: {units}, i.e. "
+            + ", ".join(UNIT_LABELS[units][q] for q in ("force", "length", "moment", "line_load"))
+            + f"; flexural rigidity in {UNIT_LABELS[units]['rigidity']}). "
             "The unit in a header's parentheses must agree with it. A blank value takes the "
             "default shown.",
             plain,

@@ -1,0 +1,116 @@
+"""Checks of the Analysis rows (a member's own analysis options) that a schema cannot express.
+
+Each row must name a member of the Members sheet (ids compared ignoring case and
+outer spaces), at most one row per member. A deflection limit or a deflection
+distribution factor without an EI scale does nothing, so it is an error; an EI
+scale with no deflection distribution factor and no girder layout for the member
+takes DF moment, which a warning says (AASHTO LRFD 2.5.2.6.2 loads every lane and
+shares the load equally among the girders, a different factor from the moment one).
+
+The schema has already judged each value on its own; a field it rejected, or that
+could not be read, is skipped here.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Iterator
+from typing import Any
+
+from batch.reading.problems import DocPath, Locator, Severity
+from batch.validating.fields import finite_number
+
+__all__ = ["analysis_problems", "members_by_id"]
+
+Found = tuple[DocPath, str, str, Severity]
+
+
+def members_by_id(document: dict[str, Any]) -> dict[str, tuple[int, dict[str, Any]]]:
+    """The Members rows by folded id (the first of a repeated id), with their index."""
+    members = document.get("members")
+    by_id: dict[str, tuple[int, dict[str, Any]]] = {}
+    for i, m in enumerate(members if isinstance(members, list) else []):
+        if isinstance(m, dict) and isinstance(m.get("id"), str):
+            by_id.setdefault(m["id"].strip().casefold(), (i, m))
+    return by_id
+
+
+def unknown_member(name: str, at: DocPath) -> Found:
+    """The problem of a row that names no member of the Members sheet."""
+    return (
+        (*at, "member"),
+        "unknown-member",
+        f"Member {name.strip()!r} is not on the Members sheet; give the id of a member "
+        "listed there (ids are compared ignoring case and outer spaces)",
+        "error",
+    )
+
+
+def analysis_problems(
+    rows: list[Any],
+    document: dict[str, Any],
+    locator: Locator,
+    ok: Callable[[DocPath], bool],
+    with_layout: set[str],
+) -> Iterator[Found]:
+    """Every cross-field problem of the Analysis rows (``ok(path)``: not yet reported).
+
+    ``with_layout`` holds the folded ids of the members that have a girder layout.
+    """
+    by_id = members_by_id(document)
+    seen: dict[str, DocPath] = {}
+    for i, row in enumerate(rows):
+        if not isinstance(row, dict):
+            continue
+        at: DocPath = ("analysis", i)
+        name = row.get("member")
+        if not isinstance(name, str) or not ok((*at, "member")):
+            continue
+        if name.strip().casefold() not in by_id:
+            yield unknown_member(name, at)
+            continue
+        key = name.strip().casefold()
+        if key in seen:
+            sheet, cell = locator.where(seen[key])
+            yield (
+                (*at, "member"),
+                "duplicate-analysis",
+                f"member {name.strip()!r} has a row already (also in {cell or sheet}); keep "
+                "one Analysis row per member",
+                "error",
+            )
+            continue
+        seen[key] = (*at, "member")
+        yield from _deflection(row, at, ok, key in with_layout)
+
+
+def _deflection(
+    row: dict[str, Any], at: DocPath, ok: Callable[[DocPath], bool], has_layout: bool
+) -> Iterator[Found]:
+    """Deflection inputs need the EI scale; without a DF deflection, say which DF is used."""
+    if not ok((*at, "ei_scale")):
+        return
+    if finite_number(row.get("ei_scale")) is None:
+        for key, name in (
+            ("deflection_limit", "Deflection limit"),
+            ("df_deflection", "DF deflection"),
+        ):
+            if key in row and ok((*at, key)):
+                yield (
+                    (*at, key),
+                    "deflection-without-ei",
+                    f"{name} is given but EI scale is blank, so no deflection is computed; "
+                    "give the member's EI scale (the absolute E*I that a stiffness of 1 stands "
+                    f"for), or clear {name}",
+                    "error",
+                )
+        return
+    if "df_deflection" not in row and ok((*at, "df_deflection")) and not has_layout:
+        yield (
+            (*at, "ei_scale"),
+            "deflection-takes-df-moment",
+            "no DF deflection and no girder layout for this member, so deflections take the "
+            "member's DF moment; AASHTO LRFD 2.5.2.6.2 loads every design lane and shares it "
+            "equally among the girders (lanes x multiple presence factor / girders): give "
+            "DF deflection",
+            "warning",
+        )
