@@ -3,6 +3,9 @@
     python scripts/benchmark.py                    # 1,000 members x 300 vehicles
     python scripts/benchmark.py --members 200 --vehicles 50   # a quick look
 
+The synthetic members are rated (:func:`batch.demo.synthetic.rated`: bridges, dead
+loads, resistances at three stations of every member, a fleet of legal loads and
+permits of every kind); ``--no-rating`` runs envelopes only.
 It writes an input workbook, runs ``spanfleet run`` on it as a user would
 (a separate process, timed from start to finish), and prints the time per
 member-vehicle pair, effects per second and the run's peak memory, then runs a
@@ -32,7 +35,7 @@ from pathlib import Path
 
 import numpy as np
 
-from batch.demo.synthetic import synthetic_case
+from batch.demo.synthetic import rated, synthetic_case
 from batch.engine.envelope import member_influence
 from batch.engine.influence import InfluenceLines, influence_lines
 from batch.engine.moving import fleet_extremes_of
@@ -109,14 +112,21 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--seed", type=int, default=2026)
     parser.add_argument("--sample", type=int, default=40, help="pairs timed for the baseline")
     parser.add_argument("--jobs", type=int, default=None, help="passed to spanfleet run")
+    parser.add_argument(
+        "--no-rating", action="store_true", help="envelopes only: no bridges, capacities"
+    )
     args = parser.parse_args(argv)
 
-    case = synthetic_case(args.members, args.vehicles, args.seed)
+    def inventory(members: int) -> Case:
+        case = synthetic_case(members, args.vehicles, args.seed)
+        return case if args.no_rating else rated(case, args.seed)
+
+    case = inventory(args.members)
     pairs = len(case.members) * len(case.vehicles)
     settings = case.settings
     elapsed, peak_mb = _end_to_end(case, args.jobs)
     # The same fleet on a quarter of the inventory: peak memory should not grow with members.
-    small = synthetic_case(max(1, args.members // 4), args.vehicles, args.seed)
+    small = inventory(max(1, args.members // 4))
     _, small_peak_mb = _end_to_end(small, args.jobs)
 
     # Kernel alone, three-span members, every vehicle (fixed and ranged), both directions,
@@ -178,6 +188,12 @@ def main(argv: list[str] | None = None) -> int:
     print(
         f"inventory            {len(case.members)} members, "
         f"{len(case.vehicles)} vehicles, {pairs} pairs"
+    )
+    print(
+        "rating               off (envelopes only)"
+        if args.no_rating
+        else f"rating               on: {len(case.capacities)} Capacities rows, "
+        f"{len(case.bridges)} bridges, legal loads and permits of every kind"
     )
     print(f"end to end           {elapsed:.1f} s  ({per_pair * 1e6:.0f} us per pair)")
     print(f"effects per second   {effects / elapsed:,.0f}  (max and min of every line)")

@@ -34,7 +34,7 @@ from batch.engine.envelope import case_effects
 from batch.engine.influence import influence_lines
 from batch.loads.cases import LoadCase
 from batch.loads.factors import MIN_CAPACITY_FACTOR
-from batch.model import AxleTrain, Capacity, Member
+from batch.model import AxleTrain, Capacity, Member, Settings, Vehicle
 from batch.rating.lrfr import (
     RATED_EFFECTS,
     RatingFactors,
@@ -48,6 +48,7 @@ from batch.rating.lrfr import (
     weight_in_tons,
 )
 from batch.rating.screening import SCREEN_EFFECTS, screen_member
+from batch.rating.traffic import vehicle_terms
 
 MBE = RatingFactors()  # the published defaults (see the module docstring)
 
@@ -118,9 +119,10 @@ def _axle(vehicle: int = 0, load: float = P) -> LoadCase:
 
 def _rate(member: Member, capacities: list[Capacity], cases: list[LoadCase], categories):
     effects = case_effects(member, cases, stations_per_span=10)
-    live = vehicle_effects(effects, cases, len(categories))
     weights = [25.0] * len(categories)  # tons; posting loads are checked in test_posting_*
-    rating = rate_member(member, effects.lines, capacities, live, categories, MBE, weights)
+    fleet = [Vehicle(id=f"KV-A{i}", axle_loads=(P,), category=c) for i, c in enumerate(categories)]
+    terms = vehicle_terms(fleet, None, Settings())  # the Settings' factors, as MBE
+    rating = rate_member(member, effects, cases, capacities, terms, categories, MBE, weights)
     return rating, effects
 
 
@@ -173,7 +175,7 @@ def test_shear_rating_by_hand_uses_the_condition_factor_alone():
         [_axle()], ["legal"],
     )  # fmt: skip
     assert rating.rf[0] == pytest.approx(88.5 / (1.45 * 37.24), rel=REL_TOL_FLOAT)
-    assert RATED_EFFECTS[rating.effect[0]][0] == "V"
+    assert RATED_EFFECTS[rating.effect[0]][0] == "V+"
     assert np.isnan(rating.rf_operating[0])  # only design loads have an operating RF
 
 
@@ -198,7 +200,7 @@ def test_governing_rating_is_the_smallest_over_stations_and_effects():
     for v, gamma, load in ((0, MBE.design, P), (1, MBE.permit, 2 * P)):
         shear = (0.95 * 70.0 - 1.25 * 36 - 1.5 * 6) / (gamma * DF_V * (1 + IM) * load)
         assert rating.rf[v] == pytest.approx(shear, rel=REL_TOL_FLOAT)
-        assert RATED_EFFECTS[rating.effect[v]][0] == "V"
+        assert RATED_EFFECTS[rating.effect[v]][0] == "V+"
         assert rating.station[v] == 0
 
 

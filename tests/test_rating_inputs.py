@@ -157,8 +157,9 @@ def test_capacity_messages_name_the_cell_and_the_fix(make_workbook, tmp_path):
         "Settings!B2: Reference vehicle: 'KV-T9' is neither a vehicle of the Vehicles sheet nor "
         "a built-in load model; give a Vehicle id or a library name such as HL-93, or leave it "
         "blank for no screening",
-        "Members!E2: Condition factor: 0.7 is below 0.85, the lowest the MBE gives (1.00 good "
-        "or satisfactory, 0.95 fair, 0.85 poor); give a value from 0.85 to 1",
+        "Members!E2: Condition factor: 0.7 is below 0.85, the lowest the MBE gives (Table "
+        "6A.4.2.3-1, from memory: 1.00 good or satisfactory, 0.95 fair, 0.85 poor); give a "
+        "value from 0.85 to 1",
         "Capacities!A2: Member 'KV-0999 G9' is not on the Members sheet; give the id of a "
         "member listed there (ids are compared ignoring case and outer spaces)",
         "Capacities!B3: Span 3: member 'KV-0215 G1' has 1 span; give span 1",

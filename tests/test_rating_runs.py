@@ -45,7 +45,7 @@ def _rated_case(reference: str = "HL-93") -> Case:
 
 def _arrays(assessment: MemberAssessment) -> list[np.ndarray]:
     out: list[np.ndarray] = []
-    for part in (assessment.rating, assessment.screening):
+    for part in (assessment.rating, assessment.screening, assessment.dead):
         out += [] if part is None else list(vars(part).values())
     return out
 
@@ -56,7 +56,7 @@ def _same_assessments(a: RunResult, b: RunResult) -> None:
         assert (x.rating is None) == (y.rating is None)
         assert (x.screening is None) == (y.screening is None)
         for u, v in zip(_arrays(x), _arrays(y), strict=True):
-            assert np.array_equal(u, v, equal_nan=True)
+            assert np.array_equal(u, v, equal_nan=u.dtype.kind == "f")
 
 
 def test_only_members_with_capacities_are_rated_and_all_are_screened() -> None:
@@ -127,4 +127,4 @@ def test_the_run_rates_by_the_general_equation() -> None:
             expected = min(candidates)
             assert assessment.rating.rf[v] == pytest.approx(expected, rel=REL_TOL_FLOAT)
             effect = RATED_EFFECTS[assessment.rating.effect[v]][0]
-            assert effect in ("M+", "M-", "V")
+            assert effect in ("M+", "M-", "V+", "V-")

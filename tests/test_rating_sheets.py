@@ -101,7 +101,7 @@ def test_a_simple_span_rated_by_hand(tmp_path: Path, make_workbook) -> None:
     # Posting: W = 40 kip = 20 tons; (20/0.7)(RF - 0.3).
     assert legal["Posting load (tons)"] == pytest.approx(20 / 0.7 * (rf - 0.3), rel=REL_TOL_FLOAT)
     assert legal["Flag"] == "RF below 1: post at the posting load"
-    assert legal["LL factor"] == 1.45
+    assert legal["gamma LL"] == 1.45
     design = ratings[ratings["Vehicle"] == "KV-A20"].iloc[0]
     # LL + IM = 239.4: inventory 425 / (1.75 x 239.4), operating 425 / (1.35 x 239.4).
     assert design["RF"] == pytest.approx(425 / (1.75 * 239.4), rel=REL_TOL_FLOAT)

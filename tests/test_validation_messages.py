@@ -25,6 +25,9 @@ Sources, by rule:
 * Analysis rows: one per member; the deflection inputs need the EI scale, and
   without DF deflection the moment DF is used, which AASHTO LRFD 2.5.2.6.2 (all
   lanes loaded, all girders deflecting equally) does not ask for: a warning;
+* Bridges and permit kinds: the workbook contract (docs/workbook.md, Bridges;
+  the MBE's permit kinds of Table 6A.4.5.4.2a-1 and its crawl-speed rule,
+  6A.4.5.5, from memory);
 * JSON: RFC 8259 (no NaN or Infinity; object names should be unique) and RFC
   6901 (JSON pointers);
 * text a cell cannot hold: W3C XML 1.0 (Fifth Edition) §2.2, production [2] Char,
@@ -55,6 +58,7 @@ V = {"Vehicle": "KV-T3", "Axle loads": "10, 30, 30", "Axle spacings": "14, 16"}
 F = {"Vehicle": "KV-FAT", "Library": "Fatigue I"}
 MF = M | {"DF moment single lane": 0.5, "DF shear single lane": 0.6}  # as fatigue needs
 E, W = "error", "warning"
+BRIDGES = [["Bridge", "ADTT"], ["KV-0101", 1200]]
 
 
 def _found(report) -> list[tuple[str, str, str, str]]:
@@ -880,6 +884,91 @@ WORKBOOK_CASES = [
         [("Vehicles", "D3", "library-caution", W)],
     ),
     ("emergency-vehicle-not-rated", {"vehicles": [V, {"Vehicle": "KV-EV3", "Library": "EV3"}]}, []),
+    # per-bridge traffic and permit kinds (MBE Tables 6A.4.4.2.3a-1 and 6A.4.5.4.2a-1 and
+    # 6A.4.5.5, from memory; the workbook contract's Bridges sheet)
+    (
+        "bridge-not-on-bridges-sheet",
+        {"members": [M | {"Bridge": "KV-0999"}], "extra": {"Bridges": BRIDGES}},
+        [("Members", "C2", "unknown-bridge", E)],
+    ),
+    (
+        "bridge-but-no-bridges-sheet",
+        {"members": [M | {"Bridge": "KV-0101"}]},
+        [("Members", "C2", "unknown-bridge", E)],
+    ),
+    (
+        "bridge-twice",
+        {"extra": {"Bridges": [*BRIDGES, ["kv-0101 ", 300]]}},
+        [("Bridges", "A3", "duplicate-id", E)],
+    ),
+    (
+        "adtt-blank-with-legal-loads",
+        {
+            "vehicles": [V | {"Category": "legal"}],
+            "extra": {"Bridges": _sheet(["Bridge", "Riding surface"], ["KV-0101", "smooth"])},
+        },
+        [("Bridges", "A2", "no-adtt", W)],
+    ),
+    (
+        "adtt-blank-design-loads-only",
+        {"extra": {"Bridges": _sheet(["Bridge", "Riding surface"], ["KV-0101", "smooth"])}},
+        [],
+    ),
+    (
+        "adtt-negative",
+        {"extra": {"Bridges": _sheet(["Bridge", "ADTT"], ["KV-0101", -5])}},
+        [("Bridges", "B2", "too-small", E)],
+    ),
+    (
+        "riding-surface-unknown",
+        {"extra": {"Bridges": _sheet(["Bridge", "Riding surface"], ["KV-0101", "bumpy"])}},
+        [("Bridges", "B2", "not-a-choice", E)],
+    ),
+    (
+        "bridge-legal-factor-unpublished",
+        {"extra": {"Bridges": _sheet(["Bridge", "ADTT", "LL factor legal"], ["KV-0101", 9, 2.2])}},
+        [("Bridges", "C2", "unpublished-factor", W)],
+    ),
+    (
+        "permit-type-on-a-legal-load",
+        {"vehicles": [V | {"Category": "legal", "Permit type": "routine"}]},
+        [("Vehicles", "E2", "permit-type-not-permit", E)],
+    ),
+    (
+        "permit-type-unknown",
+        {"vehicles": [V | {"Category": "permit", "Permit type": "annual superload"}]},
+        [("Vehicles", "E2", "not-a-choice", E)],
+    ),
+    (
+        "crawl-speed-not-escorted",
+        {
+            "vehicles": [
+                V | {"Category": "permit", "Permit type": "single-trip", "Crawl speed": "yes"}
+            ]
+        },
+        [("Vehicles", "F2", "crawl-not-escorted", E)],
+    ),
+    (
+        "special-permit-without-single-lane-df",
+        {
+            "members": [MC],
+            "vehicles": [V | {"Category": "permit", "Permit type": "single-trip escorted"}],
+            "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1, 0.5, 2000])},
+        },
+        [("Members", "A2", "no-single-lane-df", W)],
+    ),
+    (
+        "special-permit-with-single-lane-dfs",
+        {
+            "members": [MC | {"DF moment single lane": 0.5, "DF shear single lane": 0.6}],
+            "vehicles": [V | {"Category": "permit", "Permit type": "multiple-trip"}],
+            "extra": {
+                "Capacities": _sheet(CAP, ["KV-0101 G1", 1, 0.5, 2000]),
+                "Bridges": BRIDGES,
+            },
+        },
+        [],
+    ),
 ]
 
 
@@ -1037,7 +1126,7 @@ JSON_CASES = [
         json.dumps(_doc(members=[GOOD_MEMBER | {"hinge": [30]}])),
         [("/members/0/hinge", "unknown-key")],
     ),
-    ("unknown-top-key", json.dumps(_doc(bridges=[])), [("/bridges", "unknown-key")]),
+    ("unknown-top-key", json.dumps(_doc(decks=[])), [("/decks", "unknown-key")]),
     (
         "capacity-unknown-member",
         json.dumps(

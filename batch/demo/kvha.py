@@ -10,8 +10,10 @@ Two cases, both as :class:`batch.model.Case`:
   9 axles, some with ranged spacings or lane loads; factored resistances at a
   few stations of five members (Capacities), among them a deteriorated girder
   that legal loads must be posted for and a two-girder span that does not
-  carry the heaviest permit; and the KVHA design truck as the screening
-  reference.
+  carry the heaviest permit; five bridges (Bridges) with different truck
+  traffic (ADTT) and riding surfaces; permits of every kind the MBE names
+  (routine, single-trip escorted at crawl speed, single-trip, multiple-trip);
+  and the KVHA design truck as the screening reference.
 * :data:`KVHA_SI_DEMO`, SI units (kN, m): a few members and vehicles to show
   the metric path end to end, with resistances at a few stations of two members.
 
@@ -21,7 +23,17 @@ Two cases, both as :class:`batch.model.Case`:
 
 from __future__ import annotations
 
-from batch.model import Capacity, Case, Category, Member, Settings, Spacing, Vehicle
+from batch.model import (
+    Bridge,
+    Capacity,
+    Case,
+    Category,
+    Member,
+    PermitType,
+    Settings,
+    Spacing,
+    Vehicle,
+)
 
 __all__ = ["KVHA_INVENTORY", "KVHA_SI_DEMO", "SAMPLE_WORKBOOKS"]
 
@@ -38,8 +50,14 @@ def _member(
     span_ei: tuple[float, ...] = (),
     hinges: tuple[float, ...] = (),
     factors: tuple[float, float] = (1.0, 1.0),
+    bridge: str | None = None,
+    one_lane: tuple[float, float] | None = None,
 ) -> Member:
-    """A member; ``df`` is (moment, shear), ``dead`` (DC, DW), ``factors`` (condition, system)."""
+    """A member; ``df`` is (moment, shear), ``dead`` (DC, DW), ``factors`` (condition, system).
+
+    ``bridge`` names its Bridges row; ``one_lane`` its one-lane DFs (moment, shear) as
+    AASHTO LRFD gives them, 1.2 included.
+    """
     return Member(
         id=id,
         spans=spans,
@@ -52,6 +70,9 @@ def _member(
         condition_factor=factors[0],
         system_factor=factors[1],
         description=description,
+        bridge=bridge,
+        df_moment_single=None if one_lane is None else one_lane[0],
+        df_shear_single=None if one_lane is None else one_lane[1],
     )
 
 
@@ -64,8 +85,10 @@ def _vehicle(
     *,
     lane: float = 0.0,
     factor: float = 1.0,
+    permit: PermitType | None = None,
+    crawl: bool = False,
 ) -> Vehicle:
-    """A vehicle; a spacing given as (low, high) is a range."""
+    """A vehicle; a spacing given as (low, high) is a range; ``permit`` its kind of crossing."""
     gaps = tuple(
         Spacing(low=s[0], high=s[1]) if isinstance(s, tuple) else Spacing(low=s, high=s)
         for s in spacings
@@ -78,6 +101,8 @@ def _vehicle(
         factor=factor,
         category=category,
         description=description,
+        permit_type=permit,
+        crawl="yes" if crawl else "no",
     )
 
 
@@ -105,24 +130,27 @@ _US_MEMBERS = (
     _member("KV-0102 G2", (36.0,), "Mill Race bridge, girder 2",
             df=(0.58, 0.66), dead=(0.82, 0.14)),
     _member("KV-0215 G1", (48.0,), "Harlow Creek overpass, girder 1 (exterior)",
-            df=(0.71, 0.64), dead=(1.02, 0.16), factors=(0.95, 1.0)),
+            df=(0.71, 0.64), dead=(1.02, 0.16), factors=(0.95, 1.0), bridge="KV-0215",
+            one_lane=(0.62, 0.55)),
     _member("KV-0215 G2", (48.0,), "Harlow Creek overpass, girder 2",
-            df=(0.64, 0.74), dead=(0.96, 0.18)),
+            df=(0.64, 0.74), dead=(0.96, 0.18), bridge="KV-0215"),
     _member("KV-0330 G3", (65.0,), "Alder Lane underpass, girder 3",
             df=(0.61, 0.72), dead=(1.08, 0.19)),
     _member("KV-0341 G2", (82.5,), "Fenwick Road overpass, girder 2",
             df=(0.63, 0.75), dead=(1.21, 0.2)),
     _member("KV-0412 G1", (100.0,), "Osprey Flats causeway, span 4, girder 1",
-            df=(0.68, 0.62), dead=(1.3, 0.21), factors=(0.85, 1.0)),
+            df=(0.68, 0.62), dead=(1.3, 0.21), factors=(0.85, 1.0), bridge="KV-0412",
+            one_lane=(0.5, 0.6)),
     _member("KV-0418 G4", (124.0,), "Quarry Spur bridge, girder 4",
             df=(0.6, 0.7), dead=(1.42, 0.22)),
     _member("KV-0522 G2", (150.0,), "Coldwater Draw bridge, plate girder 2",
             df=(0.57, 0.69), dead=(1.55, 0.24)),
     _member("KV-0610 G1", (175.0,), "Kestrel River east approach, two-girder span, girder 1",
-            df=(0.79, 0.8), dead=(1.86, 0.26), factors=(1.0, 0.85)),
+            df=(0.79, 0.8), dead=(1.86, 0.26), factors=(1.0, 0.85), bridge="KV-0610",
+            one_lane=(0.72, 0.74)),
     # Two-span continuous.
     _member("KV-0705 G2", (70.0, 70.0), "Lark Hill ramp B, girder 2 (equal spans)",
-            df=(0.62, 0.7), dead=(1.12, 0.18)),
+            df=(0.62, 0.7), dead=(1.12, 0.18), bridge="KV-0705", one_lane=(0.46, 0.62)),
     _member("KV-0706 G3", (55.0, 72.0), "Pike Hollow bridge, girder 3",
             df=(0.6, 0.71), dead=(1.05, 0.17)),
     _member("KV-0711 G1", (90.0, 110.0), "Sedge Marsh bridge, girder 1, deeper over the pier",
@@ -144,7 +172,8 @@ _US_MEMBERS = (
     # Hinged layouts: cantilever arms carrying suspended pieces.
     _member("KV-1001 G2", (50.0, 120.0, 50.0),
             "Wren Ferry bridge, girder 2: 60 ft suspended span on 30 ft cantilever arms",
-            df=(0.63, 0.72), dead=(1.25, 0.2), span_ei=(1.0, 1.3, 1.0), hinges=(80.0, 140.0)),
+            df=(0.63, 0.72), dead=(1.25, 0.2), span_ei=(1.0, 1.3, 1.0), hinges=(80.0, 140.0),
+            bridge="KV-1001", one_lane=(0.49, 0.63)),
     _member("KV-1002 G1", (60.0, 150.0, 60.0),
             "Stonechat Gorge bridge, girder 1: 70 ft suspended span",
             df=(0.7, 0.65), dead=(1.45, 0.22), hinges=(100.0, 170.0)),
@@ -172,15 +201,19 @@ _US_VEHICLES = (
     _vehicle("KV-L5T", (10.0, 12.0, 12.0, 12.0, 12.0), (12.0, 4.0, 20.0, 4.0), "legal",
              "KVHA legal twin-trailer train with a 0.2 kip/ft lane", lane=0.2),
     _vehicle("KV-P4", (14.0, 22.0, 22.0, 22.0), (13.0, (4.0, 6.0), 4.0), "permit",
-             "KVHA permit 4-axle crane carrier, 10 % overload allowance", factor=1.1),
+             "KVHA annual permit 4-axle crane carrier, 10 % overload allowance", factor=1.1,
+             permit="routine"),
     _vehicle("KV-P7", (20.0, 20.0, 24.0, 24.0, 24.0, 24.0, 24.0), (5.0, 13.0, 5.0, 5.0, 5.0, 5.0),
-             "permit", "KVHA permit 7-axle mobile crane"),
+             "permit", "KVHA permit 7-axle mobile crane, a few trips a season",
+             permit="multiple-trip"),
     _vehicle("KV-P8", (12.0, 18.0, 18.0, 20.0, 20.0, 20.0, 20.0, 20.0),
              (14.0, 4.5, (12.0, 30.0), 4.5, 4.5, 4.5, 4.5), "permit",
-             "KVHA permit 8-axle lowboy, booster spacing varies"),
+             "KVHA single-trip permit 8-axle lowboy in traffic, booster spacing varies",
+             permit="single-trip"),
     _vehicle("KV-P9", (14.0, 24.0, 24.0, 27.0, 27.0, 27.0, 27.0, 24.0, 24.0),
              (12.0, 4.5, (18.0, 28.0), 5.0, 5.0, 5.0, 16.0, 4.5), "permit",
-             "KVHA permit 9-axle transformer haul"),
+             "KVHA single-trip permit 9-axle transformer haul, escorted at crawl speed",
+             permit="single-trip escorted", crawl=True),
     # Standard load models by name (the Library column): the axle columns stay empty.
     Vehicle(id="HL-93", library="HL-93", category="design",
             description="AASHTO LRFD design live load, for comparison with KVHA-D1"),
@@ -208,6 +241,22 @@ _US_CAPACITIES = (
     *_capacities("KV-1001 G2", (1, 1.0, None, 7000.0, 300.0), (2, 0.5, 2700.0, None, 150.0)),
 )  # fmt: skip
 
+# Invented traffic: each rated bridge has its own ADTT (one direction) and riding surface,
+# so that the legal and permit live-load factors and the legal loads' dynamic allowance
+# differ bridge by bridge; Wren Ferry's overlay thickness was measured (DW factor 1.25).
+_US_BRIDGES = (
+    Bridge(id="KV-0215", adtt=6200.0, riding_surface="smooth",
+           description="Harlow Creek overpass: arterial, heavy truck traffic, new joints"),
+    Bridge(id="KV-0412", adtt=850.0, riding_surface="major deviations",
+           description="Osprey Flats causeway: rural route, spalled deck and worn joints"),
+    Bridge(id="KV-0610", adtt=2400.0, riding_surface="minor deviations",
+           description="Kestrel River east approach"),
+    Bridge(id="KV-0705", adtt=3100.0,
+           description="Lark Hill ramp B: riding surface not surveyed (Settings' allowance)"),
+    Bridge(id="KV-1001", adtt=150.0, riding_surface="smooth", dw_factor=1.25,
+           description="Wren Ferry bridge: overlay thickness measured in the field"),
+)  # fmt: skip
+
 #: The main demo inventory, US units; KVHA-D1 (design truck and lane) is the screening
 #: reference.
 KVHA_INVENTORY = Case(
@@ -221,6 +270,7 @@ KVHA_INVENTORY = Case(
     members=_US_MEMBERS,
     vehicles=_US_VEHICLES,
     capacities=_US_CAPACITIES,
+    bridges=_US_BRIDGES,
 )
 
 #: A small metric demo, SI units (kN, m, kN/m).
@@ -228,9 +278,9 @@ KVHA_SI_DEMO = Case(
     settings=Settings(units="SI", directions="both", stations_per_span=10, impact=0.33),
     members=(
         _member("KV-M01 G1", (18.0,), "Larchmere Lane bridge, girder 1",
-                df=(0.6, 0.68), dead=(14.5, 2.4)),
+                df=(0.6, 0.68), dead=(14.5, 2.4), bridge="KV-M01"),
         _member("KV-M02 G2", (24.0, 30.0), "Redshank Lane bridge, girder 2",
-                df=(0.62, 0.7), dead=(17.0, 2.8)),
+                df=(0.62, 0.7), dead=(17.0, 2.8), bridge="KV-M02"),
         _member("KV-M03 G1", (20.0, 28.0, 20.0), "Kestrel River south approach, girder 1",
                 df=(0.66, 0.63), dead=(16.2, 2.6), span_ei=(1.0, 1.4, 1.0)),
         _member("KV-M04 G3", (15.0, 36.0, 15.0),
@@ -243,7 +293,7 @@ KVHA_SI_DEMO = Case(
         _vehicle("KV-SI-L3", (70.0, 75.0, 75.0), (4.5, 1.3), "legal",
                  "KVHA metric legal 3-axle truck"),
         _vehicle("KV-SI-P5", (50.0, 120.0, 120.0, 110.0, 110.0), (3.6, 1.3, (6.0, 9.0), 1.3),
-                 "permit", "KVHA metric permit 5-axle low loader"),
+                 "permit", "KVHA metric annual permit 5-axle low loader", permit="routine"),
         Vehicle(id="CL-625", library="CL-625", category="design",
                 description="CSA S6 truck and lane load, by name"),
     ),
@@ -257,6 +307,12 @@ KVHA_SI_DEMO = Case(
             (1, 1.0, None, 4600.0, 1100.0),
             (2, 0.5, 5200.0, None, 600.0),
         ),
+    ),
+    bridges=(
+        Bridge(id="KV-M01", adtt=400.0, riding_surface="minor deviations",
+               description="Larchmere Lane bridge: a quiet lane"),
+        Bridge(id="KV-M02", adtt=5200.0, riding_surface="smooth",
+               description="Redshank Lane bridge: a haul route"),
     ),
 )  # fmt: skip
 

@@ -122,6 +122,13 @@ class CaseEffects(FleetExtremes):
     ``min_loaded_length`` (n_effects,) are the loaded lengths of the Standard
     Specifications for every effect (:func:`batch.engine.impact.loaded_lengths`),
     member length unit, whether or not a case uses them.
+
+    ``*_axle`` and ``*_lane`` are the two static parts of each value, before the
+    distribution factor and any allowance, the case's factor included:
+    ``value = DF * ((1 + impact) * axle + (1 + lane impact) * lane)``, the lane's
+    impact being the formula's for a case with an impact formula and 0 otherwise
+    (all 0 where the value is 0). Rating recomputes a vehicle's effect from them
+    with its own dynamic allowance and distribution factor (:mod:`batch.rating.lrfr`).
     """
 
     lines: InfluenceLines
@@ -129,6 +136,10 @@ class CaseEffects(FleetExtremes):
     min_impact: NDArray[np.float64]
     max_loaded_length: NDArray[np.float64]
     min_loaded_length: NDArray[np.float64]
+    max_axle: NDArray[np.float64]
+    max_lane: NDArray[np.float64]
+    min_axle: NDArray[np.float64]
+    min_lane: NDArray[np.float64]
 
 
 def case_effects(
@@ -171,7 +182,8 @@ def case_effects(
     lengths = loaded_lengths(il)
     allowances = _allowances(cases, lengths)
     lane = np.array([c.lane_load for c in cases])[:, None]
-    scale = np.array([c.factor for c in cases])[:, None] * df
+    factor = np.array([c.factor for c in cases])[:, None]
+    scale = factor * df
     total = np.array([c.train.weight for c in cases])[:, None]
     # The largest allowance a case can take, for the size below which an effect is round-off.
     axle_top = np.array([c.impact_formula.cap if c.impact_formula else c.impact for c in cases])
@@ -196,10 +208,13 @@ def case_effects(
         value = np.where(np.abs(value) > ZERO_TOL * size * scale, value, 0.0)
         value = np.where(applies[:, :, col], value, 0.0)
         moving = (axle_part != 0.0) & (value != 0.0)
+        acting = value != 0.0
         out[sense] = (
             value,
             np.where(moving, axle_p, np.nan),
             np.where(moving, axle_d, 0).astype(np.int8),
+            np.where(acting, factor * axle_part, 0.0),
+            np.where(acting, factor * lane * area[None, :], 0.0),
         )
     return CaseEffects(
         lines=il,
@@ -213,6 +228,10 @@ def case_effects(
         min_impact=np.broadcast_to(allowances[1][0], (len(cases), n_eff)),
         max_loaded_length=lengths[0],
         min_loaded_length=lengths[1],
+        max_axle=out["max"][3],
+        max_lane=out["max"][4],
+        min_axle=out["min"][3],
+        min_lane=out["min"][4],
     )
 
 

@@ -1,36 +1,61 @@
 """Published factors of the rating codes, as data, in one place.
 
-The rating stage (:mod:`batch.rating.lrfr`) computes with these values and validation
+The rating stage (:mod:`batch.rating`) computes with these values and validation
 (:mod:`batch.validating`) words its messages and warnings with them, so each
-value is written once, beside its source.
+value is written once, beside its source and its status (:class:`Sourced`:
+verified, secondary with where it was seen, or from memory). The Run Log lists
+every rating table value a run may use with its source and status
+(:data:`PUBLISHED_TABLES`).
 """
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 from batch.loads.cases import ImpactFormula
-from batch.loads.sourced import Sourced
+from batch.loads.sourced import Sourced, Status
+from batch.model.case import PermitType, RidingSurface
 
 __all__ = [
+    "CAPACITY_FACTOR_VALUES",
+    "CONDITION_FACTORS",
+    "CRAWL_IMPACT",
+    "EV_SCREEN",
     "FATIGUE_I",
     "FATIGUE_II",
     "FATIGUE_NO_MULTIPLE_PRESENCE",
     "KIP_PER_TON",
     "KN_PER_TONNE",
+    "LEGAL_IMPACT",
+    "LEGAL_LIVE_LOAD",
     "MIN_CAPACITY_FACTOR",
+    "PERMIT_LIVE_LOAD",
     "POSTING_DIVISOR",
     "POSTING_FLOOR",
     "PUBLISHED_FACTORS",
+    "PUBLISHED_TABLES",
+    "SHV_SCREEN",
     "SINGLE_LANE_PRESENCE",
     "STANDARD_IMPACT_RULES",
     "STANDARD_SPECIFICATIONS_IMPACT",
+    "STRENGTH_LIMIT_STATE",
+    "SYSTEM_FACTORS",
+    "AdttTable",
+    "PermitRow",
+    "cited",
 ]
 
 _LRFD = "AASHTO LRFD Bridge Design Specifications"
 
-#: MBE Eq. 6A.4.2.1-3 (from memory): phi_c * phi_s is not taken below 0.85.
+#: MBE 1st to 3rd editions as this module cites them.
+MBE = "AASHTO Manual for Bridge Evaluation (MBE), 2nd ed. 2011 and 3rd ed. 2018"
+
+#: MBE Eq. 6A.4.2.1-3: phi_c * phi_s is not taken below 0.85 (seen in M. A. Khan, Bridge and
+#: Highway Structure Rehabilitation and Repair, McGraw-Hill 2010, p. 187, quoting the MBE).
 MIN_CAPACITY_FACTOR = 0.85
 
-#: MBE 6A.8.3 (from memory): posting load (W/0.7)(RF - 0.3); below RF 0.3 consider closing.
+#: MBE 6A.8.3, Eq. 6A.8.3-1: posting load (W/0.7)(RF - 0.3) for 0.3 <= RF < 1 (seen in Khan
+#: 2010, p. 187); below RF 0.3 the MBE recommends considering closing the bridge (from memory).
 POSTING_DIVISOR = 0.7
 POSTING_FLOOR = 0.3
 
@@ -138,4 +163,252 @@ FATIGUE_II = Sourced(
     value=(0.80,),
     source=f"{_LRFD}, 8th ed. (2017) and later, Table 3.4.1-1",
     status="from memory",
+)
+
+
+def cited(value: Sourced) -> str:
+    """``"0.9 (source; secondary: where seen)"``, for messages and the Run Log."""
+    where = f"{value.status}: {value.seen}" if value.seen else value.status
+    return f"{value.shown} ({value.source}; {where})"
+
+
+@dataclass(frozen=True, kw_only=True)
+class AdttTable:
+    """A live-load factor that depends on the ADTT (trucks a day, one direction).
+
+    ``points`` are (ADTT, factor) in increasing ADTT; between two points the
+    factor is interpolated linearly, below the first and above the last it is the
+    end value. ``unknown`` is the value the table gives where the ADTT is not
+    known (the conservative end).
+    """
+
+    points: tuple[tuple[float, float], ...]
+    unknown: float
+    source: str
+    status: Status
+
+    def words(self, adtt: float) -> str:
+        """``"ADTT 2500, interpolated"`` between the table's points, else ``"ADTT 6200"``."""
+        inside = self.points[0][0] < adtt < self.points[-1][0]
+        return f"ADTT {adtt:g}" + (", interpolated" if inside else "")
+
+    def at(self, adtt: float) -> float:
+        """The factor at ``adtt``, interpolated linearly between the table's points."""
+        adtts = [a for a, _ in self.points]
+        factors = [f for _, f in self.points]
+        if adtt <= adtts[0]:
+            return factors[0]
+        for (a0, f0), (a1, f1) in zip(self.points, self.points[1:], strict=False):
+            if adtt <= a1:
+                return f0 + (f1 - f0) * (adtt - a0) / (a1 - a0)
+        return factors[-1]
+
+
+@dataclass(frozen=True, kw_only=True)
+class PermitRow:
+    """One row of the MBE permit live-load factor table, in the manual's words.
+
+    ``frequency`` and ``loading`` are the table's words; ``one_lane`` says
+    whether the row is rated with the one-lane distribution factor (with the
+    multiple presence factor divided out) instead of the multi-lane one;
+    ``factors`` gives the factor by ADTT.
+    """
+
+    frequency: str
+    loading: str
+    one_lane: bool
+    factors: AdttTable
+
+
+#: MBE Table 6A.4.2.3-1, condition factor phi_c by the member's structural condition; from
+#: memory.
+CONDITION_FACTORS: tuple[tuple[str, float], ...] = (
+    ("good or satisfactory", 1.00),
+    ("fair", 0.95),
+    ("poor", 0.85),
+)
+#: MBE Table 6A.4.2.4-1, system factor phi_s for flexural and axial effects by the kind of
+#: superstructure; from memory.
+SYSTEM_FACTORS: tuple[tuple[str, float], ...] = (
+    ("welded members in two-girder, truss or arch bridges", 0.85),
+    ("riveted members in two-girder, truss or arch bridges", 0.90),
+    ("multiple eyebar members in truss bridges", 0.90),
+    ("three-girder bridges, girder spacing 6 ft or less", 0.85),
+    ("four-girder bridges, girder spacing 4 ft or less", 0.95),
+    ("all other girder and slab bridges", 1.00),
+    ("floorbeams spaced more than 12 ft, non-continuous stringers", 0.85),
+    ("redundant stringer subsystems between floorbeams", 1.00),
+)
+#: The manual's values of each capacity factor, as validation messages quote them.
+CAPACITY_FACTOR_VALUES: dict[str, str] = {
+    "condition_factor": "Table 6A.4.2.3-1, from memory: "
+    + ", ".join(f"{v:.2f} {what}" for what, v in CONDITION_FACTORS),
+    "system_factor": "Table 6A.4.2.4-1, from memory: from "
+    + f"{min(v for _, v in SYSTEM_FACTORS):.2f} ({SYSTEM_FACTORS[0][0]}) to "
+    + f"{max(v for _, v in SYSTEM_FACTORS):.2f} ({SYSTEM_FACTORS[5][0]})",
+}
+
+# ---------------------------------------------------------------- live-load factors by traffic
+
+#: Legal loads (routine commercial traffic), LRFR Strength I: gamma_L by the ADTT in one
+#: direction, 1.30 at ADTT <= 1000 and 1.45 at ADTT >= 5000, linear between; 1.45 where the
+#: ADTT is unknown. From memory (the 1st edition's table, 2008, was higher: 1.40 to 1.80).
+LEGAL_LIVE_LOAD = AdttTable(
+    points=((1000.0, 1.30), (5000.0, 1.45)),
+    unknown=1.45,
+    source=f"{MBE}, Table 6A.4.4.2.3a-1 (live load factors for legal loads)",
+    status="from memory",
+)
+
+_PERMIT_TABLE = f"{MBE}, Table 6A.4.5.4.2a-1 (permit load factors)"
+
+
+def _permit(points: tuple[tuple[float, float], ...]) -> AdttTable:
+    return AdttTable(
+        points=points, unknown=points[-1][1], source=_PERMIT_TABLE, status="from memory"
+    )
+
+
+#: Permits, LRFR Strength II: gamma_L by permit type and ADTT (one direction), the rows of
+#: the table as recalibrated for the 2nd edition (NCHRP 20-07/Task 285, whose summary states
+#: the 1.10 floor kept for every permit: verified in the TRB project record). The factors
+#: themselves are from memory; between the ADTT entries (< 100, 1000, > 5000) they are
+#: interpolated linearly, and an unknown ADTT takes the > 5000 value. The single-trip and
+#: multiple-trip rows use the one-lane distribution factor with the multiple presence
+#: factor divided out (MBE 6A.4.5.4.2; verified in the TRB record of NCHRP 20-07/285).
+PERMIT_LIVE_LOAD: dict[PermitType, PermitRow] = {
+    "routine": PermitRow(
+        frequency="routine or annual: unlimited crossings",
+        loading="mixed with traffic (other vehicles may be on the bridge)",
+        one_lane=False,
+        factors=_permit(((100.0, 1.10), (1000.0, 1.20), (5000.0, 1.30))),
+    ),
+    "single-trip escorted": PermitRow(
+        frequency="special or limited crossing: single trip",
+        loading="escorted, with no other vehicles on the bridge",
+        one_lane=True,
+        factors=_permit(((0.0, 1.10),)),
+    ),
+    "single-trip": PermitRow(
+        frequency="special or limited crossing: single trip",
+        loading="mixed with traffic (other vehicles may be on the bridge)",
+        one_lane=True,
+        factors=_permit(((100.0, 1.10), (1000.0, 1.15), (5000.0, 1.20))),
+    ),
+    "multiple-trip": PermitRow(
+        frequency="special or limited crossing: multiple trips (fewer than 100 crossings)",
+        loading="mixed with traffic (other vehicles may be on the bridge)",
+        one_lane=True,
+        factors=_permit(((100.0, 1.30), (1000.0, 1.35), (5000.0, 1.40))),
+    ),
+}
+
+
+# ---------------------------------------------------------------- dynamic load allowance
+
+#: Legal loads: the dynamic load allowance by the riding surface (MBE C6A.4.4.3, Table
+#: C6A.4.4.3-1): smooth approaches, deck and joints 10 %; minor surface deviations or
+#: depressions 20 %; major deviations take the LRFD value, 33 % (LRFD Table 3.6.2.1-1). The
+#: categories and the 10 % and 20 % are from memory; the 33 % of LRFD Table 3.6.2.1-1 was
+#: verified (ASPIRE, Fall 2010, D. Mertz; a forum answer quoting the table), its use here for
+#: major deviations is from memory.
+LEGAL_IMPACT: dict[RidingSurface, Sourced] = {
+    "smooth": Sourced(
+        what="dynamic load allowance of legal loads, smooth riding surface",
+        value=(0.10,),
+        source=f"{MBE}, C6A.4.4.3, Table C6A.4.4.3-1",
+        status="from memory",
+    ),
+    "minor deviations": Sourced(
+        what="dynamic load allowance of legal loads, minor surface deviations or depressions",
+        value=(0.20,),
+        source=f"{MBE}, C6A.4.4.3, Table C6A.4.4.3-1",
+        status="from memory",
+    ),
+    "major deviations": Sourced(
+        what="dynamic load allowance of legal loads, major surface deviations",
+        value=(0.33,),
+        source=f"{MBE}, C6A.4.4.3: the LRFD value, AASHTO LRFD Table 3.6.2.1-1",
+        status="from memory",
+    ),
+}
+
+#: A permit escorted at crawl speed (10 mph or less) may be rated with no dynamic load
+#: allowance (MBE 6A.4.5.5); from memory.
+CRAWL_IMPACT = Sourced(
+    what="dynamic load allowance of a permit escorted at crawl speed",
+    value=(0.0,),
+    source=f"{MBE}, 6A.4.5.5",
+    status="from memory",
+)
+
+# ---------------------------------------------------------------- limit states
+
+#: The LRFR strength limit state of each vehicle category (MBE Table 6A.4.2.2-1, from
+#: memory): Strength I for design and legal loads, Strength II for permits.
+STRENGTH_LIMIT_STATE: dict[str, str] = {
+    "design": "Strength I",
+    "legal": "Strength I",
+    "permit": "Strength II",
+}
+
+# ---------------------------------------------------------------- posting exemptions
+
+#: FHWA memorandum "Load Rating of Specialized Hauling Vehicles" (15 Nov 2013) and its
+#: Questions and Answers (March 2014, Q13): where the notional rating load (NRL) rates at 1 or
+#: more, the single-unit SHVs SU4 to SU7 need not be rated or posted for. The memo is
+#: verified (fhwa.dot.gov/bridge/loadrating/131115.cfm); the answer to Q13 is from memory.
+SHV_SCREEN = Sourced(
+    what="NRL rating factor above which SU4 to SU7 need not be rated or posted",
+    value=(1.0,),
+    source="FHWA memorandum, Load Rating of Specialized Hauling Vehicles, 15 Nov 2013; "
+    "FHWA Questions and Answers, March 2014, Q13",
+    status="from memory",
+)
+
+#: FHWA memorandum on the FAST Act's emergency vehicles (3 Nov 2016): a bridge whose HL-93
+#: inventory rating factor (LRFR) is 0.9 or more needs no immediate rating for EV2 and EV3
+#: (HS20 inventory 1.0 or more by LFR or ASR). Verified as quoted in the TxDOT guide.
+EV_SCREEN = Sourced(
+    what="HL-93 inventory rating factor above which EV2 and EV3 need no immediate rating",
+    value=(0.9,),
+    source="FHWA memorandum, Load Rating for the FAST Act's Emergency Vehicles, 3 Nov 2016",
+    status="secondary",
+    seen="TxDOT FAST Act's Emergency Vehicles Load Rating Guide, rev. 1.0, April 2020",
+)
+
+#: Every table value a run may use, for the Run Log: (what, value and source).
+PUBLISHED_TABLES: tuple[tuple[str, str], ...] = (
+    (
+        "Legal loads, LL factor by ADTT",
+        ", ".join(f"ADTT {a:g}: {f:.2f}" for a, f in LEGAL_LIVE_LOAD.points)
+        + f", linear between; unknown ADTT {LEGAL_LIVE_LOAD.unknown:.2f} "
+        f"({LEGAL_LIVE_LOAD.source}; {LEGAL_LIVE_LOAD.status})",
+    ),
+    *(
+        (
+            f"Permits, {kind}, LL factor by ADTT",
+            ", ".join(f"ADTT {a:g}: {f:.2f}" for a, f in row.factors.points)
+            + f"; {'one lane, 1.2 divided out' if row.one_lane else 'two or more lanes'} "
+            f"({row.factors.source}; {row.factors.status})",
+        )
+        for kind, row in PERMIT_LIVE_LOAD.items()
+    ),
+    *(
+        (f"Legal loads, dynamic allowance, {surface}", cited(value))
+        for surface, value in LEGAL_IMPACT.items()
+    ),
+    ("Permits escorted at crawl speed, dynamic allowance", cited(CRAWL_IMPACT)),
+    ("One-lane multiple presence factor divided out", cited(SINGLE_LANE_PRESENCE)),
+    ("SHV exemption: NRL rating factor at least", cited(SHV_SCREEN)),
+    ("EV exemption: HL-93 inventory rating factor at least", cited(EV_SCREEN)),
+    (
+        "Capacity factor floor phi_c phi_s",
+        f"{MIN_CAPACITY_FACTOR:g} (MBE Eq. 6A.4.2.1-3; secondary: M. A. Khan 2010, p. 187)",
+    ),
+    (
+        "Posting load",
+        f"(W/{POSTING_DIVISOR:g})(RF - {POSTING_FLOOR:g}) for {POSTING_FLOOR:g} <= RF < 1 "
+        "(MBE 6A.8.3; secondary: M. A. Khan 2010, p. 187)",
+    ),
 )

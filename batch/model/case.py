@@ -37,12 +37,24 @@ DIRECTIONS: tuple[str, ...] = get_args(Directions)
 CATEGORIES: tuple[str, ...] = get_args(Category)
 HAUNCHES: tuple[str, ...] = get_args(Haunch)
 
+# Per-bridge traffic and per-vehicle crossings (rating): the MBE's categories, in its words.
+#: Riding surface of a bridge, for the dynamic load allowance of legal loads (MBE C6A.4.4.3).
+RidingSurface = Literal["smooth", "minor deviations", "major deviations"]
+#: Kind of permit crossing (MBE Table 6A.4.5.4.2a-1): routine (annual), or a special permit:
+#: single trip escorted with no other vehicle on the bridge, single trip mixed with traffic,
+#: multiple trips (fewer than 100 crossings) mixed with traffic.
+PermitType = Literal["routine", "single-trip escorted", "single-trip", "multiple-trip"]
+RIDING_SURFACES: tuple[RidingSurface, ...] = get_args(RidingSurface)
+PERMIT_TYPES: tuple[PermitType, ...] = get_args(PermitType)
+
 #: Most spacing ranges in one vehicle (the engine sweeps 3**n combinations).
 MAX_RANGES = 4
 
 
 #: Member id used by the example rows of Members and Capacities (they must agree).
 _EXAMPLE_MEMBER = "KV-0412 G1"
+#: Bridge id used by the example rows of Bridges and Members (they must agree).
+_EXAMPLE_BRIDGE = "KV-0412"
 
 # Rating settings: the published values quoted in their meanings are those of the MBE
 # (AASHTO Manual for Bridge Evaluation, 2nd ed. 2011 onward) and of AASHTO LRFD Table
@@ -191,6 +203,17 @@ class Settings:
         "fraction of its largest effect of the same kind on the member (0.1 = 10 %), so that "
         "near-zero effects do not give meaningless ratios. spanfleet's choice, not a published "
         "value; 0 compares wherever the reference gives any effect.",
+    )
+
+    posting_step: float = column(
+        "Posting rounded down to",
+        "number",
+        default=1.0,
+        minimum=0.0,
+        maximum=10.0,
+        meaning="Postings sheet: each bridge's posting load is rounded down to a multiple of "
+        "this weight (US tons or tonnes; 1 = whole tons), the owner's rounding rule; 0 leaves it "
+        "unrounded. Rounding down keeps the posted value on the safe side.",
     )
 
     @property
@@ -392,6 +415,74 @@ class Analysis:
     )
 
 
+def _override(header: str, meaning: str) -> float | None:
+    """A bridge's own value of a rating load factor (blank: the table's or the Settings')."""
+    return column(  # type: ignore[no-any-return]
+        header, "number", default=None, minimum=1.0, maximum=2.5, meaning=meaning
+    )
+
+
+@dataclass(frozen=True, kw_only=True)
+class Bridge:
+    """One row of the Bridges sheet: a bridge's traffic and riding surface, for rating.
+
+    ``adtt`` is the average daily truck traffic in one direction (None: not
+    known); ``riding_surface`` sets the dynamic load allowance of legal loads
+    (None: the run's). The ``*_factor*`` fields are the bridge's own load
+    factors, which prevail over the MBE tables and the Settings (None: not
+    overridden).
+    """
+
+    id: str = column(
+        "Bridge",
+        "id",
+        required=True,
+        meaning="Unique id of the bridge; members name it in their Bridge column.",
+        example=_EXAMPLE_BRIDGE,
+    )
+    adtt: float | None = column(
+        "ADTT",
+        "number",
+        default=None,
+        minimum=0.0,
+        meaning="Average daily truck traffic, one direction. Sets the legal and permit live-load "
+        "factors (MBE Tables 6A.4.4.2.3a-1 and 6A.4.5.4.2a-1, interpolated). Blank: not known; "
+        "the tables' conservative values are used, with a warning.",
+        example=2500,
+    )
+    riding_surface: RidingSurface | None = column(
+        "Riding surface",
+        "choice",
+        default=None,
+        choices=RIDING_SURFACES,
+        meaning="Condition of approaches, deck and joints, for the dynamic load allowance of "
+        "legal loads (MBE C6A.4.4.3): smooth 10 %, minor deviations 20 %, major deviations "
+        "33 %. Blank: the Settings' Dynamic load allowance.",
+        example="minor deviations",
+    )
+    dc_factor: float | None = _override("DC factor", "The bridge's own DC factor; blank: Settings.")
+    dw_factor: float | None = _override("DW factor", "The bridge's own DW factor; blank: Settings.")
+    ll_factor_design: float | None = _override(
+        "LL factor design", "The bridge's own inventory LL factor for design loads."
+    )
+    ll_factor_operating: float | None = _override(
+        "LL factor design operating", "The bridge's own operating LL factor for design loads."
+    )
+    ll_factor_legal: float | None = _override(
+        "LL factor legal", "The bridge's own LL factor for legal loads, instead of the MBE table."
+    )
+    ll_factor_permit: float | None = _override(
+        "LL factor permit", "The bridge's own LL factor for permits, instead of the MBE table."
+    )
+    description: str = column(
+        "Description",
+        "text",
+        default="",
+        meaning="Free text.",
+        example="EXAMPLE, replace or delete: Osprey Flats causeway (KVHA)",
+    )
+
+
 @dataclass(frozen=True, kw_only=True)
 class Member:
     """One girder line: consecutive spans supported at both ends of every span.
@@ -402,8 +493,9 @@ class Member:
     live-load effects (``df_moment`` moments; ``df_shear`` shears and reactions);
     ``df_moment_single`` and ``df_shear_single`` are the single-lane factors as
     tabulated (with the one-lane multiple presence factor), used by fatigue loads
-    (None: not given).
-    ``dc_load`` and ``dw_load`` are uniform dead loads per unit length.
+    and special permits (None: not given).
+    ``dc_load`` and ``dw_load`` are uniform dead loads per unit length. ``bridge``
+    names the member's row of the Bridges sheet (None: none).
 
     As built (filled in from the other input sheets, not Members columns):
     ``segments`` are the member's rows of the Segments sheet, stretches whose
@@ -501,7 +593,7 @@ class Member:
         "text",
         default="",
         meaning="Free text.",
-        example="EXAMPLE: KVHA girder",  # short: Members prints to one page width
+        example="EXAMPLE",  # short: Members (with Bridge) prints to one page width
     )
     df_moment_single: float | None = column(
         "DF moment single lane",
@@ -510,8 +602,9 @@ class Member:
         above=0.0,
         meaning="Single-lane live-load distribution factor on moments, as tabulated (AASHTO "
         "LRFD 4.6.2.2), that is WITH the one-lane multiple presence factor 1.2 in it; "
-        "spanfleet divides it by 1.2 where a load asks for it without (fatigue loads). "
-        "Needed when the fleet has a fatigue load.",
+        "spanfleet divides it by 1.2 where a load asks for it without (fatigue loads; "
+        "special permits, MBE 6A.4.5.4.2). Needed when the fleet has a fatigue load or a "
+        "special permit.",
     )
     df_shear_single: float | None = column(
         "DF shear single lane",
@@ -520,7 +613,15 @@ class Member:
         above=0.0,
         meaning="Single-lane live-load distribution factor on shears and reactions, as "
         "tabulated, WITH the one-lane multiple presence factor 1.2 in it (divided out as for "
-        "DF moment single lane). Needed when the fleet has a fatigue load.",
+        "DF moment single lane). Needed when the fleet has a fatigue load or a special permit.",
+    )
+    bridge: str | None = column(
+        "Bridge",
+        "id",
+        default=None,
+        meaning="Id of the member's bridge on the Bridges sheet, whose traffic and riding "
+        "surface set the rating factors; blank: the Settings' factors.",
+        example=_EXAMPLE_BRIDGE,
     )
     # As built: filled in from the Segments and Analysis sheets (not columns of Members).
     segments: tuple[Segment, ...] = ()
@@ -697,6 +798,27 @@ class Vehicle:
         example="EXAMPLE, replace or delete: KVHA 3-axle permit truck",
     )
 
+    permit_type: PermitType | None = column(
+        "Permit type",
+        "choice",
+        default=None,
+        choices=PERMIT_TYPES,
+        meaning="Permits only, the kind of crossing (MBE Table 6A.4.5.4.2a-1): routine (annual "
+        "permit, unlimited crossings, mixed with traffic); single-trip escorted (no other "
+        "vehicle on the bridge); single-trip (mixed with traffic); multiple-trip (fewer than 100 "
+        "crossings, mixed with traffic). Sets the live-load factor by the bridge's ADTT and, "
+        "for the three special kinds, the one-lane DF. Blank: LL factor permit of Settings.",
+        example="routine",
+    )
+    crawl: Literal["yes", "no"] = column(
+        "Crawl speed",
+        "choice",
+        default="no",
+        choices=("yes", "no"),
+        meaning="Single-trip escorted permits: yes where the crossing is escorted at crawl speed "
+        "(10 mph or less), rated with no dynamic load allowance (MBE 6A.4.5.5). Default no.",
+    )
+
     @property
     def train(self) -> AxleTrain:
         """The row's axles as a train (empty for a row that names a library model)."""
@@ -820,9 +942,10 @@ class Capacity:
 
 @dataclass(frozen=True, kw_only=True)
 class Case:
-    """A whole validated input: settings, the inventory, the fleet and any capacities."""
+    """A whole validated input: settings, the inventory, the fleet, capacities and bridges."""
 
     settings: Settings = field(default_factory=Settings)
     members: tuple[Member, ...] = ()
     vehicles: tuple[Vehicle, ...] = ()
     capacities: tuple[Capacity, ...] = ()
+    bridges: tuple[Bridge, ...] = ()

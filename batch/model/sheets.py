@@ -8,11 +8,12 @@ the JSON Schema and the docs read these, so nothing here is declared twice.
 
 from __future__ import annotations
 
-from batch.model.case import Analysis, Capacity, Member, Segment, Settings, Vehicle
+from batch.model.case import Analysis, Bridge, Capacity, Member, Segment, Settings, Vehicle
 from batch.model.declare import InputColumn, InputSheet, columns_of
 
 __all__ = [
     "ANALYSIS",
+    "BRIDGES",
     "CAPACITIES",
     "INPUT_SHEETS",
     "MEMBERS",
@@ -84,8 +85,24 @@ CAPACITIES = InputSheet(
     columns=columns_of(Capacity),
 )
 
-#: The sheets of one row per item (all but Settings), in workbook order.
-TABLE_SHEETS: tuple[InputSheet, ...] = (MEMBERS, SEGMENTS, ANALYSIS, VEHICLES, CAPACITIES)
+BRIDGES = InputSheet(
+    name="Bridges",
+    key="bridges",
+    purpose="Optional: one row per bridge, its traffic (ADTT) and riding surface, for the "
+    "rating factors of its members.",
+    columns=columns_of(Bridge),
+)
 
-#: The sheets a run reads, in workbook order (Segments, Analysis, Capacities optional).
+#: The sheets of one row per item (all but Settings), in workbook order.
+TABLE_SHEETS: tuple[InputSheet, ...] = (
+    MEMBERS,
+    SEGMENTS,
+    ANALYSIS,
+    VEHICLES,
+    CAPACITIES,
+    BRIDGES,
+)
+
+#: The sheets a run reads, in workbook order (Segments, Analysis, Capacities and Bridges are
+#: optional).
 INPUT_SHEETS: tuple[InputSheet, ...] = (SETTINGS, *TABLE_SHEETS)

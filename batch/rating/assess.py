@@ -4,7 +4,8 @@ A run makes one :class:`AssessmentPlan` from its case; every member then gets
 :func:`assess_member` from the same load-case effects that give its envelope, in
 the worker that computed them, so that a member is rated identically whichever
 way the run is spread over processes. The equations are those of
-:mod:`batch.rating.lrfr`.
+:mod:`batch.rating.lrfr`; the factors each bridge's traffic and each vehicle's
+kind of crossing set are those of :mod:`batch.rating.traffic`.
 """
 
 from __future__ import annotations
@@ -18,17 +19,28 @@ from batch.model import Capacity, Case, Category, Member
 from batch.model.layout import Section
 from batch.rating.lrfr import (
     FloatArray,
+    MemberDeadLoads,
     MemberRating,
     RatingFactors,
     VehicleEffects,
     gross_weight,
+    member_dead_loads,
     rate_member,
     vehicle_effects,
     weight_in_tons,
 )
 from batch.rating.screening import MemberScreening, reference_of, screen_member
+from batch.rating.traffic import VehicleTerms, vehicle_terms
 
-__all__ = ["AssessmentPlan", "MemberAssessment", "assess_member"]
+__all__ = ["AssessmentPlan", "BridgeTerms", "MemberAssessment", "assess_member"]
+
+
+@dataclass(frozen=True, kw_only=True)
+class BridgeTerms:
+    """The factors of one bridge (or of the Settings, for members with no bridge)."""
+
+    factors: RatingFactors
+    vehicles: VehicleTerms
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -36,6 +48,7 @@ class AssessmentPlan:
     """What to rate and screen in a run, the same for every member.
 
     ``capacities`` holds each rated member's Capacities rows by member id;
+    ``bridges`` the factors of each bridge by id ("" for members with no bridge);
     ``reference`` is the screening reference: a vehicle index, the load cases
     of a library model, or None for no screening. ``weights`` are the vehicles'
     gross weights in US tons or tonnes (for posting loads).
@@ -43,9 +56,9 @@ class AssessmentPlan:
 
     categories: tuple[Category, ...]
     weights: tuple[float, ...]
-    factors: RatingFactors
     stations_per_span: int
     directions: str
+    bridges: dict[str, BridgeTerms] = field(default_factory=dict)
     capacities: dict[str, tuple[Capacity, ...]] = field(default_factory=dict)
     reference: int | tuple[LoadCase, ...] | None = None
     floor: float = 0.1
@@ -59,18 +72,30 @@ class AssessmentPlan:
         capacities: dict[str, list[Capacity]] = {}
         for row in case.capacities:
             capacities.setdefault(row.member, []).append(row)
+        settings = case.settings
+        bridges = {
+            b.id: BridgeTerms(
+                factors=RatingFactors.of(settings, b),
+                vehicles=vehicle_terms(case.vehicles, b, settings),
+            )
+            for b in case.bridges
+        }
+        bridges[""] = BridgeTerms(
+            factors=RatingFactors.of(settings),
+            vehicles=vehicle_terms(case.vehicles, None, settings),
+        )
         return cls(
             categories=tuple(v.category for v in case.vehicles),
             weights=tuple(
-                weight_in_tons(gross_weight(v, case.settings.units), case.settings.units)
+                weight_in_tons(gross_weight(v, settings.units), settings.units)
                 for v in case.vehicles
             ),
-            factors=RatingFactors.of(case.settings),
-            stations_per_span=case.settings.stations_per_span,
-            directions=case.settings.directions,
+            stations_per_span=settings.stations_per_span,
+            directions=settings.directions,
+            bridges=bridges if case.capacities else {},
             capacities={member: tuple(rows) for member, rows in capacities.items()},
             reference=reference if isinstance(reference, int | None) else tuple(reference),
-            floor=case.settings.screening_floor,
+            floor=settings.screening_floor,
         )
 
     def sections(self, member: Member) -> tuple[Section, ...]:
@@ -85,10 +110,15 @@ class AssessmentPlan:
 
 @dataclass(frozen=True, kw_only=True)
 class MemberAssessment:
-    """A member's rating (None: it has no Capacities rows) and screening (None: none asked)."""
+    """A member's rating, screening and dead-load effects.
+
+    ``rating`` is None for a member with no Capacities rows, ``screening`` when
+    none is asked, ``dead`` when the run rates nothing.
+    """
 
     rating: MemberRating | None = None
     screening: MemberScreening | None = None
+    dead: MemberDeadLoads | None = None
 
 
 def _reference(
@@ -110,19 +140,23 @@ def assess_member(
 ) -> MemberAssessment:
     """Rate and screen ``member`` from the factored effects of the run's load ``cases``."""
     live = vehicle_effects(effects, cases, len(plan.categories))
+    dead = member_dead_loads(member, effects.lines) if plan.bridges else None
     rating = None
     if member.id in plan.capacities:
+        terms = plan.bridges[member.bridge or ""]
         rating = rate_member(
             member,
-            effects.lines,
+            effects,
+            cases,
             plan.capacities[member.id],
-            live,
+            terms.vehicles,
             plan.categories,
-            plan.factors,
+            terms.factors,
             plan.weights,
+            dead,
         )
     reference = _reference(member, effects, live, plan)
     screening = (
         None if reference is None else screen_member(effects.lines, live, *reference, plan.floor)
     )
-    return MemberAssessment(rating=rating, screening=screening)
+    return MemberAssessment(rating=rating, screening=screening, dead=dead)

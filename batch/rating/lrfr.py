@@ -74,8 +74,9 @@ from batch.loads.factors import (
     POSTING_DIVISOR,
     POSTING_FLOOR,
 )
-from batch.model import Capacity, Category, Member, Settings, Vehicle
+from batch.model import Bridge, Capacity, Category, Member, Settings, Vehicle
 from batch.model.units import UnitSystem
+from batch.rating.traffic import VehicleTerms, member_df
 
 if TYPE_CHECKING:  # the compiled engine is not needed to read ratings
     from batch.engine.envelope import CaseEffects
@@ -83,27 +84,32 @@ if TYPE_CHECKING:  # the compiled engine is not needed to read ratings
 __all__ = [
     "FLAGS",
     "RATED_EFFECTS",
+    "MemberDeadLoads",
     "MemberRating",
     "RatingFactors",
     "VehicleEffects",
     "capacity_factor",
     "dead_load_effects",
+    "dead_load_factors",
     "factored_dead_load",
     "gross_weight",
+    "member_dead_loads",
     "posting_load",
     "rate_member",
+    "rated_live",
     "rating_factor",
     "rating_flag",
     "vehicle_effects",
     "weight_in_tons",
 ]
 
-#: The rated senses: (name, effect family, sense). Both shear senses are shown as ``V``.
+#: The rated senses: (name, effect family, sense). Both senses of shear are rated against
+#: Resistance V: V+ with the dead-load shear as signed, V- with its sign reversed.
 RATED_EFFECTS: tuple[tuple[str, str, int], ...] = (
     ("M+", "moment", 1),
     ("M-", "moment", -1),
-    ("V", "shear", 1),
-    ("V", "shear", -1),
+    ("V+", "shear", 1),
+    ("V-", "shear", -1),
 )
 
 FloatArray = NDArray[np.float64]
@@ -167,17 +173,26 @@ class RatingFactors:
     permit: float = 1.3
 
     @classmethod
-    def of(cls, settings: Settings) -> RatingFactors:
-        """The factors of a run's settings."""
+    def of(cls, settings: Settings, bridge: Bridge | None = None) -> RatingFactors:
+        """The factors of a run's settings, with a bridge's own ones where it gives them.
+
+        The legal and permit factors here are the Settings' (or the bridge's own);
+        :func:`batch.rating.traffic.vehicle_terms` takes them from the MBE tables.
+        """
+
+        def own(value: float | None, default: float) -> float:
+            return default if value is None else value
+
+        b = bridge or Bridge(id="")
         return cls(
-            dc=settings.dc_factor,
-            dw=settings.dw_factor,
+            dc=own(b.dc_factor, settings.dc_factor),
+            dw=own(b.dw_factor, settings.dw_factor),
             dc_relieving=settings.dc_factor_relieving,
             dw_relieving=settings.dw_factor_relieving,
-            design=settings.ll_factor_design,
-            operating=settings.ll_factor_operating,
-            legal=settings.ll_factor_legal,
-            permit=settings.ll_factor_permit,
+            design=own(b.ll_factor_design, settings.ll_factor_design),
+            operating=own(b.ll_factor_operating, settings.ll_factor_operating),
+            legal=own(b.ll_factor_legal, settings.ll_factor_legal),
+            permit=own(b.ll_factor_permit, settings.ll_factor_permit),
         )
 
     def live(self, category: Category) -> float:
@@ -192,6 +207,16 @@ def capacity_factor(member: Member, flexure: bool) -> float:
     return max(member.condition_factor * member.system_factor, MIN_CAPACITY_FACTOR)
 
 
+def dead_load_factors(
+    dc: FloatArray | float, dw: FloatArray | float, factors: RatingFactors
+) -> tuple[FloatArray, FloatArray]:
+    """The factors gDC and gDW of dead loads in the rated sense (relieving ones: the minimum)."""
+    dc_a, dw_a = np.asarray(dc, dtype=float), np.asarray(dw, dtype=float)
+    gamma_dc: FloatArray = np.where(dc_a >= 0, factors.dc, factors.dc_relieving)
+    gamma_dw: FloatArray = np.where(dw_a >= 0, factors.dw, factors.dw_relieving)
+    return gamma_dc, gamma_dw
+
+
 def factored_dead_load(
     dc: FloatArray | float, dw: FloatArray | float, factors: RatingFactors
 ) -> FloatArray:
@@ -200,10 +225,10 @@ def factored_dead_load(
     A dead load that is negative in the rated sense relieves it and takes the
     relieving factor.
     """
-    dc_a, dw_a = np.asarray(dc, dtype=float), np.asarray(dw, dtype=float)
-    gamma_dc = np.where(dc_a >= 0, factors.dc, factors.dc_relieving)
-    gamma_dw = np.where(dw_a >= 0, factors.dw, factors.dw_relieving)
-    factored: FloatArray = gamma_dc * dc_a + gamma_dw * dw_a
+    gamma_dc, gamma_dw = dead_load_factors(dc, dw, factors)
+    factored: FloatArray = gamma_dc * np.asarray(dc, dtype=float) + gamma_dw * np.asarray(
+        dw, dtype=float
+    )
     return factored
 
 
@@ -232,109 +257,335 @@ def rating_factor(
 
 
 @dataclass(frozen=True, kw_only=True)
-class MemberRating:
-    """One member's governing rating per vehicle (arrays of n_vehicles).
+class MemberDeadLoads:
+    """A member's dead-load effects, one value per effect row (moments, shears, reactions).
 
-    ``rf`` is the smallest RF over the rated stations and effects (inventory
-    level for design loads; ``inf`` where the vehicle loads no rated effect);
-    ``rf_operating`` the operating-level RF of design loads at the same place
-    (NaN for other categories); ``effect`` indexes :data:`RATED_EFFECTS` (-1:
-    none); ``station`` is the governing station's row among the member's
-    stations (-1: none). ``posting`` is the posting load of a legal load with
-    0.3 <= RF < 1 in US tons or tonnes (NaN otherwise), ``flag`` the code of its
-    note in :data:`FLAGS`.
+    Computed from the member's uniform DC and DW loads on the same model as the
+    live load, in the engine's sign conventions (the Dead Loads sheet).
+    """
+
+    dc: FloatArray
+    dw: FloatArray
+
+
+def member_dead_loads(member: Member, il: InfluenceLines) -> MemberDeadLoads:
+    """DC and DW effects of ``member`` at every station and support."""
+    return MemberDeadLoads(
+        dc=dead_load_effects(il, member.dc_load), dw=dead_load_effects(il, member.dw_load)
+    )
+
+
+@dataclass(frozen=True, kw_only=True)
+class MemberRating:
+    """One member's rating, every term of it, as arrays (everything a sheet shows).
+
+    A *check* is one rated station and effect in its sense (k, arrays ``k_*`` of
+    n_checks): a Capacities row gives one check per resistance it gives (M+,
+    M-, and both senses of V). Per vehicle (``v_*``, n_vehicles) the terms set
+    by the bridge's traffic and the vehicle's kind; per vehicle and check
+    (``p_*``, (n_vehicles, n_checks)) the live load and the rating factor.
+
+    Governing, per vehicle: ``rf`` the smallest RF over the checks (inventory
+    level for design loads; ``inf`` where the vehicle loads none), ``check``
+    its check (-1: none), ``effect`` and ``station`` its effect (index of
+    :data:`RATED_EFFECTS`) and station row (-1: none), ``rf_operating`` the
+    operating RF of design loads there (NaN for other kinds), ``posting`` the
+    posting load of a legal load with 0.3 <= RF < 1 in US tons or tonnes (NaN
+    otherwise), ``flag`` the code of its note in :data:`FLAGS`.
+
+    Checks: ``k_resistance`` phi*Rn; ``k_phi_c``, ``k_phi_s`` the condition and
+    system factors as used (phi_s = 1 for shear), ``k_phi`` their product as used
+    (floored at 0.85 for flexure, ``k_floored``); ``k_capacity`` C = k_phi *
+    k_resistance; ``k_dc``, ``k_dw`` the dead-load effects in the rated sense
+    (``k_dead_given``: typed on the Capacities row) with ``k_gamma_dc``,
+    ``k_gamma_dw``.
+
+    Vehicles: ``v_gamma`` (and ``v_gamma_operating``) the live-load factor and
+    ``v_gamma_source`` its origin; ``v_df_moment``, ``v_df_shear`` the
+    distribution factors used and ``v_df_source`` which; ``v_impact_source``
+    where the dynamic allowance came from; ``v_limit_state`` (codes of the
+    tables of :mod:`batch.rating.traffic`: small integers, so that a member's
+    stored rating stays small however large the fleet).
+
+    Pairs: ``p_axle`` and ``p_lane`` the axle and lane parts of the governing
+    load case's effect, distribution factor and case factor included, without
+    dynamic allowance; ``p_impact`` the dynamic allowance on the axles and
+    ``p_impact_lane`` on the lane load (0 but for an impact formula's case);
+    ``p_live`` = (1 + p_impact) * p_axle + (1 + p_impact_lane) * p_lane, the LL + IM;
+    ``p_rf``, ``p_rf_operating``; ``p_case`` the governing load case (-1:
+    none), ``p_position`` its front axle's x and ``p_direction`` +1/-1.
     """
 
     rf: FloatArray
     rf_operating: FloatArray
+    check: NDArray[np.int64]
     effect: NDArray[np.int64]
     station: NDArray[np.int64]
     posting: FloatArray
     flag: NDArray[np.int64]
+    k_station: NDArray[np.int64]
+    k_effect: NDArray[np.int64]
+    k_resistance: FloatArray
+    k_phi_c: FloatArray
+    k_phi_s: FloatArray
+    k_phi: FloatArray
+    k_floored: NDArray[np.bool_]
+    k_capacity: FloatArray
+    k_dc: FloatArray
+    k_dw: FloatArray
+    k_dead_given: NDArray[np.bool_]
+    k_gamma_dc: FloatArray
+    k_gamma_dw: FloatArray
+    v_gamma: FloatArray
+    v_gamma_operating: FloatArray
+    v_gamma_source: NDArray[np.int8]
+    v_df_moment: FloatArray
+    v_df_shear: FloatArray
+    v_df_source: NDArray[np.int8]
+    v_impact_source: NDArray[np.int8]
+    v_limit_state: NDArray[np.int8]
+    p_axle: FloatArray
+    p_lane: FloatArray
+    p_impact: FloatArray
+    p_impact_lane: FloatArray
+    p_live: FloatArray
+    p_rf: FloatArray
+    p_rf_operating: FloatArray
+    p_case: NDArray[np.int64]
+    p_position: FloatArray
+    p_direction: NDArray[np.int8]
 
 
-def _given_or(values: Sequence[float | None], computed: FloatArray) -> FloatArray:
-    return np.array([c if v is None else v for v, c in zip(values, computed, strict=True)])
+@dataclass(frozen=True, kw_only=True)
+class _Checks:
+    """The checks of one member: station row, effect, resistance, dead loads (see MemberRating)."""
+
+    station: NDArray[np.int64]
+    effect: NDArray[np.int64]
+    resistance: FloatArray
+    dc: FloatArray
+    dw: FloatArray
+    given: NDArray[np.bool_]
+
+
+def _checks(
+    member: Member,
+    capacities: Sequence[Capacity],
+    dead: MemberDeadLoads,
+    il: InfluenceLines,
+) -> _Checks:
+    """One check per Capacities row and rated effect it gives a resistance for, in row order."""
+    station, effect, resistance, dc, dw, given = [], [], [], [], [], []
+    for c in capacities:
+        at = c.section(member.spans)
+        row = None if at is None else il.station_index(at)
+        if row is None:
+            raise ValueError(f"member {member.id!r}: give capacities at the member's own stations")
+        for k, (_, family, sense) in enumerate(RATED_EFFECTS):
+            rn = (c.resistance_m_pos, c.resistance_m_neg, c.resistance_v, c.resistance_v)[k]
+            if rn is None:
+                continue
+            line = (il.moment_rows if family == "moment" else il.shear_rows).start + row
+            typed = (c.dc_m, c.dw_m) if family == "moment" else (c.dc_v, c.dw_v)
+            station.append(row)
+            effect.append(k)
+            resistance.append(rn)
+            dc.append(sense * (dead.dc[line] if typed[0] is None else typed[0]))
+            dw.append(sense * (dead.dw[line] if typed[1] is None else typed[1]))
+            given.append(typed[0] is not None or typed[1] is not None)
+    if not station:
+        raise ValueError(f"member {member.id!r}: give at least one resistance to rate")
+    return _Checks(
+        station=np.array(station, dtype=np.int64),
+        effect=np.array(effect, dtype=np.int64),
+        resistance=np.array(resistance, dtype=float),
+        dc=np.array(dc, dtype=float),
+        dw=np.array(dw, dtype=float),
+        given=np.array(given, dtype=bool),
+    )
+
+
+@dataclass(frozen=True, kw_only=True)
+class _RatedLive:
+    """LL + IM of every vehicle at every check, with its parts (arrays (n_vehicles, n_checks))."""
+
+    axle: FloatArray
+    lane: FloatArray
+    impact: FloatArray
+    impact_lane: FloatArray
+    live: FloatArray
+    case: NDArray[np.int64]
+    position: FloatArray
+    direction: NDArray[np.int8]
+
+
+def rated_live(
+    effects: CaseEffects,
+    cases: Sequence[LoadCase],
+    lines: NDArray[np.int64],
+    senses: NDArray[np.int64],
+    impact: FloatArray,
+    df: FloatArray,
+    multi_lane: NDArray[np.bool_],
+) -> _RatedLive:
+    """Each vehicle's LL + IM at the effect rows ``lines``, in the rated ``senses``.
+
+    Per case the effect is ``DF * ((1 + IM) * axle + (1 + IM lane) * lane)`` from
+    the engine's static parts, IM the allowance the engine applied (a case's fixed
+    one on its axles, or an impact formula's at the loaded length on axles and lane
+    alike, :class:`~batch.engine.envelope.CaseEffects`). ``impact`` (n_vehicles)
+    replaces the fixed allowance of every case of a vehicle (NaN: the case's own);
+    a case with an impact formula keeps the formula's. ``df`` (n_vehicles, n_lines)
+    is the distribution factor each vehicle uses at each line. A vehicle with its
+    cases' own allowance and the multi-lane factor (``multi_lane``) takes the
+    engine's value itself, so that such a rating is exactly the envelope's. The
+    vehicle's effect is its largest case's (the first on ties).
+    """
+    up = senses[None, :] > 0
+    side = {
+        name: np.where(
+            up, getattr(effects, f"max_{name}")[:, lines], getattr(effects, f"min_{name}")[:, lines]
+        )
+        for name in ("value", "axle", "lane", "impact", "position", "direction")
+    }
+    sign = np.where(up, 1.0, -1.0)
+    axle, lane, value = sign * side["axle"], sign * side["lane"], sign * side["value"]
+    vehicle = np.array([c.vehicle for c in cases], dtype=np.int64)
+    formula = np.array([c.impact_formula is not None for c in cases], dtype=bool)[:, None]
+    replaced = ~np.isnan(impact[vehicle])[:, None] & ~formula
+    im = np.where(replaced, impact[vehicle][:, None], side["impact"])
+    im_lane = np.where(formula, im, 0.0)
+    d = df[vehicle]
+    own = (multi_lane[vehicle][:, None]) & ~replaced
+    live = np.where(own, value, d * ((1 + im) * axle + (1 + im_lane) * lane))
+    n_vehicles = df.shape[0]
+    starts = np.searchsorted(vehicle, np.arange(n_vehicles))
+    best = np.maximum.reduceat(live, starts, axis=0)
+    index = np.broadcast_to(np.arange(len(cases))[:, None], live.shape)
+    first = np.minimum.reduceat(np.where(live == best[vehicle], index, len(cases)), starts, axis=0)
+    columns = np.arange(lines.size)[None, :]
+    acts = best > 0
+    return _RatedLive(
+        axle=np.where(acts, df * axle[first, columns], 0.0),
+        lane=np.where(acts, df * lane[first, columns], 0.0),
+        impact=np.where(acts, im[first, columns], np.nan),
+        impact_lane=np.where(acts, im_lane[first, columns], np.nan),
+        live=np.where(acts, best, 0.0),
+        case=np.where(acts, first, -1),
+        position=np.where(acts, side["position"][first, columns], np.nan),
+        direction=np.where(acts, side["direction"][first, columns], 0).astype(np.int8),
+    )
 
 
 def rate_member(
     member: Member,
-    il: InfluenceLines,
+    effects: CaseEffects,
+    cases: Sequence[LoadCase],
     capacities: Sequence[Capacity],
-    live: VehicleEffects,
+    terms: VehicleTerms,
     categories: Sequence[Category],
     factors: RatingFactors,
     weights: Sequence[float],
+    dead: MemberDeadLoads | None = None,
 ) -> MemberRating:
     """Rate every vehicle at the member's ``capacities`` stations (see the module docstring).
 
-    ``weights`` are the vehicles' gross weights in US tons or tonnes, for the
-    posting loads. ``capacities`` are the Capacities rows of this member, at least one
-    (validated: each on one of the member's stations); ``live`` the vehicles'
-    effects on the member and ``categories`` their categories, in vehicle order.
+    ``effects`` are the member's factored load-case effects (``cases`` in vehicle
+    order); ``terms`` the vehicles' factors on the member's bridge
+    (:func:`batch.rating.traffic.vehicle_terms`) and ``factors`` its dead-load
+    factors; ``weights`` the vehicles' gross weights in US tons or tonnes, for
+    the posting loads. ``capacities`` are the Capacities rows of this member, at
+    least one (validated: each on one of the member's stations).
     """
-    found_rows = [
-        None if (at := c.section(member.spans)) is None else il.station_index(at)
-        for c in capacities
-    ]
-    if not capacities or None in found_rows:
-        raise ValueError(f"member {member.id!r}: give capacities at the member's own stations")
-    rows = np.array(found_rows, dtype=np.int64)
-    moment, shear = il.moment_rows.start + rows, il.shear_rows.start + rows
-    dc_all, dw_all = dead_load_effects(il, member.dc_load), dead_load_effects(il, member.dw_load)
-    dead = {
-        "moment": (
-            _given_or([c.dc_m for c in capacities], dc_all[moment]),
-            _given_or([c.dw_m for c in capacities], dw_all[moment]),
-        ),
-        "shear": (
-            _given_or([c.dc_v for c in capacities], dc_all[shear]),
-            _given_or([c.dw_v for c in capacities], dw_all[shear]),
-        ),
-    }
-    resistance = {
-        "M+": [c.resistance_m_pos for c in capacities],
-        "M-": [c.resistance_m_neg for c in capacities],
-        "V": [c.resistance_v for c in capacities],
-    }
-    numerators, lives = [], []
-    for name, family, sense in RATED_EFFECTS:
-        phi = capacity_factor(member, flexure=family == "moment")
-        rn = np.array([np.nan if r is None else r for r in resistance[name]], dtype=float)
-        dc, dw = dead[family]
-        numerators.append(phi * rn - factored_dead_load(sense * dc, sense * dw, factors))
-        extreme = live.max_value if sense > 0 else live.min_value
-        lives.append(sense * extreme[:, moment if family == "moment" else shear])
-    # (n_vehicles, n_capacities, n_effects), flattened station-major: ties go to the first
-    # station, then to the first effect of RATED_EFFECTS.
-    numerator = np.broadcast_to(np.stack(numerators, axis=-1), (len(categories), *rows.shape, 4))
-    ll = np.stack(lives, axis=-1)
-    gamma = np.array([factors.live(c) for c in categories])
-    rf = _ratio(numerator, ll * gamma[:, None, None]).reshape(len(categories), -1)
-    best = rf.argmin(axis=1)
+    il = effects.lines
+    dead = dead if dead is not None else member_dead_loads(member, il)
+    ck = _checks(member, capacities, dead, il)
+    flexure = ck.effect < 2
+    phi_c = np.full(ck.effect.shape, member.condition_factor)
+    phi_s = np.where(flexure, member.system_factor, 1.0)
+    floored = flexure & (phi_c * phi_s < MIN_CAPACITY_FACTOR)
+    phi = np.where(floored, MIN_CAPACITY_FACTOR, phi_c * phi_s)
+    capacity = phi * ck.resistance
+    gamma_dc, gamma_dw = dead_load_factors(ck.dc, ck.dw, factors)
+    numerator = capacity - (gamma_dc * ck.dc + gamma_dw * ck.dw)
+    family_rows = np.where(flexure, il.moment_rows.start, il.shear_rows.start)
+    senses = np.array([RATED_EFFECTS[k][2] for k in ck.effect], dtype=np.int64)
+    # Fatigue loads take the one-lane DF / 1.2 in the engine; rating shows the same.
+    fatigue = np.zeros(terms.one_lane.size, dtype=bool)
+    fatigue[[c.vehicle for c in cases if c.fatigue]] = True
+    one_lane = terms.one_lane | fatigue
+    dfs = [member_df(member, bool(one)) for one in one_lane]
+    df = np.array([[m if f else v for f in flexure] for m, v, _ in dfs]).reshape(
+        len(dfs), ck.effect.size
+    )
+    live = rated_live(
+        effects,
+        cases,
+        family_rows + ck.station,
+        senses,
+        terms.impact,
+        df,
+        ~one_lane,
+    )
+    rf = _ratio(numerator[None, :], live.live * terms.gamma[:, None])
+    design = np.array(categories) == "design"
+    rf_op = np.where(
+        design[:, None],
+        _ratio(numerator[None, :], live.live * terms.gamma_operating[:, None]),
+        np.nan,
+    )
     n = np.arange(len(categories))
+    best = rf.argmin(axis=1)
     governing = rf[n, best]
     found = np.isfinite(governing)
-    at, effect = np.divmod(best, len(RATED_EFFECTS))
-    design = found & (np.array(categories) == "design")
-    operating = np.where(
-        design, _ratio(numerator[n, at, effect], ll[n, at, effect] * factors.operating), np.nan
-    )
+    operating = np.where(found, rf_op[n, best], np.nan)
     posting = [
-        posting_load(float(rf), w) if c == "legal" else None
-        for rf, w, c in zip(governing, weights, categories, strict=True)
+        posting_load(float(r), w) if c == "legal" else None
+        for r, w, c in zip(governing, weights, categories, strict=True)
     ]
     flags = [
-        rating_flag(c, float(rf), float(op))
-        for rf, op, c in zip(governing, operating, categories, strict=True)
+        rating_flag(c, float(r), float(op))
+        for r, op, c in zip(governing, operating, categories, strict=True)
     ]
     return MemberRating(
         rf=governing,
         rf_operating=operating,
-        effect=np.where(found, effect, -1),
-        station=np.where(found, rows[at], -1),
+        check=np.where(found, best, -1),
+        effect=np.where(found, ck.effect[best], -1),
+        station=np.where(found, ck.station[best], -1),
         posting=np.array([np.nan if p is None else p for p in posting], dtype=float),
         flag=np.array([0 if f is None else FLAGS.index(f) for f in flags], dtype=np.int64),
+        k_station=ck.station,
+        k_effect=ck.effect,
+        k_resistance=ck.resistance,
+        k_phi_c=phi_c,
+        k_phi_s=phi_s,
+        k_phi=phi,
+        k_floored=floored,
+        k_capacity=capacity,
+        k_dc=ck.dc,
+        k_dw=ck.dw,
+        k_dead_given=ck.given,
+        k_gamma_dc=gamma_dc,
+        k_gamma_dw=gamma_dw,
+        v_gamma=terms.gamma,
+        v_gamma_operating=terms.gamma_operating,
+        v_gamma_source=terms.gamma_source,
+        v_df_moment=np.array([m for m, _, _ in dfs], dtype=float),
+        v_df_shear=np.array([v for _, v, _ in dfs], dtype=float),
+        v_df_source=np.array([w for _, _, w in dfs], dtype=np.int8),
+        v_impact_source=terms.impact_source,
+        v_limit_state=terms.limit_state,
+        p_axle=live.axle,
+        p_lane=live.lane,
+        p_impact=live.impact,
+        p_impact_lane=live.impact_lane,
+        p_live=live.live,
+        p_rf=rf,
+        p_rf_operating=rf_op,
+        p_case=live.case,
+        p_position=live.position,
+        p_direction=live.direction,
     )
 
 

@@ -38,7 +38,7 @@ from batch.model.sheets import INPUT_SHEETS, SETTING_ROWS
 from batch.reporting.layout import BODY_PT, TITLE_PT, Column, Document
 from batch.writing.cautions import CAUTIONS, SIGN_CONVENTIONS
 from batch.writing.charts import CHART_COLOURS, CHART_SHEETS, ChartSheet
-from batch.writing.columns import ENVELOPES, GOVERNING, RATINGS
+from batch.writing.columns import ENVELOPES, GOVERNING, RATINGS, RATINGS_SUMMARY
 from batch.writing.declare import (
     FORMAT_FRACTION,
     FORMAT_RATIO,
@@ -338,9 +338,10 @@ def _ratings(doc: Document, results: Results, member: str) -> None:
         "LRFR rating factors (MBE 6A.4.2.1) at the rated stations; for each vehicle the "
         "governing (smallest) factor over the stations and effects, design loads at the "
         "inventory level with the operating level beside it, and for legal loads below 1 "
-        "the posting load (MBE 6A.8.3). The terms are as on the Ratings sheet."
+        "the posting load (MBE 6A.8.3). Every term of each rating factor is on the Ratings and "
+        "Rating Detail sheets."
     )
-    shown = [c for c in RATINGS.columns if c.header != "Member"]
+    shown = [c for c in RATINGS.columns if c.header in RATINGS_SUMMARY and c.header != "Member"]
     shares = {"Vehicle": 1.4, "Flag": 2.4, "Category": 0.9, "Posting load": 0.9}
     doc.table(
         [

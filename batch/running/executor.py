@@ -44,6 +44,7 @@ from batch.loads.fleet import fleet_cases
 from batch.model import Case, Member, Settings
 from batch.rating.assess import AssessmentPlan, MemberAssessment, assess_member
 from batch.rating.lrfr import VehicleEffects, vehicle_effects
+from batch.rating.posting import RatingSummary, summarise
 from batch.running.store import CheckpointStore
 
 __all__ = [
@@ -128,6 +129,8 @@ class RunResult:
     ``fatigue`` holds each member's moment ranges under the fleet's fatigue loads
     (:class:`~batch.engine.fatigue.FatigueRanges`), in member order; empty when
     the fleet has no fatigue load.
+    ``rated`` counts the rated members and checks and holds each bridge's
+    postings of legal loads (:func:`batch.rating.posting.summarise`).
     """
 
     case: Case
@@ -142,6 +145,7 @@ class RunResult:
     store: Path | None = None
     assessments: Sequence[MemberAssessment] = ()
     fatigue: Sequence[FatigueRanges | None] = ()
+    rated: RatingSummary = field(default_factory=RatingSummary)
 
     @property
     def n_members(self) -> int:
@@ -437,4 +441,5 @@ def run_case(
         store=options.store,
         assessments=() if plan is None else assessments,
         fatigue=fatigue if any(c.fatigue for c in cases) else (),
+        rated=summarise(case, assessments) if case.capacities else RatingSummary(),
     )

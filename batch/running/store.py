@@ -34,16 +34,15 @@ may query it with any SQLite client, e.g.::
 
 Values are in the run's units with the sign conventions of docs/workbook.md (sagging
 moment positive, V = sum of the upward forces left of the section, reactions
-upward). Envelopes, and each member's rating and screening
-(:class:`batch.rating.assess.MemberAssessment`), are stored as numpy ``.npz`` blobs
-written and read with ``allow_pickle=False``, so a store file from elsewhere
-cannot run code.
+upward). Envelopes, and each member's rating, screening and dead loads
+(:class:`batch.rating.assess.MemberAssessment`), are stored as raw arrays of
+numbers and fixed-width text behind a small header (no pickle), so a store file
+from elsewhere cannot run code.
 """
 
 from __future__ import annotations
 
 import contextlib
-import io
 import json
 import os
 import secrets
@@ -59,7 +58,7 @@ from numpy.typing import NDArray
 from batch.engine.effects import Governing, MemberEnvelope
 from batch.engine.fatigue import FatigueRanges
 from batch.rating.assess import MemberAssessment
-from batch.rating.lrfr import MemberRating
+from batch.rating.lrfr import MemberDeadLoads, MemberRating
 from batch.rating.screening import MemberScreening
 
 __all__ = [
@@ -195,44 +194,94 @@ def store_path_for(target: Path) -> Path:
     return target.with_name(f"{target.stem}.spanfleet.sqlite")
 
 
-def _npz(arrays: dict[str, NDArray[np.generic]]) -> bytes:
-    buf = io.BytesIO()
-    np.savez(buf, allow_pickle=False, **arrays)
-    return buf.getvalue()
+#: The kinds of array an assessment blob may hold: bool, integers, floats, fixed-width text.
+_ARRAY_KINDS = frozenset("biufU")
+
+
+def _pack_arrays(arrays: dict[str, NDArray[np.generic]]) -> bytes:
+    """Named arrays as a JSON header (name, type, shape) and their raw bytes, 8-byte aligned.
+
+    Decoding is one ``np.frombuffer`` per array: no zip, no pickle, no parsing of
+    per-array headers, so a rated member's many small arrays read back fast.
+    """
+    header, parts = [], []
+    for key, array in arrays.items():
+        a = np.ascontiguousarray(array)
+        if a.dtype.kind not in _ARRAY_KINDS:
+            raise ValueError(f"{key}: cannot store an array of {a.dtype}")
+        data = a.tobytes()
+        header.append([key, a.dtype.str, list(a.shape)])
+        parts.append(data + b"\0" * (-len(data) % 8))
+    head = json.dumps(header).encode("utf-8")
+    head += b" " * (-len(head) % 8)
+    return np.array([len(head)], "<i8").tobytes() + head + b"".join(parts)
+
+
+def _unpack_arrays(blob: bytes) -> dict[str, NDArray[np.generic]]:
+    """The arrays of :func:`_pack_arrays`; ValueError for a blob that does not decode."""
+    if len(blob) < 8:
+        raise ValueError("a stored rating is cut short")
+    size = int(np.frombuffer(blob, "<i8", 1)[0])
+    if not 0 <= size <= len(blob) - 8:
+        raise ValueError("a stored rating has a damaged header")
+    header = json.loads(blob[8 : 8 + size])
+    offset, out = 8 + size, {}
+    for key, kind, shape in header:
+        dtype = np.dtype(kind)
+        if dtype.kind not in _ARRAY_KINDS:
+            raise ValueError(f"a stored rating holds an array of {dtype}")
+        count = int(np.prod(shape, dtype=np.int64))
+        end = offset + count * dtype.itemsize
+        if end > len(blob):
+            raise ValueError("a stored rating is cut short")
+        out[key] = np.frombuffer(blob, dtype, count, offset).reshape(shape)
+        offset = end + (-(end - offset) % 8)
+    return out
 
 
 def _pack_assessment(assessment: MemberAssessment) -> bytes:
     arrays: dict[str, NDArray[np.generic]] = {}
-    for name, part in (("rating", assessment.rating), ("screening", assessment.screening)):
+    parts = (
+        ("rating", assessment.rating),
+        ("screening", assessment.screening),
+        ("dead", assessment.dead),
+    )
+    for name, part in parts:
         if part is not None:
             arrays |= {f"{name}.{k}": v for k, v in vars(part).items()}
-    return _npz(arrays)
+    return _pack_arrays(arrays)
 
 
 def _unpack_assessment(blob: bytes | None) -> MemberAssessment:
     if blob is None:
         return MemberAssessment()
-    with np.load(io.BytesIO(blob), allow_pickle=False) as data:
-        parts: dict[str, dict[str, Any]] = {}
-        for key in data.files:
-            name, field = key.split(".")
-            parts.setdefault(name, {})[field] = data[key]
-    rating, screening = parts.get("rating"), parts.get("screening")
-    return MemberAssessment(
-        rating=None if rating is None else MemberRating(**rating),
-        screening=None if screening is None else MemberScreening(**screening),
-    )
+    parts: dict[str, dict[str, Any]] = {}
+    for key, array in _unpack_arrays(blob).items():
+        name, field = key.split(".")
+        parts.setdefault(name, {})[field] = array
+    rating, screening, dead = parts.get("rating"), parts.get("screening"), parts.get("dead")
+    try:
+        return MemberAssessment(
+            rating=None if rating is None else MemberRating(**rating),
+            screening=None if screening is None else MemberScreening(**screening),
+            dead=None if dead is None else MemberDeadLoads(**dead),
+        )
+    except TypeError as exc:  # written by another layout of the results
+        raise ValueError(f"a stored rating does not have the expected fields ({exc})") from exc
 
 
 def _pack_fatigue(ranges: FatigueRanges) -> bytes:
-    return _npz({"cases": ranges.cases, "m_max": ranges.m_max, "m_min": ranges.m_min})
+    return _pack_arrays({"cases": ranges.cases, "m_max": ranges.m_max, "m_min": ranges.m_min})
 
 
 def _unpack_fatigue(blob: bytes | None) -> FatigueRanges | None:
     if blob is None:
         return None
-    with np.load(io.BytesIO(blob), allow_pickle=False) as data:
+    data: dict[str, Any] = dict(_unpack_arrays(blob))
+    try:
         return FatigueRanges(cases=data["cases"], m_max=data["m_max"], m_min=data["m_min"])
+    except KeyError as exc:
+        raise ValueError(f"stored fatigue ranges lack {exc}") from exc
 
 
 #: Each envelope array in the order it is stored, with its stored type: first the

@@ -7,8 +7,10 @@ and not forming a mechanism, unique ids, library names and their exclusions,
 the engine's limit on ranged spacings, and magnitudes against the one table of
 limits, :data:`LIMITS` (past ``warn`` a warning, past ``refuse`` an error).
 For rating: condition and system factors against the MBE's values, load
-factors against the published ones, the screening reference, and every
-Capacities row against its member's spans and stations.
+factors against the published ones, the screening reference, every
+Capacities row against its member's spans and stations (:mod:`.capacities`),
+and the Bridges sheet, the members' bridges and the permits' kinds
+(:mod:`.traffic`).
 
 A field the reader could not read, or that failed the schema, is skipped here,
 so one mistake gives one problem.
@@ -23,7 +25,13 @@ from dataclasses import dataclass
 from typing import Any
 
 from batch.loads import library
-from batch.loads.factors import MIN_CAPACITY_FACTOR, PUBLISHED_FACTORS
+from batch.loads.factors import (
+    CAPACITY_FACTOR_VALUES,
+    CONDITION_FACTORS,
+    MIN_CAPACITY_FACTOR,
+    PUBLISHED_FACTORS,
+    SYSTEM_FACTORS,
+)
 from batch.model import UNIT_LABELS, UNIT_SYSTEMS, Settings
 from batch.model.case import MAX_RANGES
 from batch.model.layout import POSITION_TOL, mechanism_parts
@@ -33,6 +41,7 @@ from batch.validating.capacities import capacity_problems
 from batch.validating.fields import finite_number, label, shown
 from batch.validating.friendly import missing_axle_column, nearest_models, unit_mixups
 from batch.validating.segments import segment_problems
+from batch.validating.traffic import traffic_problems
 
 __all__ = ["LIMITS", "Limit", "check_document"]
 
@@ -83,11 +92,14 @@ MIN_SPAN = (1.0, 0.3)
 #: than a rating reports; no real girder line has such spans (common practice).
 MIN_SPAN_RATIO = 1e-3
 
-#: The lowest condition factor (poor, 0.85) and system factor (0.85, the least redundant
-#: members) of the MBE's tables (6A.4.2.3 and 6A.4.2.4, from memory).
+#: The lowest condition factor (poor) and system factor (the least redundant members) of the
+#: MBE's tables (batch/loads/factors.py), with the manual's values for the message.
 LOWEST_CAPACITY_FACTORS = {
-    "condition_factor": (0.85, "1.00 good or satisfactory, 0.95 fair, 0.85 poor"),
-    "system_factor": (0.85, "0.85 for the least redundant members up to 1.00 for most girders"),
+    "condition_factor": (
+        min(v for _, v in CONDITION_FACTORS),
+        CAPACITY_FACTOR_VALUES["condition_factor"],
+    ),
+    "system_factor": (min(v for _, v in SYSTEM_FACTORS), CAPACITY_FACTOR_VALUES["system_factor"]),
 }
 
 _Found = tuple[DocPath, str, str, Severity]
@@ -569,6 +581,7 @@ def check_document(
     if isinstance(analysis, list):
         found += analysis_problems(analysis, document, locator, cx.ok, set())
     found += _library_needs(document, settings, bool(capacities), cx)
+    found += traffic_problems(document, locator, cx.ok)
     out = []
     for path, code, message, severity in found:
         sheet, cell = locator.where(path)

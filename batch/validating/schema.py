@@ -19,6 +19,7 @@ from typing import Any
 from jsonschema import Draft202012Validator
 from jsonschema.exceptions import ValidationError, best_match
 
+from batch.loads.factors import CAPACITY_FACTOR_VALUES
 from batch.model.schema import input_schema
 from batch.reading.problems import DocPath, Locator, Problem
 from batch.validating.fields import declaration, entry, label, shown
@@ -127,7 +128,9 @@ def _minimum(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
 def _maximum(error: ValidationError, path: DocPath, what: str) -> list[Worded]:
     limit = "at most" if error.validator == "maximum" else "less than"
     message = f"{what}: {shown(_seen(error))} is too large; give {limit} "
-    return [(path, "too-large", message + shown(_rule(error)))]
+    published = CAPACITY_FACTOR_VALUES.get(str(path[-1])) if path else None
+    hint = f" (the MBE's values, {published})" if published else ""
+    return [(path, "too-large", message + shown(_rule(error)) + hint)]
 
 
 def _enum(error: ValidationError, path: DocPath, what: str) -> list[Worded]:

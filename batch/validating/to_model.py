@@ -8,9 +8,10 @@ floats, or ints where the model's field is an int; text loses its outer spaces
 
 A vehicle row that names a library model and leaves Category blank takes the
 model's category. A capacity row names its member by the member's id exactly
-as the Members sheet spells it (ids match ignoring case and outer spaces). Each
-member carries its Segments rows and its Analysis row
-(:attr:`batch.model.Member.segments`, :attr:`batch.model.Member.analysis`).
+as the Members sheet spells it, and a member its bridge by the Bridges sheet's
+spelling (ids match ignoring case and outer spaces). Each member carries its
+Segments rows and its Analysis row (:attr:`batch.model.Member.segments`,
+:attr:`batch.model.Member.analysis`).
 """
 
 from __future__ import annotations
@@ -18,10 +19,21 @@ from __future__ import annotations
 from typing import Any
 
 from batch.loads import library
-from batch.model import Analysis, Capacity, Case, Member, Segment, Settings, Spacing, Vehicle
+from batch.model import (
+    Analysis,
+    Bridge,
+    Capacity,
+    Case,
+    Member,
+    Segment,
+    Settings,
+    Spacing,
+    Vehicle,
+)
 from batch.model.declare import InputColumn
 from batch.model.sheets import (
     ANALYSIS,
+    BRIDGES,
     CAPACITIES,
     MEMBERS,
     SEGMENTS,
@@ -87,23 +99,32 @@ def _analysis(document: dict[str, Any], ids: dict[str, str]) -> dict[str, Analys
     return out
 
 
+def _member(
+    doc: dict[str, Any],
+    segments: dict[str, tuple[Segment, ...]],
+    analysis: dict[str, Analysis],
+    bridges: dict[str, str],
+) -> Member:
+    values = _fields(MEMBERS.columns, doc)
+    if values.get("bridge") is not None:
+        values["bridge"] = bridges[values["bridge"].casefold()]
+    ident = values["id"]
+    return Member(**values, segments=segments.get(ident, ()), analysis=analysis.get(ident))
+
+
 def to_case(document: dict[str, Any]) -> Case:
     """The model of a document that passed validation with no errors."""
     rows = document["members"]
     ids = {str(m["id"]).strip().casefold(): str(m["id"]).strip() for m in rows}
     segments = _segments(document, ids)
     analysis = _analysis(document, ids)
-    members = tuple(
-        Member(
-            **_fields(MEMBERS.columns, m),
-            segments=segments.get(str(m["id"]).strip(), ()),
-            analysis=analysis.get(str(m["id"]).strip()),
-        )
-        for m in rows
-    )
+    bridges = tuple(Bridge(**_fields(BRIDGES.columns, b)) for b in document.get("bridges", []))
+    bridge_ids = {b.id.casefold(): b.id for b in bridges}
+    members = tuple(_member(m, segments, analysis, bridge_ids) for m in rows)
     return Case(
         settings=Settings(**_fields(SETTING_ROWS, document.get("settings", {}))),
         members=members,
         vehicles=tuple(_vehicle(v) for v in document["vehicles"]),
         capacities=tuple(_capacity(c, ids) for c in document.get("capacities", [])),
+        bridges=bridges,
     )

@@ -18,7 +18,7 @@ posting loads are computed by :mod:`batch.rating`; these columns only show them.
 from __future__ import annotations
 
 import re
-from collections.abc import Callable
+from collections.abc import Callable, Iterator
 from typing import TYPE_CHECKING, Any, NamedTuple
 
 import numpy as np
@@ -33,10 +33,13 @@ from batch.engine.effects import (
     governing_row,
 )
 from batch.engine.fatigue import FatigueRanges
-from batch.model import Case
-from batch.rating.lrfr import FLAGS, RATED_EFFECTS, MemberRating, RatingFactors
+from batch.model import Bridge, Case, Member
+from batch.rating.lrfr import FLAGS, RATED_EFFECTS, MemberDeadLoads, MemberRating
+from batch.rating.posting import BridgePosting
 from batch.rating.screening import SCREEN_EFFECTS, MemberScreening
+from batch.rating.traffic import DF_SOURCES, GAMMA_SOURCES, IMPACT_SOURCES, LIMIT_STATES
 from batch.writing.declare import (
+    FORMAT_FACTOR,
     FORMAT_FRACTION,
     FORMAT_RATIO,
     FORMAT_VALUE,
@@ -44,6 +47,7 @@ from batch.writing.declare import (
     WEIGHT_LABELS,
     AnyTable,
     ResultColumn,
+    ResultQuantity,
     ResultTable,
 )
 
@@ -52,10 +56,14 @@ if TYPE_CHECKING:
 
 __all__ = [
     "CHARTS_SHEET",
+    "DEAD_LOADS",
     "ENVELOPES",
     "FATIGUE",
     "GOVERNING",
+    "POSTINGS",
     "RATINGS",
+    "RATINGS_SUMMARY",
+    "RATING_DETAIL",
     "RATING_MATRIX",
     "REACTIONS",
     "RESULT_GUIDE",
@@ -371,11 +379,19 @@ class MemberPeaks(NamedTuple):
 
 
 class RatedMember(NamedTuple):
-    """One rated member's block of the Ratings and Rating Matrix sheets."""
+    """One rated member's block of the Ratings, Rating Matrix and Rating Detail sheets."""
 
     envelope: MemberEnvelope
     rating: MemberRating
     case: Case
+    member: Member
+
+
+class DeadMember(NamedTuple):
+    """One member's block of the Dead Loads sheet: its stations, then its supports."""
+
+    envelope: MemberEnvelope
+    dead: MemberDeadLoads
 
 
 class ScreenedMember(NamedTuple):
@@ -468,16 +484,16 @@ VEHICLE_SUMMARY: ResultTable[MemberPeaks] = ResultTable(
 # ---------------------------------------------------------------- ratings
 
 
-def _rated(result: RunResult) -> list[RatedMember]:
-    return [
-        RatedMember(envelope=env, rating=a.rating, case=result.case)
-        for env, a in zip(result.envelopes, result.assessments, strict=True)
-        if a.rating is not None
-    ]
+def _rated(result: RunResult) -> Iterator[RatedMember]:
+    for member, env, a in zip(
+        result.case.members, result.envelopes, result.assessments, strict=True
+    ):
+        if a.rating is not None:
+            yield RatedMember(envelope=env, rating=a.rating, case=result.case, member=member)
 
 
 def _n_rated(result: RunResult) -> int:
-    return sum(a.rating is not None for a in result.assessments)
+    return result.rated.members
 
 
 def _place(b: RatedMember, v: int, get: Callable[[MemberEnvelope, int], object]) -> object:
@@ -486,10 +502,320 @@ def _place(b: RatedMember, v: int, get: Callable[[MemberEnvelope, int], object])
     return get(b.envelope, row) if row >= 0 else None
 
 
+def _numbers(values: NDArray[Any]) -> list[object]:
+    """Finite numbers as they are, anything else an empty cell."""
+    cells: list[object] = np.asarray(values, dtype=float).tolist()
+    for i in np.flatnonzero(~np.isfinite(values)).tolist():
+        cells[i] = None
+    return cells
+
+
+def _words(table: tuple[str, ...], codes: NDArray[np.int8]) -> NDArray[np.str_]:
+    """The words of each code of one of :mod:`batch.rating.traffic`'s tables."""
+    return np.array(table, dtype=np.str_)[codes]
+
+
+#: The terms of the rating equation shown for every rated check: (header, quantity of the
+#: effect or "", format, width, meaning, cell from (rating, vehicle, check)). Declared once,
+#: for the Ratings sheet (the governing check) and the Rating Detail sheet (every check).
+#: A term's cells from (rating, vehicle indices, check indices), element by element.
+_Cells = Callable[[MemberRating, NDArray[np.int64], NDArray[np.int64]], NDArray[Any]]
+_Term = tuple[str, ResultQuantity, str, float, str, _Cells]
+_TERMS: tuple[_Term, ...] = (
+    (
+        "Limit state",
+        "",
+        "",
+        11,
+        "The limit state of the check, as the MBE names it: Strength I for design and legal "
+        "loads, Strength II for permits (MBE Table 6A.4.2.2-1).",
+        lambda r, v, k: _words(LIMIT_STATES, r.v_limit_state[v]),
+    ),
+    (
+        "phi Rn",
+        "",
+        FORMAT_VALUE,
+        10,
+        "The factored resistance phi*Rn typed on the Capacities row (moment or shear).",
+        lambda r, v, k: r.k_resistance[k],
+    ),
+    (
+        "phi c",
+        "",
+        FORMAT_FACTOR,
+        7,
+        "The member's condition factor phi_c (MBE Table 6A.4.2.3-1).",
+        lambda r, v, k: r.k_phi_c[k],
+    ),
+    (
+        "phi s",
+        "",
+        FORMAT_FACTOR,
+        7,
+        "The system factor phi_s as used: the member's for moment, 1 for shear (MBE 6A.4.2.4).",
+        lambda r, v, k: r.k_phi_s[k],
+    ),
+    (
+        "phi c phi s",
+        "",
+        FORMAT_FACTOR,
+        9,
+        "phi_c * phi_s as used: not below 0.85 for moment (MBE Eq. 6A.4.2.1-3).",
+        lambda r, v, k: r.k_phi[k],
+    ),
+    (
+        "Floor applied",
+        "",
+        "",
+        8,
+        "yes where phi_c * phi_s was below 0.85 and 0.85 was used.",
+        lambda r, v, k: np.where(r.k_floored[k], "yes", ""),
+    ),
+    (
+        "C",
+        "",
+        FORMAT_VALUE,
+        10,
+        "Capacity C = (phi c phi s) * (phi Rn).",
+        lambda r, v, k: r.k_capacity[k],
+    ),
+    (
+        "DC",
+        "",
+        FORMAT_VALUE,
+        10,
+        "Component dead-load effect in the rated sense (positive where it adds to the effect).",
+        lambda r, v, k: r.k_dc[k],
+    ),
+    (
+        "gamma DC",
+        "",
+        FORMAT_FACTOR,
+        8,
+        "Load factor on DC: the DC factor, or DC factor relieving where DC is negative.",
+        lambda r, v, k: r.k_gamma_dc[k],
+    ),
+    (
+        "DW",
+        "",
+        FORMAT_VALUE,
+        10,
+        "Wearing-surface dead-load effect in the rated sense.",
+        lambda r, v, k: r.k_dw[k],
+    ),
+    (
+        "gamma DW",
+        "",
+        FORMAT_FACTOR,
+        8,
+        "Load factor on DW: the DW factor, or DW factor relieving where DW is negative.",
+        lambda r, v, k: r.k_gamma_dw[k],
+    ),
+    (
+        "Dead loads from",
+        "",
+        "",
+        14,
+        "Where DC and DW came from: the Capacities row, or the member's DC and DW loads.",
+        lambda r, v, k: np.where(r.k_dead_given[k], "Capacities row", "member's loads"),
+    ),
+    (
+        "DF",
+        "",
+        FORMAT_FACTOR,
+        7,
+        "The distribution factor used (moment or shear).",
+        lambda r, v, k: np.where(r.k_effect[k] < 2, r.v_df_moment[v], r.v_df_shear[v]),
+    ),
+    (
+        "DF lanes",
+        "",
+        "",
+        14,
+        "Which DF: multi-lane, or the one-lane DF divided by the multiple presence factor 1.2 "
+        "(special permits, MBE 6A.4.5.4.2).",
+        lambda r, v, k: _words(DF_SOURCES, r.v_df_source[v]),
+    ),
+    (
+        "LL axles",
+        "",
+        FORMAT_VALUE,
+        10,
+        "Axle part of the live-load effect: DF times the vehicle row's Factor times the axles' "
+        "effect, without dynamic allowance.",
+        lambda r, v, k: r.p_axle[v, k],
+    ),
+    (
+        "LL lane",
+        "",
+        FORMAT_VALUE,
+        10,
+        "Lane-load part of the live-load effect (DF and Factor included; never takes IM).",
+        lambda r, v, k: r.p_lane[v, k],
+    ),
+    (
+        "IM",
+        "",
+        FORMAT_FACTOR,
+        7,
+        "Dynamic load allowance on the axles (fraction).",
+        lambda r, v, k: r.p_impact[v, k],
+    ),
+    (
+        "IM on lane",
+        "",
+        FORMAT_FACTOR,
+        7,
+        "Dynamic allowance on the lane load: 0 (LRFR: the lane load takes none), or the "
+        "impact formula's where the load case's standard applies it to the lane too.",
+        lambda r, v, k: r.p_impact_lane[v, k],
+    ),
+    (
+        "IM from",
+        "",
+        "",
+        16,
+        "Where IM came from: the load case's own (the Settings', or one a library model "
+        "fixes), the bridge's riding surface (legal loads) or crawl speed (permits).",
+        lambda r, v, k: _words(IMPACT_SOURCES, r.v_impact_source[v]),
+    ),
+    (
+        "LL+IM",
+        "",
+        FORMAT_VALUE,
+        10,
+        "Live-load effect rated: (1 + IM) * LL axles + (1 + IM on lane) * LL lane.",
+        lambda r, v, k: r.p_live[v, k],
+    ),
+    (
+        "gamma LL",
+        "",
+        FORMAT_FACTOR,
+        8,
+        "Live-load factor (design loads: inventory).",
+        lambda r, v, k: r.v_gamma[v],
+    ),
+    (
+        "gamma LL from",
+        "",
+        "",
+        30,
+        "Where the live-load factor came from: the MBE table with the bridge's ADTT, the "
+        "bridge's own factor, or the Settings.",
+        lambda r, v, k: _words(GAMMA_SOURCES, r.v_gamma_source[v]),
+    ),
+    (
+        "gamma LL operating",
+        "",
+        FORMAT_FACTOR,
+        9,
+        "Design loads: the operating-level live-load factor.",
+        lambda r, v, k: r.v_gamma_operating[v],
+    ),
+    (
+        "Load case",
+        "",
+        "",
+        20,
+        "The load case (a library model's part) that governs LL+IM.",
+        lambda r, v, k: r.p_case[v, k],
+    ),
+    (
+        "at",
+        "length",
+        FORMAT_VALUE,
+        9,
+        "Position of its front axle from the member's left end (blank: lane load alone).",
+        lambda r, v, k: r.p_position[v, k],
+    ),
+    (
+        "direction",
+        "",
+        "",
+        14,
+        "Its direction of travel.",
+        lambda r, v, k: r.p_direction[v, k],
+    ),
+)
+
+
+def _term_columns(rows: Callable[[RatedMember], tuple[Any, Any]]) -> tuple[ResultColumn[Any], ...]:
+    """The columns of :data:`_TERMS` over the (vehicle, check) pairs ``rows`` gives.
+
+    A check of -1 (a vehicle that loads none of the rated effects) gives empty cells.
+    """
+
+    def column(
+        header: str, quantity: ResultQuantity, fmt: str, width: float, meaning: str, get: _Cells
+    ) -> ResultColumn[Any]:
+        def values(b: RatedMember) -> list[object]:
+            v, k = rows(b)
+            rated = k >= 0
+            cells = get(b.rating, v, np.where(rated, k, 0))
+            if header == "Load case":
+                return [
+                    b.envelope.labels[c] if c >= 0 and ok else None
+                    for c, ok in zip(cells.tolist(), rated.tolist(), strict=True)
+                ]
+            if header == "direction":
+                return [
+                    direction_text(d) if ok else None
+                    for d, ok in zip(cells.tolist(), rated.tolist(), strict=True)
+                ]
+            if cells.dtype.kind == "U":
+                return [
+                    t if t and ok else None
+                    for t, ok in zip(cells.tolist(), rated.tolist(), strict=True)
+                ]
+            return _numbers(np.where(rated, cells, np.nan))
+
+        return ResultColumn(
+            header=header,
+            quantity=quantity,
+            number_format=fmt,
+            width=width,
+            values=values,
+            text=not fmt,
+            meaning=meaning,
+        )
+
+    return tuple(column(*term) for term in _TERMS)
+
+
+def _unit_column(rows: Callable[[RatedMember], tuple[Any, Any]]) -> ResultColumn[Any]:
+    """The unit of the row's effect values (phi Rn, C, DC, DW, LL): moment or force."""
+
+    def values(b: RatedMember) -> list[object]:
+        units = b.case.settings.unit_labels
+        return [
+            (units["moment"] if b.rating.k_effect[k] < 2 else units["force"]) if k >= 0 else None
+            for _, k in zip(*rows(b), strict=True)
+        ]
+
+    return ResultColumn(
+        header="Unit",
+        width=7,
+        values=values,
+        text=True,
+        meaning="Unit of the row's effects (phi Rn, C, DC, DW, LL axles, LL lane, LL+IM): the "
+        "moment unit for M+ and M-, the force unit for V+ and V-.",
+    )
+
+
+def _governing_rows(b: RatedMember) -> tuple[Any, Any]:
+    return np.arange(len(b.case.vehicles)), b.rating.check
+
+
+def _detail_rows(b: RatedMember) -> tuple[Any, Any]:
+    n_v, n_k = b.rating.p_rf.shape
+    return np.repeat(np.arange(n_v), n_k), np.tile(np.arange(n_k), n_v)
+
+
 RATINGS: ResultTable[RatedMember] = ResultTable(
     sheet="Ratings",
-    purpose="One row per rated member and vehicle: the governing rating factor and where it "
-    "governs, the posting load of a legal load and the operating level of a design load.",
+    purpose="One row per rated member and vehicle: the governing rating factor, where it "
+    "governs and every term of its equation (as on the Rating Detail sheet), the posting "
+    "load of a legal load and the operating level of a design load.",
     blocks=_rated,
     rows=lambda result: _n_rated(result) * result.n_vehicles,
     wanted=lambda result: _n_rated(result) > 0,
@@ -518,7 +844,8 @@ RATINGS: ResultTable[RatedMember] = ResultTable(
                 )
             ),
             text=True,
-            meaning="The rated effect that governs: M+ (sagging), M- (hogging) or V (shear).",
+            meaning="The rated effect that governs: M+ (sagging), M- (hogging), V+ or V- (shear "
+            "in either sense).",
         ),
         ResultColumn(
             header="Span",
@@ -562,22 +889,356 @@ RATINGS: ResultTable[RatedMember] = ResultTable(
             meaning="Design loads: the operating-level rating factor at the same place.",
         ),
         ResultColumn(
-            header="LL factor",
-            number_format=FORMAT_RATIO,
-            width=8,
-            values=_per_vehicle(
-                lambda b, v: RatingFactors.of(b.case.settings).live(b.case.vehicles[v].category)
-            ),
-            meaning="The live-load factor the rating used (design loads: inventory).",
-        ),
-        ResultColumn(
             header="Flag",
             width=44,
             values=_per_vehicle(lambda b, v: FLAGS[int(b.rating.flag[v])] or None),
             text=True,
             meaning="A note on a rating below 1, or on a vehicle that loads no rated effect.",
         ),
+        # (every term of the governing check follows: see RATINGS_SUMMARY)
+        _unit_column(_governing_rows),
+        *_term_columns(_governing_rows),
     ),
+)
+
+
+def _adtt(b: RatedMember) -> float | None:
+    bridge = _bridge_of(b.case, b.member.bridge or "")
+    return None if bridge is None else bridge.adtt
+
+
+#: The Ratings sheet's own columns, before the terms of the governing check (a summary a
+#: printed report can show).
+RATINGS_SUMMARY: tuple[str, ...] = tuple(
+    c.header for c in RATINGS.columns[: [c.header for c in RATINGS.columns].index("Unit")]
+)
+
+
+def _detail_place(get: Callable[[MemberEnvelope, int], object]) -> Callable[[Any], list[object]]:
+    def values(b: RatedMember) -> list[object]:
+        _, k = _detail_rows(b)
+        return [get(b.envelope, int(b.rating.k_station[j])) for j in k]
+
+    return values
+
+
+RATING_DETAIL: ResultTable[RatedMember] = ResultTable(
+    sheet="Rating Detail",
+    purpose="One row per rated member, vehicle and check (a rated station and effect, in its "
+    "sense): every term of the rating equation, so that each RF can be recomputed from its "
+    "row alone: RF = (C - gamma DC * DC - gamma DW * DW) / (gamma LL * (LL+IM)), with "
+    "C = (phi c phi s) * (phi Rn) and LL+IM = (1 + IM) * LL axles + (1 + IM on lane) * LL lane.",
+    blocks=_rated,
+    rows=lambda result: result.rated.checks,
+    wanted=lambda result: _n_rated(result) > 0,
+    overflow="store",
+    frozen_columns=2,
+    columns=(
+        ResultColumn(
+            header="Member",
+            width=16,
+            values=lambda b: [b.member.id] * b.rating.p_rf.size,
+            text=True,
+            meaning="Member id.",
+        ),
+        ResultColumn(
+            header="Vehicle",
+            width=18,
+            values=lambda b: [b.case.vehicles[int(v)].id for v in _detail_rows(b)[0]],
+            text=True,
+            meaning="Vehicle id, as on the Vehicles sheet.",
+        ),
+        ResultColumn(
+            header="Bridge",
+            width=12,
+            values=lambda b: [b.member.bridge] * b.rating.p_rf.size,
+            text=True,
+            meaning="The member's bridge (blank: none, the Settings' factors).",
+        ),
+        ResultColumn(
+            header="ADTT",
+            number_format=FORMAT_WHOLE,
+            width=7,
+            values=lambda b: [_adtt(b)] * b.rating.p_rf.size,
+            meaning="The bridge's ADTT (trucks a day, one direction), which the MBE tables of "
+            "legal and permit live-load factors are read at; blank: not known or no bridge.",
+        ),
+        ResultColumn(
+            header="Category",
+            width=9,
+            values=lambda b: [b.case.vehicles[int(v)].category for v in _detail_rows(b)[0]],
+            text=True,
+            meaning="The vehicle's category: design, legal or permit.",
+        ),
+        ResultColumn(
+            header="Permit type",
+            width=18,
+            values=lambda b: [b.case.vehicles[int(v)].permit_type for v in _detail_rows(b)[0]],
+            text=True,
+            meaning="The permit's kind of crossing (MBE Table 6A.4.5.4.2a-1); blank: none given.",
+        ),
+        ResultColumn(
+            header="Span",
+            number_format=FORMAT_WHOLE,
+            width=6,
+            values=_detail_place(lambda e, i: int(e.station_span[i])),
+            meaning="Span of the rated station, from 1 at the left end.",
+        ),
+        ResultColumn(
+            header="Station",
+            number_format=FORMAT_FRACTION,
+            width=8,
+            values=_detail_place(lambda e, i: float(e.station_fraction[i])),
+            meaning="Fraction of the span of the rated station.",
+        ),
+        ResultColumn(
+            header="x",
+            quantity="length",
+            number_format=FORMAT_VALUE,
+            width=9,
+            values=_detail_place(lambda e, i: float(e.station_x[i])),
+            meaning="Distance of the rated station from the member's left end.",
+        ),
+        ResultColumn(
+            header="Effect",
+            width=7,
+            values=lambda b: [
+                RATED_EFFECTS[int(b.rating.k_effect[k])][0] for k in _detail_rows(b)[1]
+            ],
+            text=True,
+            meaning="The rated effect and sense: M+, M-, V+ or V-.",
+        ),
+        ResultColumn(
+            header="RF",
+            number_format=FORMAT_RATIO,
+            width=8,
+            values=lambda b: _numbers(b.rating.p_rf.ravel()),
+            fill=_rf_fill,
+            meaning="Rating factor of this check (design loads: inventory); blank: the vehicle "
+            "gives no effect of this sense here.",
+        ),
+        ResultColumn(
+            header="RF operating",
+            number_format=FORMAT_RATIO,
+            width=10,
+            values=lambda b: _numbers(b.rating.p_rf_operating.ravel()),
+            fill=_rf_fill,
+            meaning="Design loads: the operating-level RF, with gamma LL operating.",
+        ),
+        ResultColumn(
+            header="Governs",
+            width=8,
+            values=lambda b: [
+                "yes" if int(b.rating.check[v]) == k else None
+                for v, k in zip(*_detail_rows(b), strict=True)
+            ],
+            text=True,
+            meaning="yes on the check that governs the member's rating for the vehicle (as on "
+            "the Ratings sheet).",
+        ),
+        _unit_column(_detail_rows),
+        *_term_columns(_detail_rows),
+    ),
+)
+
+
+def _dead(result: RunResult) -> Iterator[DeadMember]:
+    for env, a in zip(result.envelopes, result.assessments, strict=True):
+        if a.dead is not None:
+            yield DeadMember(envelope=env, dead=a.dead)
+
+
+def _dead_wanted(result: RunResult) -> bool:
+    return bool(result.assessments) and result.assessments[0].dead is not None
+
+
+def _dead_column(
+    header: str, quantity: ResultQuantity, rows: str, part: str, meaning: str
+) -> ResultColumn[Any]:
+    def values(b: DeadMember) -> list[object]:
+        n_st, n_su = b.envelope.station_x.size, b.envelope.support_x.size
+        array = getattr(b.dead, part)
+        if rows == "moment":
+            cells = [*_numbers(array[:n_st]), *[None] * n_su]
+        elif rows == "shear":
+            cells = [*_numbers(array[n_st : 2 * n_st]), *[None] * n_su]
+        else:
+            cells = [*[None] * n_st, *_numbers(array[2 * n_st :])]
+        return cells
+
+    return ResultColumn(
+        header=header,
+        quantity=quantity,
+        number_format=FORMAT_VALUE,
+        width=10,
+        values=values,
+        meaning=meaning,
+    )
+
+
+def _station_or_support(get_station: Any, get_support: Any) -> Callable[[DeadMember], list[object]]:
+    def values(b: DeadMember) -> list[object]:
+        env = b.envelope
+        return [
+            *(get_station(env, i) for i in range(env.station_x.size)),
+            *(get_support(env, i) for i in range(env.support_x.size)),
+        ]
+
+    return values
+
+
+DEAD_LOADS: ResultTable[DeadMember] = ResultTable(
+    sheet="Dead Loads",
+    purpose="One row per member and station, then per support: the dead-load effects of the "
+    "member's uniform DC and DW loads, on the same model as the live load (spans, EI, hinges).",
+    blocks=_dead,
+    rows=lambda result: result.n_stations + result.n_supports if _dead_wanted(result) else 0,
+    wanted=_dead_wanted,
+    frozen_columns=2,
+    columns=(
+        ResultColumn(
+            header="Member",
+            width=16,
+            values=lambda b: (
+                [b.envelope.member] * (b.envelope.station_x.size + b.envelope.support_x.size)
+            ),
+            text=True,
+            meaning="Member id.",
+        ),
+        ResultColumn(
+            header="Span",
+            number_format=FORMAT_WHOLE,
+            width=6,
+            values=_station_or_support(lambda e, i: int(e.station_span[i]), lambda e, i: None),
+            meaning="Span of the station (station rows).",
+        ),
+        ResultColumn(
+            header="Station",
+            number_format=FORMAT_FRACTION,
+            width=8,
+            values=_station_or_support(
+                lambda e, i: float(e.station_fraction[i]), lambda e, i: None
+            ),
+            meaning="Fraction of the span (station rows).",
+        ),
+        ResultColumn(
+            header="Support",
+            number_format=FORMAT_WHOLE,
+            width=8,
+            values=_station_or_support(lambda e, i: None, lambda e, i: i + 1),
+            meaning="Support number, 1 = the left end (support rows).",
+        ),
+        ResultColumn(
+            header="x",
+            quantity="length",
+            number_format=FORMAT_VALUE,
+            width=9,
+            values=_station_or_support(
+                lambda e, i: float(e.station_x[i]), lambda e, i: float(e.support_x[i])
+            ),
+            meaning="Distance from the member's left end.",
+        ),
+        _dead_column("DC M", "moment", "moment", "dc", "Moment of DC, sagging positive."),
+        _dead_column("DW M", "moment", "moment", "dw", "Moment of DW, sagging positive."),
+        _dead_column(
+            "DC V",
+            "force",
+            "shear",
+            "dc",
+            "Shear of DC (sum of upward forces left of the section).",
+        ),
+        _dead_column("DW V", "force", "shear", "dw", "Shear of DW."),
+        _dead_column("DC R", "force", "reaction", "dc", "Reaction of DC, upward positive."),
+        _dead_column("DW R", "force", "reaction", "dw", "Reaction of DW, upward positive."),
+    ),
+)
+
+
+def _posting_columns(case: Case) -> tuple[ResultColumn[Any], ...]:
+    """Five columns per legal vehicle: RF, member, posting load, posted value, note."""
+
+    def one(j: int, vid: str) -> tuple[ResultColumn[Any], ...]:
+        return (
+            ResultColumn(
+                header=f"{vid} RF",
+                number_format=FORMAT_RATIO,
+                width=9,
+                values=lambda b: [_finite_or_blank(b.rf[j])],
+                fill=_rf_fill,
+                meaning="Per legal vehicle, five columns: its smallest RF over the bridge's rated "
+                "members (RF); the member that governs (member); the posting load there, "
+                "(W/0.7)(RF - 0.3) for 0.3 <= RF < 1, MBE 6A.8.3 (posting); the same rounded "
+                "down by the Settings' Posting rounded down to (posted); a note: the MBE's "
+                "closure recommendation below RF 0.3 and the exemptions federal guidance "
+                "allows, with their sources (note).",
+            ),
+            ResultColumn(
+                header=f"{vid} member",
+                width=14,
+                values=lambda b: [b.member[j]],
+                text=True,
+                meaning="The member that governs.",
+            ),
+            ResultColumn(
+                header=f"{vid} posting",
+                quantity="weight",
+                number_format=FORMAT_VALUE,
+                width=10,
+                values=lambda b: [_finite_or_blank(b.posting[j])],
+                meaning="The posting load.",
+            ),
+            ResultColumn(
+                header=f"{vid} posted",
+                quantity="weight",
+                number_format=FORMAT_VALUE,
+                width=10,
+                values=lambda b: [_finite_or_blank(b.rounded[j])],
+                meaning="The posting load rounded down by the owner's rule.",
+            ),
+            ResultColumn(
+                header=f"{vid} note",
+                width=40,
+                values=lambda b: [b.note[j] or None],
+                text=True,
+                meaning="Closure recommendation and exemptions, with sources.",
+            ),
+        )
+
+    legal = [v.id for v in case.vehicles if v.category == "legal"]
+    return tuple(col for j, vid in enumerate(legal) for col in one(j, vid))
+
+
+def _bridge_of(case: Case, ident: str) -> Bridge | None:
+    return next((b for b in case.bridges if b.id == ident), None)
+
+
+POSTINGS: ResultTable[BridgePosting] = ResultTable(
+    sheet="Postings",
+    purpose="One row per bridge (rated members with no bridge share a row): for every legal "
+    "vehicle, its smallest rating factor over the bridge's rated members, the member that "
+    "governs, the posting load (MBE 6A.8.3) and its value rounded by the owner's rule, and "
+    "notes.",
+    blocks=lambda result: result.rated.postings,
+    rows=lambda result: len(result.rated.postings),
+    wanted=lambda result: bool(result.rated.postings),
+    overflow="store",
+    columns=(
+        ResultColumn(
+            header="Bridge",
+            width=14,
+            values=lambda b: [b.bridge or "(no bridge)"],
+            text=True,
+            meaning="Bridge id; (no bridge) for the rated members that name none.",
+        ),
+        ResultColumn(
+            header="Rated members",
+            number_format=FORMAT_WHOLE,
+            width=8,
+            values=lambda b: [b.members],
+            meaning="How many of the bridge's members are rated (have Capacities rows).",
+        ),
+    ),
+    per_vehicle=_posting_columns,
 )
 
 
@@ -942,6 +1603,9 @@ RESULT_TABLES: tuple[AnyTable, ...] = (
     VEHICLE_SUMMARY,
     RATINGS,
     RATING_MATRIX,
+    RATING_DETAIL,
+    POSTINGS,
+    DEAD_LOADS,
     SCREENING,
     SCREENING_DETAIL,
 )

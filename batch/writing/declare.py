@@ -25,6 +25,7 @@ if TYPE_CHECKING:
     from batch.running.executor import RunResult
 
 __all__ = [
+    "FORMAT_FACTOR",
     "FORMAT_FRACTION",
     "FORMAT_RATIO",
     "FORMAT_TEXT",
@@ -41,6 +42,7 @@ FORMAT_VALUE = "0.0"  # moments, shears, reactions, positions, weights
 FORMAT_FRACTION = "0.000"  # station fractions of a span
 FORMAT_WHOLE = "0"  # span and support numbers
 FORMAT_RATIO = "0.00"  # rating factors and screening ratios
+FORMAT_FACTOR = "0.000"  # load, resistance and distribution factors, dynamic allowances
 FORMAT_TEXT = "@"
 
 #: A result column's quantity: an input quantity, or a weight in tons or tonnes.

@@ -60,7 +60,7 @@ def write_results(
             f"{result.store.name if result.store else '(none: the run used --no-store)'}, "
             "view vehicle_summary."
         )
-    rated = sum(a.rating is not None for a in result.assessments)
+    rated = result.rated.members
     if 0 < rated < result.n_members:
         remarks.append(
             f"{result.n_members - rated} of {result.n_members} members have no Capacities rows "

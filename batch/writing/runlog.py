@@ -3,7 +3,8 @@
 Two columns, Item and Value, in sections: the run (program version, UTC time,
 run time), the input (file name, SHA-256 digest), the settings used, counts, the
 load cases, the result sheets written, every warning, a short legend (sign
-conventions and what the highlight means) and the cautions that come with any
+conventions and what the highlight means), the published rating values used (with
+their tables, editions and status) and the bridges' traffic, and the cautions that come with any
 line-girder live-load analysis (the texts of :mod:`batch.writing.cautions`, shared with the
 template).
 """
@@ -18,6 +19,7 @@ import numpy as np
 import openpyxl
 
 import batch
+from batch.loads.factors import PUBLISHED_TABLES
 from batch.model.sheets import SETTING_ROWS
 from batch.running.executor import RunResult
 from batch.writing.cautions import CAUTIONS, SIGN_CONVENTIONS
@@ -133,6 +135,14 @@ def _rows(
             f"dynamic allowance {allowance}; factor {lc.factor:g}"
         )
         yield lc.label, text + ("" if lc.scope == "all" else f"; scope {lc.scope}"), _PLAIN
+    if result.case.capacities:
+        yield "Rating: published values", None, _SECTION
+        for what, text in PUBLISHED_TABLES:
+            yield what, text, _PLAIN
+        for b in result.case.bridges:
+            adtt = "not known" if b.adtt is None else f"{b.adtt:g}"
+            surface = b.riding_surface or "not given (Settings' dynamic load allowance)"
+            yield f"Bridge {b.id}", f"ADTT {adtt}; riding surface {surface}", _PLAIN
     yield "Result sheets", None, _SECTION
     yield "Written", ", ".join(sheets), _PLAIN
     for note in notes:

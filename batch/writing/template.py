@@ -151,7 +151,7 @@ def _put(cell: Cell | MergedCell, value: CellValue) -> None:
 
 
 def case_rows(case: Case) -> dict[str, list[dict[str, CellValue]]]:
-    """The Members, Vehicles and (when it has any) Capacities, Segments and Analysis rows.
+    """The input-sheet rows of a model case (the optional sheets when it has rows for them).
 
     Rows are keyed by the declared column keys. Empty values (no hinges, no
     library, a blank resistance, ...) become blank cells; every other value is
@@ -166,6 +166,8 @@ def case_rows(case: Case) -> dict[str, list[dict[str, CellValue]]]:
     analysis = tuple(m.analysis for m in case.members if m.analysis is not None)
     if analysis:
         objects["Analysis"] = analysis
+    if case.bridges:
+        objects["Bridges"] = case.bridges
     sheets = {sheet.name: sheet for sheet in INPUT_SHEETS}
     return {
         name: [
@@ -342,7 +344,14 @@ def _guide_lines(units: UnitSystem) -> list[tuple[str, Font | None]]:
             plain,
         ),
         (
-            "8. Blank rows are skipped; hidden and filtered rows are read like any other. Keep the "
+            "8. Bridges is optional too: a member that names its bridge (Bridge column) is "
+            "rated with the live-load factors of the bridge's truck traffic (ADTT) and, for "
+            "legal loads, the dynamic load allowance of its riding surface (AASHTO Manual for "
+            "Bridge Evaluation); members with no bridge take the Settings' factors.",
+            plain,
+        ),
+        (
+            "9. Blank rows are skipped; hidden and filtered rows are read like any other. Keep the "
             "sheet names; you may add sheets of your own.",
             plain,
         ),
