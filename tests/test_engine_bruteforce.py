@@ -9,6 +9,10 @@ side. Only ``il.evaluate`` (the influence ordinates, themselves checked against
 closed forms and an independent FE library in the other engine tests) is taken
 from the engine. Method: direct search plus local polishing, common practice.
 
+The same search checks the compiled kernel as a run uses it: a random member against
+a random fleet in one call (rigid trains swept together, ranged ones by their range
+ends and free chains), each vehicle's row against its own search.
+
 Checks, per effect and sense:
 
 * the engine's extreme is never exceeded by any stepped or polished position
@@ -29,7 +33,8 @@ from scipy.optimize import minimize_scalar
 from tolerances import REL_TOL_EXACT
 
 from batch.engine.influence import InfluenceLines, influence_lines
-from batch.engine.moving import AxleExtremes, axle_extremes
+from batch.engine.moving import AxleExtremes, axle_extremes, fleet_extremes_of
+from batch.loads.cases import LoadCase
 from batch.model import AxleTrain
 from batch.model.layout import POSITION_TOL, mechanism_parts
 
@@ -40,6 +45,9 @@ POLISH_XATOL = 1e-12
 #: Grid peaks polished per effect, sense, direction and spacing case.
 MAX_PEAKS = 8
 N_CASES = 30
+#: Random members, each against a random fleet of FLEET_SIZE vehicles in one kernel call.
+N_FLEETS = 8
+FLEET_SIZE = 6
 SEED = 20_251_202
 
 
@@ -59,6 +67,11 @@ class Vehicle:
 def _random_case(index: int) -> tuple[dict, Vehicle]:
     """A seeded random member (1-4 spans, maybe hinges) and vehicle (1-7 axles, maybe a range)."""
     rng = np.random.default_rng([SEED, index])
+    return _random_member(rng), _random_vehicle(rng)
+
+
+def _random_member(rng: np.random.Generator) -> dict:
+    """Spans, EI, hinges (never a mechanism) and stations per span of a random member."""
     n_spans = int(rng.integers(1, 5))
     spans = np.round(rng.uniform(10.0, 150.0, n_spans), 2)
     member = {
@@ -74,6 +87,11 @@ def _random_case(index: int) -> tuple[dict, Vehicle]:
             hinge = round(float(ends[k] + rng.uniform(0.1, 0.9) * spans[k]), 2)
             if not mechanism_parts(member["spans"], sorted([*member["hinges"], hinge])):
                 member["hinges"] = sorted([*member["hinges"], hinge])
+    return member
+
+
+def _random_vehicle(rng: np.random.Generator) -> Vehicle:
+    """1-7 axles of 2-40 kip at 4-30 ft; with two or more axles, a ranged gap four times in ten."""
     n_axles = int(rng.integers(1, 8))
     loads = np.round(rng.uniform(2.0, 40.0, n_axles), 1)
     lo = np.round(rng.uniform(4.0, 30.0, n_axles - 1), 2)
@@ -82,7 +100,7 @@ def _random_case(index: int) -> tuple[dict, Vehicle]:
         g = int(rng.integers(0, n_axles - 1))
         lo[g] = round(float(rng.uniform(4.0, 20.0)), 2)
         hi[g] = round(float(lo[g] + rng.uniform(2.0, 25.0)), 2)
-    return member, Vehicle(loads=loads, lo=lo, hi=hi)
+    return Vehicle(loads=loads, lo=lo, hi=hi)
 
 
 def _group_values(
@@ -321,3 +339,47 @@ def test_single_axle_extreme_with_a_hinge_just_left_of_a_station() -> None:
     scale = il.effect_scale
     assert np.all(np.abs(brute.extreme(1.0) - ax.max_value) <= REL_TOL_EXACT * scale)
     assert np.all(np.abs(brute.extreme(-1.0) - ax.min_value) <= REL_TOL_EXACT * scale)
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("index", range(N_FLEETS))
+def test_a_whole_fleet_in_one_call_matches_brute_force(index: int) -> None:
+    # A run hands a member's whole fleet to the compiled kernel at once: the rigid trains
+    # swept together, then every ranged train's rigid range ends and free chains. Each
+    # vehicle's row must hold the extremes the brute-force search finds for it alone
+    # (stepped and polished, see the module docstring; common practice), and where its
+    # spacings are fixed, its vehicle at the reported position and direction must give
+    # the reported value. A ranged vehicle's row must also equal the one-vehicle sweep's,
+    # whose reported spacing test_exact_extremes_match_brute_force checks.
+    rng = np.random.default_rng([SEED, N_CASES + index])
+    member = _random_member(rng)
+    fleet = [_random_vehicle(rng) for _ in range(FLEET_SIZE)]
+    il = influence_lines(**member)
+    cases = [
+        LoadCase(label=f"vehicle {i}", train=AxleTrain.of(v.loads, v.lo, v.hi))
+        for i, v in enumerate(fleet)
+    ]
+    found = fleet_extremes_of(il, cases)
+    for row, vehicle in enumerate(fleet):
+        brute = BruteForce(il, vehicle)
+        scale = il.effect_scale * vehicle.loads.sum()
+        alone = axle_extremes(il, AxleTrain.of(vehicle.loads, vehicle.lo, vehicle.hi))
+        row_extremes = AxleExtremes(
+            max_value=found.max_value[row],
+            max_position=found.max_position[row],
+            max_direction=found.max_direction[row],
+            max_spacing=np.tile(vehicle.lo, (il.n_effects, 1)),
+            min_value=found.min_value[row],
+            min_position=found.min_position[row],
+            min_direction=found.min_direction[row],
+            min_spacing=np.tile(vehicle.lo, (il.n_effects, 1)),
+        )
+        for sense, engine, one in (
+            (1.0, row_extremes.max_value, alone.max_value),
+            (-1.0, row_extremes.min_value, alone.min_value),
+        ):
+            assert np.all(np.abs(brute.extreme(sense) - engine) <= REL_TOL_EXACT * scale), row
+            assert np.all(np.abs(one - engine) <= REL_TOL_EXACT * scale), row
+            if np.all(vehicle.hi == vehicle.lo):
+                reproduced = _value_at_reported(il, vehicle, row_extremes, sense)
+                assert np.all(np.abs(reproduced - engine) <= REL_TOL_EXACT * scale), row
