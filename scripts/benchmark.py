@@ -188,18 +188,22 @@ def kernel_work(il: InfluenceLines, cases: list[LoadCase], found: FleetExtremes)
     in one direction, for every rigid way the kernel sweeps a train (a train
     with n ranged spacings is swept 3**n ways, each end of each range and
     free; a free one as its groups, which together have the train's axles).
+    Only the lines that need a sweep count: not one that is zero everywhere or
+    equals another (see ``SweepPlan``).
     Solves are the extremes ``found`` that lie between events, where a
     stationary point must be solved for at least once: a lower bound, counted
     for the rigid trains only.
     """
     breaks, counts, _ = il.reduced
+    plan = il.plan
+    swept_breaks = int((np.diff(plan.bundle_start) * plan.counts).sum())
     tol = POSITION_TOL * il.length
     line_events = 0
     solves = 0
     for row, case in enumerate(cases):
         train = case.train
         ranged = sum(hi > lo for lo, hi in zip(train.low, train.high, strict=True))
-        line_events += 2 * 3**ranged * len(train.loads) * int(counts.sum())
+        line_events += 2 * 3**ranged * len(train.loads) * swept_breaks
         if ranged:
             continue
         offsets = np.concatenate([[0.0], np.cumsum(train.low)])

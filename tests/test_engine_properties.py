@@ -340,6 +340,9 @@ def test_the_sweep_plan_rebuilds_every_line(member: Member, fractions: list[floa
                 jump = plan.jumps[r, : breaks.size]
                 terms = sum(jump[:, [c]] * t**c for c in range(4))
                 rebuilt[plan.order[r]] = np.where(t >= 0.0, terms, 0.0).sum(axis=0)
+        # A line equal to one swept takes its values; one not swept nor copied is zero.
+        for e, source in plan.copies:
+            rebuilt[e] = rebuilt[source]
         _assert_same(rebuilt, expected, il.effect_scale[:, None])
 
 

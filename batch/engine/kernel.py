@@ -71,6 +71,12 @@ class SweepPlan(NamedTuple):
     ``extra[u, :n_extra[u]]`` (each run ascending). The positions where axles
     cross the shared breaks are sorted once per train and direction, and only
     a bundle's own few are merged in.
+
+    Each line is swept once: of ``n_effects`` lines, one that equals an earlier
+    one (the moment at a support, at the end of one span and the start of the
+    next) is not swept but takes that line's extremes, ``copies[c]`` being
+    (effect, effect it equals); a line that is zero everywhere (the moment at
+    an end support) is neither swept nor copied: its extremes are zero.
     """
 
     order: NDArray[np.int64]
@@ -81,12 +87,24 @@ class SweepPlan(NamedTuple):
     shared: NDArray[np.float64]
     extra: NDArray[np.float64]
     n_extra: NDArray[np.int64]
+    copies: NDArray[np.int64]
+    n_effects: int
 
 
 def sweep_plan(
     breaks: NDArray[np.float64], counts: NDArray[np.int64], coef: NDArray[np.float64]
 ) -> SweepPlan:
     """Bundle the lines of a partition (``InfluenceLines.reduced`` layout) for the sweep."""
+    n_effects = breaks.shape[0]
+    same = np.concatenate([counts[:, None], breaks, coef.reshape(n_effects, -1)], axis=1)
+    _, first_equal, equal = np.unique(same, axis=0, return_index=True, return_inverse=True)
+    source = first_equal[equal.reshape(-1)]
+    zero = ~coef.reshape(n_effects, -1).any(axis=1)
+    swept = np.flatnonzero((source == np.arange(n_effects)) & ~zero)
+    if swept.size == 0:
+        swept = np.array([0])  # (no line but zeros: sweep one, which gives zeros)
+    copied = np.flatnonzero((source != np.arange(n_effects)) & ~zero)
+    breaks, counts, coef = breaks[swept], counts[swept], coef[swept]
     key = np.concatenate([counts[:, None].astype(float), breaks], axis=1)
     _, first, bundle = np.unique(key, axis=0, return_index=True, return_inverse=True)
     bundle = bundle.reshape(-1)
@@ -114,7 +132,7 @@ def sweep_plan(
         runs[bundle == u, : row.size] = np.concatenate([np.searchsorted(row, shared), own])
     lines = np.arange(breaks.shape[0])[:, None]
     return SweepPlan(
-        order=order,
+        order=swept[order].astype(np.int64),
         bundle_start=np.concatenate([[0], np.cumsum(sizes)]).astype(np.int64),
         breaks=np.ascontiguousarray(breaks[first[:, None], runs[first]]),
         counts=np.ascontiguousarray(counts[first]).astype(np.int64),
@@ -122,7 +140,23 @@ def sweep_plan(
         shared=shared[None, :],
         extra=extra,
         n_extra=n_extra,
+        copies=np.stack([copied, source[copied]], axis=1).astype(np.int64),
+        n_effects=n_effects,
     )
+
+
+@nb.njit(cache=True, inline="always")
+def _copy(plan: SweepPlan, out: Extremes) -> None:
+    """Every line that equals an earlier one takes its extremes (see :class:`SweepPlan`)."""
+    for c in range(plan.copies.shape[0]):
+        e, source = plan.copies[c, 0], plan.copies[c, 1]
+        for i in range(out[0].shape[0]):
+            out[0][i, e] = out[0][i, source]
+            out[1][i, e] = out[1][i, source]
+            out[2][i, e] = out[2][i, source]
+            out[3][i, e] = out[3][i, source]
+            out[4][i, e] = out[4][i, source]
+            out[5][i, e] = out[5][i, source]
 
 
 @nb.njit(cache=True, inline="always")
@@ -638,6 +672,7 @@ def fleet_extremes(
                     min_v[i, e] = line[2, r]
                     min_p[i, e] = line[3, r]
                     min_d[i, e] = np.int8(sigma)
+    _copy(plan, out)
 
 
 @nb.njit(cache=True, inline="always")
@@ -907,13 +942,21 @@ def chain_extremes(
         k_max = max(k_max, group_start[g + 1] - group_start[g])
     work = _sweeps(plan, k_max, n_groups, 11)
     join = _joins(work, n_groups)
-    n_eff = plan.order.size
-    out = (np.empty((2, n_eff)), np.full((2, n_eff), np.nan), np.zeros((2, n_eff, n_groups - 1)))
+    n_eff = plan.n_effects
+    out_v = np.empty((2, n_eff))
+    out_v[0] = -np.inf  # (what a line that is zero everywhere gives: nothing passes)
+    out_v[1] = np.inf
+    out = (out_v, np.full((2, n_eff), np.nan), np.zeros((2, n_eff, n_groups - 1)))
     _chain(
         plan, loads, offsets, group_start, gap_lo, gap_hi, sigma, tol, held_max, held_min,
         work, join, out,
     )  # fmt: skip
-    out_v, out_p, out_d = out
+    out_p, out_d = out[1], out[2]
+    for c in range(plan.copies.shape[0]):
+        e, source = plan.copies[c, 0], plan.copies[c, 1]
+        out_v[:, e] = out_v[:, source]
+        out_p[:, e] = out_p[:, source]
+        out_d[:, e] = out_d[:, source]
     return out_v[0], out_p[0], out_d[0], out_v[1], out_p[1], out_d[1]
 
 
@@ -952,7 +995,10 @@ def chain_fleet(
                 k_max = max(k_max, group_start[job, g + 1] - group_start[job, g])
     work = _sweeps(plan, k_max, most_groups, 11)
     join = _joins(work, most_groups)
-    found = (np.empty((2, n_eff)), np.full((2, n_eff), np.nan), np.zeros((2, n_eff, most_groups)))
+    found_v = np.empty((2, n_eff))
+    found_v[0] = -np.inf  # (lines not swept: nothing passes)
+    found_v[1] = np.inf
+    found = (found_v, np.full((2, n_eff), np.nan), np.zeros((2, n_eff, most_groups)))
     for job in range(job_row.size):
         a0 = job_start[job]
         n_groups = 0
@@ -977,6 +1023,7 @@ def chain_fleet(
                     min_v[i, e] = low[e]
                     min_p[i, e] = found[1][1, e]
                     min_d[i, e] = np.int8(sigma)
+    _copy(plan, out)
 
 
 @nb.njit(cache=True)
