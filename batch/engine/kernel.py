@@ -146,7 +146,7 @@ def sweep_plan(
 
 
 @nb.njit(cache=True, inline="always")
-def _copy(plan: SweepPlan, out: Extremes) -> None:
+def _copy(plan: SweepPlan, out: Governing) -> None:
     """Every line that equals an earlier one takes its extremes (see :class:`SweepPlan`)."""
     for c in range(plan.copies.shape[0]):
         e, source = plan.copies[c, 0], plan.copies[c, 1]
@@ -622,7 +622,7 @@ def fleet_extremes(
     keep: tuple[bool, bool],
     out: Governing,
 ) -> None:
-    """Governing of many rigid axle trains (fixed spacings) in one call, kept in ``out``.
+    """The governing extremes of many rigid axle trains (fixed spacings), kept in ``out``.
 
     Train i has axles ``case_start[i]:case_start[i + 1]`` of ``loads`` with
     ``offsets`` behind its front axle; every train is swept in each direction
