@@ -25,9 +25,12 @@ from __future__ import annotations
 
 import dataclasses
 import math
+from pathlib import Path
 
 import numpy as np
+import pandas as pd
 import pytest
+from openpyxl import load_workbook
 from tolerances import REL_TOL_EXACT, REL_TOL_FLOAT, REL_TOL_GRID, TABLE_TOL_2DP
 
 from batch.engine.envelope import case_effects, member_envelope
@@ -37,8 +40,15 @@ from batch.engine.moving import fleet_extremes_of
 from batch.loads import library
 from batch.loads.cases import LoadCase
 from batch.loads.factors import STANDARD_SPECIFICATIONS_IMPACT
-from batch.model import AxleTrain, Member
+from batch.loads.fleet import fleet_cases
+from batch.model import AxleTrain, Case, Member, Settings, Spacing, Vehicle
 from batch.model.units import KN_PER_KIP, M_PER_FT
+from batch.running.executor import RunOptions, run_case
+from batch.writing.columns import IMPACT
+from batch.writing.package.save import atomic_save
+from batch.writing.package.splice import SourcePackage, empty_package
+from batch.writing.results import result_package
+from batch.writing.runlog import InputInfo
 
 LANE = 0.64  # kip/ft, Fig. 3.7.6B (H20, HS20)
 MOMENT_LOAD = 18.0  # kip, concentrated load for moment
@@ -439,3 +449,93 @@ def test_hs20_in_an_si_run_is_the_us_one_converted() -> None:
         unit = KN_PER_KIP * (M_PER_FT if name.startswith("m") else 1.0)
         assert np.allclose(b.value, a.value * unit, rtol=REL_TOL_EXACT, atol=0.0)
         assert np.array_equal(a.case, b.case)
+
+
+@pytest.mark.parametrize("units", ["US", "SI"])
+def test_a_vehicles_row_may_follow_the_standard_specifications_impact(units) -> None:
+    # Vehicles, Impact = Standard Specifications: I = 50/(L + 125) <= 0.30 (L in ft, or
+    # the same length in m) on the row's axles and lane load alike, instead of the
+    # Settings' allowance (0.33 here) on its axles only. A 100 ft simple span: the end
+    # shear's loaded length is the span, I = 50 / 225 (hand arithmetic).
+    ft = 1.0 if units == "US" else M_PER_FT
+    kip = 1.0 if units == "US" else KN_PER_KIP
+    row = Vehicle(
+        id="KV-T3",
+        axle_loads=(10.0 * kip, 30.0 * kip),
+        spacings=(Spacing(low=14.0 * ft, high=14.0 * ft),),
+        lane_load=0.2 * kip / ft,
+    )
+    settings = Settings(units=units, impact=0.33)
+    member = Member(id="KV-S1", spans=(100.0 * ft,))
+    plain = member_envelope(member, fleet_cases((row,), settings), 1)
+    standard = dataclasses.replace(row, impact_rule="Standard Specifications")
+    env = member_envelope(member, fleet_cases((standard,), settings), 1)
+    axles = 40.0 - 10.0 * 14.0 / 100.0  # both axles on, the 30 kip one at the support
+    lane = 0.2 * 100.0 / 2.0
+    assert math.isclose(plain.v_max.value[0], (1.33 * axles + lane) * kip, rel_tol=REL_TOL_EXACT)
+    expected = (1 + 50.0 / 225.0) * (axles + lane) * kip
+    assert math.isclose(env.v_max.value[0], expected, rel_tol=REL_TOL_EXACT)
+
+
+# ---------------------------------------------------------------- the Impact sheet
+
+
+def _impact_sheet(tmp_path: Path, case: Case, options: RunOptions | None = None) -> list[dict]:
+    result = run_case(case, options=options)
+    info = InputInfo(name="case.json", digest="0" * 64, source="json", output="out.xlsx")
+    path = tmp_path / "out.xlsx"
+    atomic_save(result_package(SourcePackage(empty_package(), "out.xlsx"), result, info), path)
+    wb = load_workbook(path, read_only=True)
+    assert ("Impact" in wb.sheetnames) == any(
+        c.impact_formula is not None for c in result.load_cases
+    )
+    if "Impact" not in wb.sheetnames:
+        return []
+    values = list(wb["Impact"].iter_rows(values_only=True))
+    wb.close()
+    # One header row, then records: pandas reads it with its default arguments.
+    labels = case.settings.unit_labels
+    frame = pd.read_excel(path, sheet_name="Impact")
+    assert list(frame.columns) == [c.title(labels) for c in IMPACT.columns]
+    assert len(frame) == len(values) - 1
+    return [dict(zip(values[0], row, strict=True)) for row in values[1:]]
+
+
+@pytest.mark.parametrize("stored", [False, True], ids=["in memory", "through the store"])
+def test_impact_sheet_shows_the_loaded_length_and_impact_of_every_row(tmp_path, stored) -> None:
+    # Art. 3.8.2 as spanfleet reads it (batch/engine/impact.py): at the first pier of
+    # 50-80-60 ft spans, M min takes L = (50 + 80) / 2 = 65 ft, I = 50 / 190; an end
+    # reaction L = 50 ft, I = 50 / 175; V max at the left end of span 1, L = 50 ft.
+    member = Member(id="KV-20 G2", spans=(50.0, 80.0, 60.0))
+    case = Case(
+        settings=Settings(units="US", stations_per_span=10, impact=0.33),
+        members=(member,),
+        vehicles=(Vehicle(id="KV-HS20", library="HS20"), Vehicle(id="KV-T", axle_loads=(20.0,))),
+    )
+    options = RunOptions(store=tmp_path / "run.sqlite", key="KVHA test") if stored else None
+    rows = _impact_sheet(tmp_path, case, options)
+    il = influence_lines(member.spans, stations_per_span=10)
+    assert len(rows) == 4 * il.n_stations + 2 * il.support_x.size
+    by = {(r["Effect"], r["Span"], r["Station"], r["Support"]): r for r in rows}
+    pier = by["M min", 1, 1.0, None]
+    assert pier["Loaded length (ft)"] == 65.0
+    assert math.isclose(pier["Impact"], 50 / 190, rel_tol=REL_TOL_FLOAT)
+    end = by["R max", None, None, 1]
+    assert end["Loaded length (ft)"] == 50.0 and math.isclose(end["Impact"], 50 / 175)
+    shear = by["V max", 1, 0.0, None]
+    assert shear["Loaded length (ft)"] == 50.0
+    # Every row is the engine's own loaded length.
+    for_max, for_min = loaded_lengths(il)
+    m_min = [r["Loaded length (ft)"] for r in rows if r["Effect"] == "M min"]
+    assert np.array_equal(m_min, for_min[il.moment_rows])
+    r_max = [r["Loaded length (ft)"] for r in rows if r["Effect"] == "R max"]
+    assert np.array_equal(r_max, for_max[il.reaction_rows])
+
+
+def test_no_impact_sheet_without_the_standard_specifications(tmp_path) -> None:
+    case = Case(
+        settings=Settings(units="US", stations_per_span=4),
+        members=(Member(id="KV-20 G1", spans=(60.0,)),),
+        vehicles=(Vehicle(id="KV-HL", library="HL-93"),),
+    )
+    assert _impact_sheet(tmp_path, case) == []

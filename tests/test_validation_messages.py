@@ -739,6 +739,17 @@ WORKBOOK_CASES = [
         [("Vehicles", "C2", "library-with-lane-load", E)],
     ),
     (
+        # A library model sets its own impact (HS20: the Standard Specifications' formula).
+        "library-and-impact",
+        {"vehicles": [{"Vehicle": "KV-HS", "Library": "HS20", "Impact": "Settings"}]},
+        [("Vehicles", "C2", "library-with-impact", E)],
+    ),
+    (
+        "impact-rule-unknown",
+        {"vehicles": [V | {"Impact": "LRFD 33 %"}]},
+        [("Vehicles", "D2", "not-a-choice", E)],
+    ),
+    (
         "library-unknown",
         {"vehicles": [{"Vehicle": "KV-X", "Library": "KVHA-99"}]},
         [("Vehicles", "B2", "unknown-library", E)],

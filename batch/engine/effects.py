@@ -23,6 +23,7 @@ __all__ = [
     "TIE_REL_TOL",
     "Effect",
     "Governing",
+    "ImpactRows",
     "MemberEnvelope",
     "governing_row",
 ]
@@ -48,12 +49,30 @@ class Governing:
 
 
 @dataclass(frozen=True, kw_only=True)
+class ImpactRows:
+    """The Standard Specifications' impact of one effect and sense, row by row.
+
+    ``loaded_length`` is the loaded length L of the effect at each station or
+    support (length unit, :func:`batch.engine.impact.loaded_lengths`);
+    ``fraction`` the impact I = 50/(L + 125) <= 0.30 there (L in ft; the same
+    formula converted in an SI run), which every load case following that rule
+    includes in its value of the effect, on axles and lane load alike.
+    """
+
+    loaded_length: NDArray[np.float64]
+    fraction: NDArray[np.float64]
+
+
+@dataclass(frozen=True, kw_only=True)
 class MemberEnvelope:
     """Envelopes of one member: station rows (M, V) and support rows (R).
 
     ``labels`` names the load cases that ``Governing.case`` indexes. Station
     rows: ``station_span`` (from 1), ``station_fraction`` of the span and
-    ``station_x`` from the left end; support rows: ``support_x``.
+    ``station_x`` from the left end; support rows: ``support_x``. ``impact``
+    holds the Standard Specifications' impact of every effect, one
+    :class:`ImpactRows` per :data:`EFFECTS` entry in that order; None when no
+    load case of the run follows that rule.
     """
 
     member: str
@@ -68,6 +87,7 @@ class MemberEnvelope:
     v_min: Governing
     r_max: Governing
     r_min: Governing
+    impact: tuple[ImpactRows, ...] | None = None
 
 
 #: Two candidate governing values (load cases at one station, or stations of one member)

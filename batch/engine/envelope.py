@@ -27,7 +27,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import NDArray
 
-from batch.engine.effects import TIE_REL_TOL, Governing, MemberEnvelope
+from batch.engine.effects import EFFECTS, TIE_REL_TOL, Governing, ImpactRows, MemberEnvelope
 from batch.engine.impact import impact_fraction, loaded_lengths
 from batch.engine.influence import InfluenceLines, SpanExtremes, influence_lines
 from batch.engine.moving import (
@@ -121,7 +121,10 @@ class CaseEffects(FleetExtremes):
     a value is (1 + I) times the static one). ``max_loaded_length`` and
     ``min_loaded_length`` (n_effects,) are the loaded lengths of the Standard
     Specifications for every effect (:func:`batch.engine.impact.loaded_lengths`),
-    member length unit, whether or not a case uses them.
+    member length unit, whether or not a case uses them. ``standard_impact`` is
+    (for the max, for the min) the impact formula's value at those lengths,
+    (n_effects,) each, for the first case with an impact formula; None when no
+    case has one.
 
     ``*_axle`` and ``*_lane`` are the two static parts of each value, before the
     distribution factor and any allowance, the case's factor included:
@@ -140,6 +143,7 @@ class CaseEffects(FleetExtremes):
     max_lane: NDArray[np.float64]
     min_axle: NDArray[np.float64]
     min_lane: NDArray[np.float64]
+    standard_impact: tuple[NDArray[np.float64], NDArray[np.float64]] | None
 
 
 def case_effects(
@@ -232,7 +236,18 @@ def case_effects(
         max_lane=out["max"][4],
         min_axle=out["min"][3],
         min_lane=out["min"][4],
+        standard_impact=_standard_impact(cases, lengths),
     )
+
+
+def _standard_impact(
+    cases: Sequence[LoadCase], lengths: tuple[NDArray[np.float64], NDArray[np.float64]]
+) -> tuple[NDArray[np.float64], NDArray[np.float64]] | None:
+    """The first impact formula of ``cases`` at each effect's loaded length, or None."""
+    formula = next((c.impact_formula for c in cases if c.impact_formula is not None), None)
+    if formula is None:
+        return None
+    return impact_fraction(formula, lengths[0]), impact_fraction(formula, lengths[1])
 
 
 def _distribution(
@@ -414,6 +429,19 @@ def envelope_of(
         v, c, p, d = best[sense]
         return Governing(value=v[part], case=c[part], position=p[part], direction=d[part])
 
+    impact = None
+    if effects.standard_impact is not None:
+        lengths = {"max": effects.max_loaded_length, "min": effects.min_loaded_length}
+        fraction = dict(zip(("max", "min"), effects.standard_impact, strict=True))
+        part = {"m": il.moment_rows, "v": il.shear_rows, "r": il.reaction_rows}
+        impact = tuple(  # attr "m_max": rows of moments, sense max
+            ImpactRows(
+                loaded_length=lengths[e.attr[2:]][part[e.attr[0]]],
+                fraction=fraction[e.attr[2:]][part[e.attr[0]]],
+            )
+            for e in EFFECTS
+        )
+
     return MemberEnvelope(
         member=member_id,
         labels=labels,
@@ -427,6 +455,7 @@ def envelope_of(
         v_min=pick("min", il.shear_rows),
         r_max=pick("max", il.reaction_rows),
         r_min=pick("min", il.reaction_rows),
+        impact=impact,
     )
 
 

@@ -6,7 +6,9 @@ import dataclasses
 
 from batch.loads import library
 from batch.loads.cases import LoadCase
+from batch.loads.factors import STANDARD_SPECIFICATIONS_IMPACT
 from batch.model import Settings, Vehicle
+from batch.model.units import conversion
 
 __all__ = ["fleet_cases"]
 
@@ -25,12 +27,19 @@ def _vehicle_cases(vehicle: Vehicle, index: int, settings: Settings) -> list[Loa
             )
             for part in parts
         ]
+    standard = vehicle.impact_rule == "Standard Specifications"
     return [
         LoadCase(
             label=vehicle.id,
             train=vehicle.train,
             lane_load=vehicle.lane_load,
-            impact=settings.impact,
+            impact=0.0 if standard else settings.impact,
+            # The formula's lengths are in ft: scaled exactly to the run's length unit.
+            impact_formula=STANDARD_SPECIFICATIONS_IMPACT.scaled(
+                conversion("US", settings.units).length
+            )
+            if standard
+            else None,
             factor=vehicle.factor,
             vehicle=index,
         )

@@ -32,10 +32,12 @@ from batch.model.units import UNIT_LABELS, UnitSystem
 Directions = Literal["both", "left-to-right", "right-to-left"]
 Category = Literal["design", "legal", "permit"]
 Haunch = Literal["none", "linear", "parabolic"]
+ImpactRule = Literal["Settings", "Standard Specifications"]
 
 DIRECTIONS: tuple[str, ...] = get_args(Directions)
 CATEGORIES: tuple[str, ...] = get_args(Category)
 HAUNCHES: tuple[str, ...] = get_args(Haunch)
+IMPACT_RULES: tuple[str, ...] = get_args(ImpactRule)
 
 # Per-bridge traffic and per-vehicle crossings (rating): the MBE's categories, in its words.
 #: Riding surface of a bridge, for the dynamic load allowance of legal loads (MBE C6A.4.4.3).
@@ -727,7 +729,8 @@ class Vehicle:
     gap between consecutive axles. ``lane_load`` (force per length) is placed on
     the adverse parts of each influence line, with no dynamic allowance.
     ``factor`` multiplies every effect of the row. ``library`` names a built-in
-    load model instead of the axle columns.
+    load model instead of the axle columns. ``impact_rule`` picks the row's impact
+    (None: the Settings' allowance, or the library model's own).
     """
 
     id: str = column(
@@ -763,7 +766,8 @@ class Vehicle:
         default=0.0,
         quantity="line_load",
         minimum=0.0,
-        meaning="Uniform load placed on the adverse parts of the member, no dynamic allowance.",
+        meaning="Uniform load placed on the adverse parts of the member, no dynamic allowance "
+        "(unless Impact is Standard Specifications).",
     )
     factor: float = column(
         "Load multiplier",
@@ -796,6 +800,17 @@ class Vehicle:
         default="",
         meaning="Free text.",
         example="EXAMPLE, replace or delete: KVHA 3-axle permit truck",
+    )
+    impact_rule: ImpactRule | None = column(
+        "Impact",
+        "choice",
+        default=None,
+        choices=IMPACT_RULES,
+        meaning="The row's impact. Blank or Settings: the Settings' Dynamic load allowance, on "
+        "the axles only. Standard Specifications: I = 50/(L + 125) <= 0.30, L in ft the "
+        "loaded length spanfleet finds for each station and effect, on the axles and the lane "
+        "load alike (AASHTO Standard Specifications, Art. 3.8; the Impact sheet shows L and "
+        "I). A Library row takes its model's own: leave it blank.",
     )
 
     permit_type: PermitType | None = column(

@@ -55,7 +55,7 @@ from typing import Any, TypeVar, overload
 import numpy as np
 from numpy.typing import NDArray
 
-from batch.engine.effects import Governing, MemberEnvelope
+from batch.engine.effects import Governing, ImpactRows, MemberEnvelope
 from batch.engine.fatigue import FatigueRanges
 from batch.rating.assess import MemberAssessment
 from batch.rating.lrfr import MemberDeadLoads, MemberRating
@@ -285,8 +285,9 @@ def _unpack_fatigue(blob: bytes | None) -> FatigueRanges | None:
 
 
 #: Each envelope array in the order it is stored, with its stored type: first the
-#: layout, then per effect family and sense value, case and position; the one-byte
-#: directions last (so every wider array stays aligned).
+#: layout, then per effect family and sense value, case and position; then, for a run
+#: with the Standard Specifications' impact, its loaded length and fraction per effect
+#: (:data:`_IMPACT`); the one-byte directions last (so every wider array stays aligned).
 _ARRAYS: tuple[tuple[str, str, type[np.generic]], ...] = (
     ("", "station_span", np.int64),
     ("", "station_fraction", np.float64),
@@ -297,19 +298,40 @@ _ARRAYS: tuple[tuple[str, str, type[np.generic]], ...] = (
         for name in _EXTREMES
         for field, kind in (("value", np.float64), ("case", np.int64), ("position", np.float64))
     ),
-    *((name, "direction", np.int8) for name in _EXTREMES),
 )
+_DIRECTIONS: tuple[tuple[str, str, type[np.generic]], ...] = tuple(
+    (name, "direction", np.int8) for name in _EXTREMES
+)
+#: The impact rows, stored as ("impact k", field): k indexes EFFECTS, whose attributes
+#: _EXTREMES lists in the same order.
+_IMPACT: tuple[tuple[str, str, type[np.generic]], ...] = tuple(
+    (f"impact {k}", field, np.float64)
+    for k in range(len(_EXTREMES))
+    for field in ("loaded_length", "fraction")
+)
+
+
+def _stored(with_impact: bool) -> tuple[tuple[str, str, type[np.generic]], ...]:
+    """The arrays of a stored envelope, in order (see :data:`_ARRAYS`)."""
+    return (*_ARRAYS, *(_IMPACT if with_impact else ()), *_DIRECTIONS)
 
 
 def _pack(env: MemberEnvelope) -> bytes:
     """An envelope as raw little-endian arrays behind a count of stations and supports.
 
-    Decoding is a handful of ``np.frombuffer`` views, fast enough to stream
-    every member back to the writer for each result sheet.
+    The header holds the number of stations, of supports, and 1 when the
+    envelope has the Standard Specifications' impact rows (else 0). Decoding is
+    a handful of ``np.frombuffer`` views, fast enough to stream every member back
+    to the writer for each result sheet.
     """
-    parts = [np.array([env.station_x.size, env.support_x.size], "<i8").tobytes()]
-    for name, field, kind in _ARRAYS:
-        array = getattr(getattr(env, name), field) if name else getattr(env, field)
+    impact = env.impact or ()
+    header = [env.station_x.size, env.support_x.size, int(env.impact is not None)]
+    parts = [np.array(header, "<i8").tobytes()]
+    for name, field, kind in _stored(env.impact is not None):
+        if name.startswith("impact "):
+            array = getattr(impact[int(name.split()[1])], field)
+        else:
+            array = getattr(getattr(env, name), field) if name else getattr(env, field)
         parts.append(np.ascontiguousarray(array, np.dtype(kind).newbyteorder("<")).tobytes())
     return b"".join(parts)
 
@@ -317,11 +339,16 @@ def _pack(env: MemberEnvelope) -> bytes:
 def _unpack(member: str, blob: bytes | None, labels: tuple[str, ...]) -> MemberEnvelope:
     if blob is None:
         raise ValueError(f"member {member!r} has no stored results")
-    n_stations, n_supports = (int(n) for n in np.frombuffer(blob, "<i8", 2))
-    offset = 16
+    if len(blob) < 24:
+        raise ValueError(f"member {member!r}'s stored results are cut short")
+    n_stations, n_supports, has_impact = (int(n) for n in np.frombuffer(blob, "<i8", 3))
+    offset = 24
     arrays: dict[tuple[str, str], Any] = {}
-    for name, field, kind in _ARRAYS:
-        count = n_supports if name.startswith("r_") or field == "support_x" else n_stations
+    for name, field, kind in _stored(has_impact == 1):
+        by_support = name.startswith("r_") or field == "support_x"
+        if name.startswith("impact "):
+            by_support = _EXTREMES[int(name.split()[1])].startswith("r_")
+        count = n_supports if by_support else n_stations
         dtype = np.dtype(kind).newbyteorder("<")
         if offset + count * dtype.itemsize > len(blob):
             raise ValueError(f"member {member!r}'s stored results are cut short")
@@ -338,11 +365,21 @@ def _unpack(member: str, blob: bytes | None, labels: tuple[str, ...]) -> MemberE
         )
         for name in _EXTREMES
     }
+    impact = None
+    if has_impact == 1:
+        impact = tuple(
+            ImpactRows(
+                loaded_length=arrays[f"impact {k}", "loaded_length"],
+                fraction=arrays[f"impact {k}", "fraction"],
+            )
+            for k in range(len(_EXTREMES))
+        )
     return MemberEnvelope(
         member=member,
         labels=labels,
         **{field: arrays["", field] for _, field, _ in _ARRAYS[:4]},
         **extremes,
+        impact=impact,
     )
 
 

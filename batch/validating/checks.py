@@ -341,7 +341,10 @@ def _library_known(name: str) -> bool:
 
 def _vehicle(v: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[_Found]:
     name = v.get("library")
-    has = {k: k in v or not cx.ok((*at, k)) for k in ("axle_loads", "spacings", "lane_load")}
+    has = {
+        k: k in v or not cx.ok((*at, k))
+        for k in ("axle_loads", "spacings", "lane_load", "impact_rule")
+    }
     # A lane load of 0 says "no lane load of my own", which a library row may say too.
     has["lane_load"] = has["lane_load"] and finite_number(v.get("lane_load")) != 0
     if isinstance(name, str) and cx.ok((*at, "library")):
@@ -388,6 +391,14 @@ def _library(name: str, has: dict[str, bool], at: DocPath) -> Iterator[_Found]:
             f"the library model {name!r} sets its own lane loading (if it has one), so this "
             "Lane load would be ignored; clear it, or give your own axles instead of a "
             "Library name",
+            "error",
+        )
+    if has["impact_rule"]:
+        yield (
+            (*at, "impact_rule"),
+            "library-with-impact",
+            f"the library model {name!r} sets its own impact, so this Impact would be "
+            "ignored; clear it, or give your own axles instead of a Library name",
             "error",
         )
     if not _library_known(name):

@@ -60,6 +60,7 @@ __all__ = [
     "ENVELOPES",
     "FATIGUE",
     "GOVERNING",
+    "IMPACT",
     "POSTINGS",
     "RATINGS",
     "RATINGS_SUMMARY",
@@ -360,6 +361,122 @@ GOVERNING: ResultTable[MemberEnvelope] = ResultTable(
             meaning="Member id.",
         ),
         *(col for e in EFFECTS for col in _governing_columns(e)),
+    ),
+)
+
+
+# ---------------------------------------------------------------- impact
+
+
+def _impact_cells(get: Callable[[MemberEnvelope, int, Effect, int], object]) -> Values:
+    """A column of the Impact sheet: ``get(envelope, effect index, effect, row)`` per row.
+
+    A member's rows are every effect of :data:`EFFECTS` in order, each at every
+    station (moments, shears) or support (reactions).
+    """
+
+    def values(env: MemberEnvelope) -> list[object]:
+        return [
+            get(env, k, e, i) for k, e in enumerate(EFFECTS) for i in range(_row_count(e.rows, env))
+        ]
+
+    return values
+
+
+def _impact_of(env: MemberEnvelope, k: int, field: str, i: int) -> float | None:
+    rows = env.impact[k] if env.impact is not None else None
+    return None if rows is None else float(getattr(rows, field)[i])
+
+
+def _has_standard_impact(result: RunResult) -> bool:
+    return any(c.impact_formula is not None for c in result.load_cases)
+
+
+IMPACT: ResultTable[MemberEnvelope] = ResultTable(
+    sheet="Impact",
+    purpose="One row per member, effect and station or support: the loaded length L and the "
+    "impact I = 50/(L + 125) <= 0.30 (L in ft) of the AASHTO Standard Specifications, Art. "
+    "3.8, which every load case following that rule (the H and HS models; Vehicles rows "
+    "with Impact Standard Specifications) includes on its axles and lane load. L: the span "
+    "for M max; for M min the average of the two spans beside an interior support between "
+    "it and its point of contraflexure under a uniform load, else the span; for V max the "
+    "station to its span's right end, for V min its span's left end to the station; for "
+    "reactions the span beside an end support, the average of the two beside an interior "
+    "one.",
+    blocks=lambda result: result.envelopes,
+    rows=lambda result: 4 * result.n_stations + 2 * result.n_supports,
+    wanted=_has_standard_impact,
+    frozen_columns=2,
+    columns=(
+        ResultColumn(
+            header="Member",
+            width=16,
+            values=_impact_cells(lambda env, _k, _e, _i: env.member),
+            text=True,
+            meaning="Member id.",
+        ),
+        ResultColumn(
+            header="Effect",
+            width=8,
+            values=_impact_cells(lambda _env, _k, e, _i: e.name),
+            text=True,
+            meaning="The effect and sense: M max, M min, V max, V min, R max or R min.",
+        ),
+        ResultColumn(
+            header="Span",
+            number_format=FORMAT_WHOLE,
+            width=6,
+            values=_impact_cells(
+                lambda env, _k, e, i: int(env.station_span[i]) if e.rows == "station" else None
+            ),
+            meaning="Span number of the station, from 1 at the left end (moments, shears).",
+        ),
+        ResultColumn(
+            header="Station",
+            number_format=FORMAT_FRACTION,
+            width=8,
+            values=_impact_cells(
+                lambda env, _k, e, i: (
+                    float(env.station_fraction[i]) if e.rows == "station" else None
+                )
+            ),
+            meaning="Fraction of the span of the station (moments, shears).",
+        ),
+        ResultColumn(
+            header="Support",
+            number_format=FORMAT_WHOLE,
+            width=8,
+            values=_impact_cells(lambda _env, _k, e, i: i + 1 if e.rows == "support" else None),
+            meaning="Support number, 1 = the left end (reactions).",
+        ),
+        ResultColumn(
+            header="x",
+            quantity="length",
+            number_format=FORMAT_VALUE,
+            width=9,
+            values=_impact_cells(
+                lambda env, _k, e, i: float(
+                    env.station_x[i] if e.rows == "station" else env.support_x[i]
+                )
+            ),
+            meaning="Distance from the member's left end.",
+        ),
+        ResultColumn(
+            header="Loaded length",
+            quantity="length",
+            number_format=FORMAT_VALUE,
+            width=13,
+            values=_impact_cells(lambda env, k, _e, i: _impact_of(env, k, "loaded_length", i)),
+            meaning="The loaded length L of the effect here (see the sheet's purpose).",
+        ),
+        ResultColumn(
+            header="Impact",
+            number_format=FORMAT_FRACTION,
+            width=8,
+            values=_impact_cells(lambda env, k, _e, i: _impact_of(env, k, "fraction", i)),
+            meaning="I = 50/(L + 125) <= 0.30, L in ft (the same in metres in an SI run), as a "
+            "fraction: the value of the effect is (1 + I) times its static value.",
+        ),
     ),
 )
 
@@ -1599,6 +1716,7 @@ RESULT_TABLES: tuple[AnyTable, ...] = (
     ENVELOPES,
     REACTIONS,
     GOVERNING,
+    IMPACT,
     FATIGUE,
     VEHICLE_SUMMARY,
     RATINGS,
