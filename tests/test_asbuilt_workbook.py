@@ -1,14 +1,20 @@
-"""Members as built, from a workbook: the Segments sheet reaches the model and the engine.
+"""Members as built, from a workbook: the Segments and Analysis sheets reach the model,
+the engine and the result sheets.
 
-Reference: the workbook contract as documented in docs/workbook.md (the Segments
-sheet: Member, From, To, EI, EI at To, Haunch, Pieces); the engine's own exactness
-is shown in tests/test_engine_segments.py.
+Reference: the workbook format as documented in docs/workbook.md (Segments, Analysis,
+Deflections, Deflection Check); the engine's own exactness is shown in
+tests/test_engine_segments.py and tests/test_engine_deflection.py.
 """
 
 from __future__ import annotations
 
-import numpy as np
+import subprocess
+import sys
 
+import numpy as np
+import pandas as pd
+
+from batch.engine.deflection import member_deflection
 from batch.engine.envelope import member_influence
 from batch.engine.influence import influence_lines
 from batch.validating import read_input
@@ -63,3 +69,48 @@ def test_an_analysis_row_reaches_its_member(make_workbook, tmp_path) -> None:
     assert member.stations_per_span == 16
     assert (member.analysis.ei_scale, member.analysis.df_deflection) == (2.9e9, 0.55)
     assert member_influence(member, 10).n_stations == 2 * 17
+
+
+def _run(*args: str) -> subprocess.CompletedProcess[str]:
+    return subprocess.run(
+        [sys.executable, "-m", "batch", *args],
+        capture_output=True,
+        text=True,
+        timeout=300,
+        check=False,
+    )
+
+
+def test_deflection_sheets_through_the_command(make_workbook, tmp_path) -> None:
+    # The sheets hold the engine's deflections of the same member (read back from the
+    # checkpoint store), and the run without a store writes the same numbers.
+    book = make_workbook(
+        tmp_path,
+        members=[
+            {"Member": "KV-0705 G2", "Spans (ft)": "70, 70", "DF moment": 0.6},
+            {"Member": "KV-0101 G1", "Spans (ft)": "60"},
+        ],
+        vehicles=[{"Vehicle": "HL-93", "Library": "HL-93"}],
+        extra={
+            "Analysis": [
+                ["Member", "EI scale (kip-in2)", "Deflection limit", "DF deflection"],
+                ["KV-0705 G2", 1.2e9, 1000, 0.45],
+            ]
+        },
+    )
+    with_store, without = tmp_path / "a.xlsx", tmp_path / "b.xlsx"
+    assert _run("run", str(book), "--out", str(with_store)).returncode == 0
+    assert _run("run", str(book), "--out", str(without), "--no-store").returncode == 0
+    case = read_input(book).case
+    assert case is not None
+    expected = member_deflection(case.members[0], case.settings)
+    assert expected is not None
+    for out in (with_store, without):
+        sheets = pd.read_excel(out, sheet_name=["Deflections", "Deflection Check"])
+        rows, check = sheets["Deflections"], sheets["Deflection Check"]
+        assert set(rows["Member"]) == {"KV-0705 G2"}  # the other member gives no EI scale
+        np.testing.assert_allclose(rows["Deflection down (in)"], expected.down.value, rtol=1e-12)
+        np.testing.assert_allclose(rows["Deflection up (in)"], expected.up.value, rtol=1e-12)
+        assert list(check["Limit"]) == [1000, 1000]
+        np.testing.assert_allclose(check["Span/deflection"], expected.span_ratio, rtol=1e-12)
+        assert list(check["DF from"]) == ["DF deflection"] * 2

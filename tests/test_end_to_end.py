@@ -25,8 +25,9 @@ import pytest
 from tolerances import REL_TOL_EXACT
 
 from batch.engine.effects import EFFECTS
-from batch.engine.envelope import member_envelope
+from batch.engine.envelope import member_envelope, member_influence
 from batch.loads.fleet import fleet_cases
+from batch.rating.assess import AssessmentPlan
 from batch.validating import read_input
 from batch.writing.columns import direction_text
 
@@ -52,9 +53,13 @@ def _assert_matches_engine(input_path: Path, results: Path) -> None:
     env_df, react_df, gov_df = sheets["Envelopes"], sheets["Reactions"], sheets["Governing"]
     cases = fleet_cases(case.vehicles, case.settings)
     n_env = n_react = 0
+    plan = AssessmentPlan.of(case)
     for k, member in enumerate(case.members):
+        # Rated sections off the grid are stations of the run's envelope too.
+        sections = () if plan is None else plan.sections(member)
+        il = member_influence(member, case.settings.stations_per_span, sections)
         env = member_envelope(
-            member, cases, case.settings.stations_per_span, case.settings.directions
+            member, cases, case.settings.stations_per_span, case.settings.directions, il=il
         )
         rows = {
             "station": env_df[env_df["Member"] == member.id],

@@ -296,16 +296,17 @@ def test_without_bridges_or_permit_types_the_run_rates_as_before():
     for member, assessment in zip(case.members, result.assessments, strict=True):
         if assessment.rating is None:
             continue
-        il = member_influence(member, n)
-        dc, dw = dead_load_effects(il, member.dc_load), dead_load_effects(il, member.dw_load)
         rows = [c for c in case.capacities if c.member == member.id]
+        sections = [s for c in rows if (s := c.section(member.spans)) is not None]
+        il = member_influence(member, n, sections)  # rated sections off the grid included
+        dc, dw = dead_load_effects(il, member.dc_load), dead_load_effects(il, member.dw_load)
         for v, vehicle in enumerate(case.vehicles):
-            env = member_envelope(member, [c for c in cases if c.vehicle == v], n)
+            env = member_envelope(member, [c for c in cases if c.vehicle == v], n, il=il)
             phi_m = max(member.condition_factor * member.system_factor, 0.85)
             phi_v = member.condition_factor
             found = []
             for cap in rows:
-                i = (cap.span - 1) * (n + 1) + round(cap.station * n)
+                i = il.station_index(cap.section(member.spans))
                 s = il.n_stations + i
                 tries = [
                     (phi_m * (cap.resistance_m_pos or np.nan), dc[i], dw[i], env.m_max.value[i]),
@@ -332,7 +333,8 @@ def test_a_bridge_with_nothing_to_say_changes_no_design_rating():
     plans = [AssessmentPlan.of(c) for c in (before, with_bridges)]
     cases = fleet_cases(design, before.settings)
     for m0, m1 in zip(before.members, with_bridges.members, strict=True):
-        effects = case_effects(m0, cases, 10)
+        il = member_influence(m0, 10, plans[0].sections(m0) if plans[0] else ())
+        effects = case_effects(m0, cases, 10, il=il)
         a, b = (assess_member(m, effects, cases, p) for m, p in zip((m0, m1), plans, strict=True))
         if a.rating is not None and b.rating is not None:
             assert np.array_equal(a.rating.rf, b.rating.rf)

@@ -25,6 +25,8 @@ import pytest
 
 from batch.command.cli import EXIT_OK, EXIT_PROBLEMS, main
 from batch.demo.kvha import KVHA_INVENTORY
+from batch.engine.envelope import member_influence
+from batch.rating.assess import AssessmentPlan
 from batch.reporting.report import REPORT_TITLE, REVIEW_FIELDS
 from batch.writing.cautions import CAUTIONS
 
@@ -96,8 +98,14 @@ def test_pages_are_numbered_and_the_cover_has_the_review_and_seal_block(report) 
 def test_each_member_has_its_envelope_plots(report) -> None:
     _, pages = report
     members = {m.id for m in KVHA_INVENTORY.members}
+    # Each member's stations: its grid (its own Stations per span, else the setting's) and
+    # any rated section off the grid.
+    plan = AssessmentPlan.of(KVHA_INVENTORY)
+    assert plan is not None
     stations = {
-        m.id: len(m.spans) * (KVHA_INVENTORY.settings.stations_per_span + 1)
+        m.id: member_influence(
+            m, KVHA_INVENTORY.settings.stations_per_span, plan.sections(m)
+        ).n_stations
         for m in KVHA_INVENTORY.members
     }
     plotted = set()

@@ -4,9 +4,11 @@ Every bridge, member id, vehicle and number here is invented for demonstration
 and testing; none describes a real structure or a real legal or permit load.
 Two cases, both as :class:`batch.model.Case`:
 
-* :data:`KVHA_INVENTORY`, US units (kip, ft): 23 girder lines (simple spans,
+* :data:`KVHA_INVENTORY`, US units (kip, ft): 25 girder lines (simple spans,
   two- to four-span continuous members with unequal spans and stiffnesses,
-  and hinged cantilever-and-suspended-span layouts) and 12 vehicles of 2 to
+  hinged cantilever-and-suspended-span layouts, a plate girder with cover
+  plates over its pier whose live-load deflection is checked and which is rated
+  at sections off the grid, and a girder haunched over its piers) and 12 vehicles of 2 to
   9 axles, some with ranged spacings or lane loads; factored resistances at a
   few stations of five members (Capacities), among them a deteriorated girder
   that legal loads must be posted for and a two-girder span that does not
@@ -15,7 +17,8 @@ Two cases, both as :class:`batch.model.Case`:
   (routine, single-trip escorted at crawl speed, single-trip, multiple-trip);
   and the KVHA design truck as the screening reference.
 * :data:`KVHA_SI_DEMO`, SI units (kN, m): a few members and vehicles to show
-  the metric path end to end, with resistances at a few stations of two members.
+  the metric path end to end, with resistances at a few stations of two members
+  and the live-load deflection of one (in mm).
 
 :data:`SAMPLE_WORKBOOKS` names the workbook file of each case (written by
 ``scripts/generate.py`` into ``sample_workbooks/``).
@@ -24,12 +27,14 @@ Two cases, both as :class:`batch.model.Case`:
 from __future__ import annotations
 
 from batch.model import (
+    Analysis,
     Bridge,
     Capacity,
     Case,
     Category,
     Member,
     PermitType,
+    Segment,
     Settings,
     Spacing,
     Vehicle,
@@ -52,11 +57,14 @@ def _member(
     factors: tuple[float, float] = (1.0, 1.0),
     bridge: str | None = None,
     one_lane: tuple[float, float] | None = None,
+    segments: tuple[tuple[float, float, float, float | None, str], ...] = (),
+    analysis: Analysis | None = None,
 ) -> Member:
     """A member; ``df`` is (moment, shear), ``dead`` (DC, DW), ``factors`` (condition, system).
 
     ``bridge`` names its Bridges row; ``one_lane`` its one-lane DFs (moment, shear) as
-    AASHTO LRFD gives them, 1.2 included.
+    AASHTO LRFD gives them, 1.2 included; ``segments`` are Segments rows (From, To, EI,
+    EI at To, Haunch).
     """
     return Member(
         id=id,
@@ -73,6 +81,11 @@ def _member(
         bridge=bridge,
         df_moment_single=None if one_lane is None else one_lane[0],
         df_shear_single=None if one_lane is None else one_lane[1],
+        segments=tuple(
+            Segment(member=id, start=a, end=b, ei=ei, ei_end=end, haunch=shape)  # type: ignore[arg-type]
+            for a, b, ei, end, shape in segments
+        ),
+        analysis=analysis,
     )
 
 
@@ -155,6 +168,15 @@ _US_MEMBERS = (
             df=(0.6, 0.71), dead=(1.05, 0.17)),
     _member("KV-0711 G1", (90.0, 110.0), "Sedge Marsh bridge, girder 1, deeper over the pier",
             df=(0.69, 0.63), dead=(1.38, 0.22), span_ei=(1.0, 1.25)),
+    # As built: a plate girder with cover plates over the pier (Segments), its live-load
+    # deflection checked (Analysis: E 29,000 ksi x I 62,000 in4; DF deflection = 3 lanes x
+    # 0.85 / 6 girders), rated at the cover-plate end, a section off the grid (Capacities).
+    _member("KV-0725 G3", (85.0, 85.0),
+            "Bittern Creek bridge, plate girder 3: cover plates from 66.5 to 103.5 ft",
+            df=(0.64, 0.7), dead=(1.25, 0.2), one_lane=(0.45, 0.58),
+            segments=((66.5, 103.5, 1.45, None, "none"),),
+            analysis=Analysis(member="KV-0725 G3", ei_scale=1.798e9, df_deflection=0.425,
+                              description="E 29,000 ksi x I 62,000 in4 (bare girder)")),
     # Three-span continuous.
     _member("KV-0803 G2", (40.0, 52.0, 40.0), "Orchard Road overpass, girder 2",
             df=(0.55, 0.65), dead=(0.9, 0.15)),
@@ -162,6 +184,16 @@ _US_MEMBERS = (
             df=(0.66, 0.61), dead=(1.15, 0.18), span_ei=(1.0, 1.5, 1.0)),
     _member("KV-0815 G3", (85.0, 120.0, 95.0), "Kestrel River bridge, girder 3",
             df=(0.58, 0.68), dead=(1.48, 0.23), span_ei=(1.0, 1.8, 1.1)),
+    # As built: parabolic haunches over both piers, 1.4 times deeper there (EI 2.744 times),
+    # cut into prismatic pieces (Segments); 15 stations per span (Analysis).
+    _member("KV-0818 G2", (60.0, 75.0, 60.0),
+            "Harlow Creek viaduct, girder 2: parabolic haunches over the piers",
+            df=(0.66, 0.61), dead=(1.2, 0.18),
+            segments=((46.0, 60.0, 1.0, 2.744, "parabolic"),
+                      (60.0, 74.0, 2.744, 1.0, "parabolic"),
+                      (121.0, 135.0, 1.0, 2.744, "parabolic"),
+                      (135.0, 149.0, 2.744, 1.0, "parabolic")),
+            analysis=Analysis(member="KV-0818 G2", stations_per_span=15)),
     # Four-span continuous.
     _member("KV-0902 G2", (45.0, 60.0, 60.0, 45.0), "Brackenfield interchange, girder 2",
             df=(0.6, 0.7), dead=(1.0, 0.17)),
@@ -239,6 +271,10 @@ _US_CAPACITIES = (
         (2, 0.6, 2400.0, None, 230.0),
     ),
     *_capacities("KV-1001 G2", (1, 1.0, None, 7000.0, 300.0), (2, 0.5, 2700.0, None, 150.0)),
+    # Sections off the grid, by x: the cover-plate end (the bare girder's resistances) and
+    # the shear section 3.5 ft from the end support.
+    Capacity(member="KV-0725 G3", x=66.5, resistance_m_pos=3300.0, resistance_m_neg=2900.0),
+    Capacity(member="KV-0725 G3", x=3.5, resistance_v=260.0),
 )  # fmt: skip
 
 # Invented traffic: each rated bridge has its own ADTT (one direction) and riding surface,
@@ -280,7 +316,9 @@ KVHA_SI_DEMO = Case(
         _member("KV-M01 G1", (18.0,), "Larchmere Lane bridge, girder 1",
                 df=(0.6, 0.68), dead=(14.5, 2.4), bridge="KV-M01"),
         _member("KV-M02 G2", (24.0, 30.0), "Redshank Lane bridge, girder 2",
-                df=(0.62, 0.7), dead=(17.0, 2.8), bridge="KV-M02"),
+                df=(0.62, 0.7), dead=(17.0, 2.8), bridge="KV-M02",
+                analysis=Analysis(member="KV-M02 G2", ei_scale=7.0e6, df_deflection=0.45,
+                                  description="E 200,000,000 kN/m2 x I 0.035 m4")),
         _member("KV-M03 G1", (20.0, 28.0, 20.0), "Kestrel River south approach, girder 1",
                 df=(0.66, 0.63), dead=(16.2, 2.6), span_ei=(1.0, 1.4, 1.0)),
         _member("KV-M04 G3", (15.0, 36.0, 15.0),

@@ -45,6 +45,7 @@ __all__ = [
     "CaseEffects",
     "case_effects",
     "envelope_of",
+    "governing",
     "member_envelope",
     "member_influence",
 ]
@@ -90,10 +91,10 @@ def _scoped(il: InfluenceLines, scope: str) -> NDArray[np.bool_]:
         applies[il.moment_rows, 1] = True
     elif scope == "hogging-interior-reactions":
         applies[il.moment_rows, 1] = True
-        applies[il.reaction_rows.start + 1 : il.n_effects - 1, :] = True
+        applies[il.reaction_rows.start + 1 : il.reaction_rows.stop - 1, :] = True
     elif scope == "interior-hogging":
         applies[il.moment_rows, 1] = il.hogging_stations()
-        interior = np.arange(il.reaction_rows.start + 1, il.n_effects - 1)
+        interior = np.arange(il.reaction_rows.start + 1, il.reaction_rows.stop - 1)
         applies[interior, :] = True
     else:
         raise ValueError(f"unknown load-case scope {scope!r}")
@@ -384,7 +385,7 @@ def _other_span_extremes(
     return sign * load * (best + second), ext.position[rows, order[:, 0]]
 
 
-def _governing(
+def governing(
     value: NDArray[np.float64],
     position: NDArray[np.float64],
     direction: NDArray[np.int8],
@@ -417,10 +418,8 @@ def envelope_of(
     """The envelope over the load cases ``rows`` (all by default) of ``effects``."""
     il = effects.lines
     best = {
-        "max": _governing(
-            effects.max_value, effects.max_position, effects.max_direction, 1.0, rows
-        ),
-        "min": _governing(
+        "max": governing(effects.max_value, effects.max_position, effects.max_direction, 1.0, rows),
+        "min": governing(
             effects.min_value, effects.min_position, effects.min_direction, -1.0, rows
         ),
     }

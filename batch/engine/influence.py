@@ -100,10 +100,12 @@ class InfluenceLines:
     """Influence lines of every effect of one member on a common partition.
 
     Effects are laid out in rows: first the moment at each station, then the
-    shear at each station, then the reaction at each support (left to right).
-    ``coef[e, j, n]`` is the coefficient of t**n on piece j (t = x - breaks[j]).
-    Lengths in the member's length unit; moment ordinates in length units per
-    unit load, shear and reaction ordinates dimensionless.
+    shear at each station, then the reaction at each support (left to right),
+    and, when asked for, the deflection at each station (downward positive, in
+    length cubed per unit load and unit EI: divide by the EI that a stiffness of
+    1 stands for). ``coef[e, j, n]`` is the coefficient of t**n on piece j (t = x
+    - breaks[j]). Lengths in the member's length unit; moment ordinates in length
+    units per unit load, shear and reaction ordinates dimensionless.
     """
 
     length: float
@@ -114,6 +116,7 @@ class InfluenceLines:
     station_x: NDArray[np.float64]
     support_x: NDArray[np.float64]
     nodes: NDArray[np.float64]
+    deflection_scale: float = 0.0
 
     @property
     def n_stations(self) -> int:
@@ -142,13 +145,23 @@ class InfluenceLines:
     @property
     def reaction_rows(self) -> slice:
         """Rows of the reaction influence lines, one per support."""
-        return slice(2 * self.n_stations, self.n_effects)
+        return slice(2 * self.n_stations, 2 * self.n_stations + self.support_x.size)
+
+    @property
+    def deflection_rows(self) -> slice:
+        """Rows of the deflection influence lines, one per station (empty unless asked for)."""
+        return slice(self.reaction_rows.stop, self.n_effects)
 
     @property
     def effect_scale(self) -> NDArray[np.float64]:
-        """Natural size of each effect's ordinates: L for moments, 1 otherwise."""
+        """Natural size of each effect's ordinates.
+
+        L for moments, L^3/EI for deflections (:attr:`deflection_scale`, with the
+        least EI), 1 otherwise.
+        """
         scale = np.ones(self.n_effects)
         scale[self.moment_rows] = self.length
+        scale[self.deflection_rows] = self.deflection_scale
         return scale
 
     def evaluate(self, x: NDArray[np.float64] | float, side: str = "right") -> NDArray[np.float64]:
@@ -495,16 +508,23 @@ class _Stiffness:
         return np.array(solution, dtype=float)
 
 
-def _reaction_cubics(
+def _element_cubics(
     nodes: NDArray[np.float64],
     supports: NDArray[np.float64],
     hinges: NDArray[np.float64],
     element_ei: NDArray[np.float64],
     tol: float,
-) -> NDArray[np.float64]:
-    """Reaction influence cubics per element: shape (n_supports, n_elements, 4), basis (x - a)^n.
+    deflect_at: NDArray[np.int64] | None = None,
+) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+    """Reaction and deflection influence cubics per element, basis (x - a)^n.
 
-    ``element_ei`` is the EI of each element between consecutive nodes.
+    Returns ``(reactions, deflections)`` of shapes (n_supports, n_elements, 4)
+    and (len(deflect_at), n_elements, 4). ``element_ei`` is the EI of each element
+    between consecutive nodes; ``deflect_at`` indexes the nodes whose downward
+    deflection is wanted. For a unit downward load at a point of an element, the
+    consistent (Hermite) nodal loads give the exact nodal displacements, so the
+    deflection of a node is F sN: F the flexibility (K_ff^-1) row of its
+    deflection, s N the load's consistent nodal loads.
     """
     n_nodes = nodes.size
     is_hinge = np.array([np.any(np.abs(hinges - x) <= tol) for x in nodes])
@@ -534,11 +554,36 @@ def _reaction_cubics(
     if free.size:
         transfer[:, free] = system.solve(k_fr, lambda: system.exact_block(free, restrained)).T
     transfer[np.arange(restrained.size), restrained] = -1.0
-    out = np.empty((restrained.size, n_nodes - 1, 4))
+    flexibility = np.zeros((0 if deflect_at is None else deflect_at.size, n_dof))
+    if deflect_at is not None and free.size:
+        where = {int(dof): i for i, dof in enumerate(free)}
+        wanted = [
+            (row, where[int(v_dof[d])]) for row, d in enumerate(deflect_at) if v_dof[d] in where
+        ]
+        unit = np.zeros((free.size, len(wanted)))
+        for col, (_, i) in enumerate(wanted):
+            unit[i, col] = 1.0
+
+        def unit_exact() -> Matrix:
+            return [[Fraction(int(v)) for v in row] for row in unit]
+
+        columns = system.solve(unit, unit_exact)  # (n_free, n_wanted): rows of K_ff^-1
+        for col, (row, _) in enumerate(wanted):
+            flexibility[row, free] = columns[:, col]
+    return _per_element(-transfer, elements), _per_element(flexibility, elements)
+
+
+def _per_element(
+    weights: NDArray[np.float64], elements: list[tuple[float, float, float, NDArray[np.int64]]]
+) -> NDArray[np.float64]:
+    """Cubics in (x - a) on every element of a unit downward load's effect ``weights @ sN``.
+
+    ``weights`` (n_lines, n_dof) multiply the load's consistent nodal loads.
+    """
+    out = np.empty((weights.shape[0], len(elements), 4))
     for e, (a, b, _, g) in enumerate(elements):
         h = b - a
-        weights = -transfer[:, g] * np.array([1.0, h, 1.0, h])  # (n_sup, 4 shape functions)
-        xi_coef = weights @ _HERMITE  # coefficients of xi^n
+        xi_coef = (weights[:, g] * np.array([1.0, h, 1.0, h])) @ _HERMITE  # coefficients of xi^n
         out[:, e, :] = xi_coef / h ** np.arange(4)
     return out
 
@@ -564,6 +609,7 @@ def influence_lines(
     stations_per_span: int = 10,
     pieces: Sequence[tuple[float, float, float]] = (),
     sections: Sequence[Section] = (),
+    deflection: bool = False,
 ) -> InfluenceLines:
     """Exact influence lines of moment and shear at every station and of every reaction.
 
@@ -575,9 +621,10 @@ def influence_lines(
     span's: each of their ends becomes a node, so every element keeps one EI and
     the lines stay exact piecewise cubics. Stations are at fractions 0, 1/n,
     ..., 1 of every span, plus the ``sections`` (span from 1, x from the left
-    end) off that grid, each at exactly its x. Raises
-    :class:`UnstableMemberError` when the layout is a mechanism and
-    ``ValueError`` for malformed geometry.
+    end) off that grid, each at exactly its x. With ``deflection``, the
+    stations become nodes too and the lines of their deflections follow the
+    reactions. Raises :class:`UnstableMemberError` when the layout is a mechanism
+    and ``ValueError`` for malformed geometry.
     """
     spans_a = np.asarray(spans, dtype=float)
     if (
@@ -622,11 +669,13 @@ def influence_lines(
     piece_a = _checked_pieces(pieces, length, tol)
     cuts = piece_a[:, :2].reshape(-1)
     cuts = cuts[(cuts > tol) & (cuts < length - tol)]
-    nodes = _merge(np.concatenate([supports, hinge_a, cuts]), tol)
-    element_ei = _element_stiffness(nodes, supports, ei, piece_a)
-    element_cubics = _reaction_cubics(nodes, supports, hinge_a, element_ei, tol)
-
     span_no, fraction, sx = station_positions(spans_a.tolist(), stations_per_span, sections)
+    nodes = _merge(np.concatenate([supports, hinge_a, cuts, sx if deflection else []]), tol)
+    element_ei = _element_stiffness(nodes, supports, ei, piece_a)
+    at_nodes = np.abs(sx[:, None] - nodes[None, :]).argmin(axis=1) if deflection else None
+    element_cubics, deflections = _element_cubics(
+        nodes, supports, hinge_a, element_ei, tol, at_nodes
+    )
     # A station on a node (a support or a hinge typed at a station) takes the node's
     # exact position, so that the node's element boundary stays where it is.
     on_node = np.abs(sx[:, None] - nodes[None, :]) <= tol
@@ -655,13 +704,18 @@ def influence_lines(
     ).astype(float)
     shear = np.einsum("ns,sjk->njk", inside, reactions)
     shear[..., 0] -= left_of
-    coef = np.concatenate([moment, shear, reactions], axis=0)
+    lines = [moment, shear, reactions]
+    if deflection:
+        lines.append(_shift(deflections[:, elem, :], breaks[:-1] - nodes[elem]))
+    coef = np.concatenate(lines, axis=0)
     # A term below 1e-12 of an effect's natural size over the whole member is
     # round-off (e.g. the moment at a hinge). It is measured with the member length,
     # not the piece length: on a sliver piece a real cubic term looks tiny, and the
     # same cubic continues over the neighbouring pieces of its element.
     scale = np.ones(coef.shape[0])
     scale[: sx.size] = length
+    deflection_scale = length**3 / float(element_ei.min()) if deflection else 0.0
+    scale[2 * sx.size + supports.size :] = deflection_scale
     size = np.abs(coef) * (length ** np.arange(4))
     coef = np.where(size < 1e-12 * scale[:, None, None], 0.0, coef)
     return InfluenceLines(
@@ -673,4 +727,5 @@ def influence_lines(
         station_x=sx,
         support_x=supports,
         nodes=nodes,
+        deflection_scale=deflection_scale,
     )

@@ -35,6 +35,8 @@ from pathlib import Path
 import numpy as np
 from numpy.typing import NDArray
 
+from batch.engine.asbuilt import MemberAsBuilt
+from batch.engine.deflection import member_deflection
 from batch.engine.effects import EFFECTS, MemberEnvelope
 from batch.engine.envelope import case_effects, envelope_of, member_influence
 from batch.engine.fatigue import FatigueRanges, fatigue_ranges
@@ -93,7 +95,8 @@ class MemberResult:
 
     ``assessment`` holds its rating and screening (see
     :class:`~batch.rating.assess.MemberAssessment`); ``fatigue`` its moment
-    ranges under the fleet's fatigue loads (None: the fleet has none).
+    ranges under the fleet's fatigue loads (None: the fleet has none); ``asbuilt``
+    its deflections (:class:`~batch.engine.asbuilt.MemberAsBuilt`).
     """
 
     index: int
@@ -102,6 +105,7 @@ class MemberResult:
     warnings: tuple[str, ...] = ()
     assessment: MemberAssessment = field(default_factory=MemberAssessment)
     fatigue: FatigueRanges | None = None
+    asbuilt: MemberAsBuilt = field(default_factory=MemberAsBuilt)
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -128,7 +132,9 @@ class RunResult:
     read from it as they are iterated (:class:`~batch.running.store.StoredMembers`).
     ``fatigue`` holds each member's moment ranges under the fleet's fatigue loads
     (:class:`~batch.engine.fatigue.FatigueRanges`), in member order; empty when
-    the fleet has no fatigue load.
+    the fleet has no fatigue load. ``asbuilt`` holds each member's deflections
+    (:class:`~batch.engine.asbuilt.MemberAsBuilt`), in member order; empty when no
+    member asks for them.
     ``rated`` counts the rated members and checks and holds each bridge's
     postings of legal loads (:func:`batch.rating.posting.summarise`).
     """
@@ -145,6 +151,7 @@ class RunResult:
     store: Path | None = None
     assessments: Sequence[MemberAssessment] = ()
     fatigue: Sequence[FatigueRanges | None] = ()
+    asbuilt: Sequence[MemberAsBuilt] = ()
     rated: RatingSummary = field(default_factory=RatingSummary)
 
     @property
@@ -211,6 +218,7 @@ def analyse_member(
             effects = case_effects(
                 member, cases, settings.stations_per_span, settings.directions, il=il
             )
+            asbuilt = MemberAsBuilt(deflection=member_deflection(member, settings, sections))
         except ValueError as exc:  # includes UnstableMemberError
             raise RunError(member.id, str(exc)) from exc
         env = envelope_of(member.id, effects, tuple(c.label for c in cases))
@@ -232,6 +240,7 @@ def analyse_member(
         warnings=notes,
         assessment=assessment,
         fatigue=fatigue,
+        asbuilt=asbuilt,
     )
 
 
@@ -343,6 +352,7 @@ class _Gathered:
     notes: dict[int, tuple[str, ...]] = field(default_factory=dict)
     assessed: dict[int, MemberAssessment] = field(default_factory=dict)
     fatigue: dict[int, FatigueRanges | None] = field(default_factory=dict)
+    asbuilt: dict[int, MemberAsBuilt] = field(default_factory=dict)
 
 
 def _gather(
@@ -358,12 +368,15 @@ def _gather(
     for results in source:
         for r in results:
             if store is not None:
-                store.put(r.index, r.envelope, r.warnings, r.peaks, r.assessment, r.fatigue)
+                store.put(
+                    r.index, r.envelope, r.warnings, r.peaks, r.assessment, r.fatigue, r.asbuilt
+                )
             else:
                 gathered.envelopes[r.index] = r.envelope
                 gathered.notes[r.index] = r.warnings
                 gathered.assessed[r.index] = r.assessment
                 gathered.fatigue[r.index] = r.fatigue
+                gathered.asbuilt[r.index] = r.asbuilt
             if peaks is not None:
                 peaks[r.index] = r.peaks
             done += 1
@@ -415,12 +428,14 @@ def run_case(
             fatigue: Sequence[FatigueRanges | None] = tuple(
                 gathered.fatigue[i] for i in range(n_members)
             )
+            asbuilt: Sequence[MemberAsBuilt] = tuple(gathered.asbuilt[i] for i in range(n_members))
         else:
             store.check_complete(n_members)
             envelopes = store.stored_envelopes(n_members)
             assessments = store.stored_assessments(n_members)
             notes = tuple(store.warnings())
             fatigue = store.stored_fatigue(n_members)
+            asbuilt = store.stored_asbuilt(n_members)
             if peaks is not None and finished:
                 for row in store.peak_rows():
                     if row.member_index in finished:
@@ -441,5 +456,11 @@ def run_case(
         store=options.store,
         assessments=() if plan is None else assessments,
         fatigue=fatigue if any(c.fatigue for c in cases) else (),
+        asbuilt=asbuilt if _asks_as_built(case) else (),
         rated=summarise(case, assessments) if case.capacities else RatingSummary(),
     )
+
+
+def _asks_as_built(case: Case) -> bool:
+    """Whether any member asks for a result as built (deflections)."""
+    return any(m.analysis is not None and m.analysis.ei_scale is not None for m in case.members)

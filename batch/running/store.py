@@ -55,6 +55,7 @@ from typing import Any, TypeVar, overload
 import numpy as np
 from numpy.typing import NDArray
 
+from batch.engine.asbuilt import MemberAsBuilt, MemberDeflection
 from batch.engine.effects import Governing, ImpactRows, MemberEnvelope
 from batch.engine.fatigue import FatigueRanges
 from batch.rating.assess import MemberAssessment
@@ -77,11 +78,11 @@ _EXTREMES = ("m_max", "m_min", "v_max", "v_min", "r_max", "r_min")
 
 #: The layout of the tables below (SQLite's user_version); a store of another layout
 #: is rebuilt empty.
-SCHEMA_VERSION = 3
+SCHEMA_VERSION = 4
 #: Seconds a run waits for another run's write to the store to finish.
 BUSY_TIMEOUT_S = 30.0
 
-_TABLES = ("members", "vehicle_peaks", "vehicles", "assessments", "fatigue", "meta")
+_TABLES = ("members", "vehicle_peaks", "vehicles", "assessments", "fatigue", "asbuilt", "meta")
 
 # A member's peaks and assessment are written in the transaction of its members row and
 # replaced or deleted with it: that row carries the proof (run key, token) for all three.
@@ -99,6 +100,7 @@ CREATE TABLE IF NOT EXISTS vehicle_peaks (
 CREATE TABLE IF NOT EXISTS vehicles (idx INTEGER PRIMARY KEY, vehicle TEXT NOT NULL);
 CREATE TABLE IF NOT EXISTS assessments (idx INTEGER PRIMARY KEY, blob BLOB NOT NULL);
 CREATE TABLE IF NOT EXISTS fatigue (idx INTEGER PRIMARY KEY, blob BLOB NOT NULL);
+CREATE TABLE IF NOT EXISTS asbuilt (idx INTEGER PRIMARY KEY, blob BLOB NOT NULL);
 CREATE VIEW IF NOT EXISTS vehicle_summary AS
     SELECT m.member AS member, v.vehicle AS vehicle, p.m_max, p.m_min, p.v_max, p.v_min,
            p.r_max, p.r_min
@@ -284,6 +286,50 @@ def _unpack_fatigue(blob: bytes | None) -> FatigueRanges | None:
         raise ValueError(f"stored fatigue ranges lack {exc}") from exc
 
 
+_GOVERNING = ("value", "case", "position", "direction")
+
+
+def _pack_asbuilt(asbuilt: MemberAsBuilt) -> bytes:
+    arrays: dict[str, NDArray[np.generic]] = {}
+    d = asbuilt.deflection
+    if d is not None:
+        for sense in ("down", "up"):
+            ext = getattr(d, sense)
+            arrays |= {f"deflection.{sense}.{k}": getattr(ext, k) for k in _GOVERNING}
+        arrays |= {
+            "deflection.labels": np.array(d.labels),
+            "deflection.span_length": d.span_length,
+            "deflection.span_deflection": d.span_deflection,
+            "deflection.span_ratio": d.span_ratio,
+            "deflection.scalars": np.array([d.limit, d.df, d.df_source]),
+        }
+    return _pack_arrays(arrays)
+
+
+def _unpack_asbuilt(blob: bytes | None) -> MemberAsBuilt:
+    if blob is None:
+        return MemberAsBuilt()
+    data: dict[str, Any] = dict(_unpack_arrays(blob))
+    if not data:
+        return MemberAsBuilt()
+    try:
+        limit, df, source = (float(v) for v in data["deflection.scalars"])
+        deflection = MemberDeflection(
+            labels=tuple(str(label) for label in data["deflection.labels"]),
+            down=Governing(**{k: data[f"deflection.down.{k}"] for k in _GOVERNING}),
+            up=Governing(**{k: data[f"deflection.up.{k}"] for k in _GOVERNING}),
+            span_length=data["deflection.span_length"],
+            span_deflection=data["deflection.span_deflection"],
+            span_ratio=data["deflection.span_ratio"],
+            limit=limit,
+            df=df,
+            df_source=int(source),
+        )
+    except KeyError as exc:
+        raise ValueError(f"stored deflections lack {exc}") from exc
+    return MemberAsBuilt(deflection=deflection)
+
+
 #: Each envelope array in the order it is stored, with its stored type: first the
 #: layout, then per effect family and sense value, case and position; then, for a run
 #: with the Standard Specifications' impact, its loaded length and fraction per effect
@@ -420,6 +466,7 @@ class StoredMembers(Sequence[T]):
         query = (
             f"SELECT m.idx, m.member, {self._column} FROM members m "  # fixed column names
             "LEFT JOIN assessments a ON a.idx = m.idx LEFT JOIN fatigue f ON f.idx = m.idx "
+            "LEFT JOIN asbuilt b ON b.idx = m.idx "
             "WHERE m.run = ? AND m.idx >= ? AND m.idx < ? ORDER BY m.idx"
         )
         expected = first
@@ -577,11 +624,12 @@ class CheckpointStore:
         peaks: NDArray[np.float64],
         assessment: MemberAssessment | None = None,
         fatigue: FatigueRanges | None = None,
+        asbuilt: MemberAsBuilt | None = None,
     ) -> None:
         """Store one finished member, with its per-vehicle peaks (n_vehicles, 6), atomically.
 
-        ``assessment`` (its rating and screening) and ``fatigue`` (its moment ranges
-        under fatigue loads) are stored when given. Raises
+        ``assessment`` (its rating and screening), ``fatigue`` (its moment ranges
+        under fatigue loads) and ``asbuilt`` (its deflections) are stored when given. Raises
         :class:`StoreError` when the store is no longer this run's.
         """
         db = self._db
@@ -610,6 +658,10 @@ class CheckpointStore:
             if fatigue is not None:
                 db.execute(
                     "INSERT OR REPLACE INTO fatigue VALUES (?, ?)", (index, _pack_fatigue(fatigue))
+                )
+            if asbuilt is not None:
+                db.execute(
+                    "INSERT OR REPLACE INTO asbuilt VALUES (?, ?)", (index, _pack_asbuilt(asbuilt))
                 )
 
     def check_complete(self, size: int) -> None:
@@ -647,6 +699,12 @@ class CheckpointStore:
         """Members 0..size-1's fatigue moment ranges (None: no fatigue load), as needed."""
         return StoredMembers(
             self.path, self.key, size, "f.blob", lambda _, blob: _unpack_fatigue(blob)
+        )
+
+    def stored_asbuilt(self, size: int) -> StoredMembers[MemberAsBuilt]:
+        """Members 0..size-1's results as built (deflections), as needed."""
+        return StoredMembers(
+            self.path, self.key, size, "b.blob", lambda _, blob: _unpack_asbuilt(blob)
         )
 
     def warnings(self) -> list[str]:

@@ -24,6 +24,7 @@ from typing import TYPE_CHECKING, Any, NamedTuple
 import numpy as np
 from numpy.typing import NDArray
 
+from batch.engine.asbuilt import DEFLECTION_DF_SOURCES, MemberDeflection
 from batch.engine.effects import (
     EFFECTS,
     Effect,
@@ -57,6 +58,8 @@ if TYPE_CHECKING:
 __all__ = [
     "CHARTS_SHEET",
     "DEAD_LOADS",
+    "DEFLECTIONS",
+    "DEFLECTION_CHECK",
     "ENVELOPES",
     "FATIGUE",
     "GOVERNING",
@@ -1638,6 +1641,240 @@ FATIGUE: ResultTable[FatigueMember] = ResultTable(
 )
 
 
+# ---------------------------------------------------------------- members as built: deflection
+
+#: Deflections in in or mm: three decimals.
+FORMAT_DEFLECTION = "0.000"
+#: Fill of a span whose deflection exceeds its limit (the muted red of a failing RF).
+DEFLECTION_EXCEEDED_RGB = RF_BANDS[0][1]
+
+
+class DeflectedMember(NamedTuple):
+    """One member's block of the Deflection sheets: its stations and its deflections."""
+
+    envelope: MemberEnvelope
+    deflection: MemberDeflection
+
+
+def _deflected(result: RunResult) -> list[DeflectedMember]:
+    return [
+        DeflectedMember(envelope=env, deflection=built.deflection)
+        for env, built in zip(result.envelopes, result.asbuilt, strict=True)
+        if built.deflection is not None
+    ]
+
+
+def _asks_deflection(result: RunResult) -> bool:
+    return any(m.analysis is not None and m.analysis.ei_scale for m in result.case.members)
+
+
+def _deflection_rows(result: RunResult) -> int:
+    """One row per station of every deflected member."""
+    return sum(b.deflection.down.value.size for b in result.asbuilt if b.deflection is not None)
+
+
+def _deflection_sense(sense: str, name: str) -> tuple[ResultColumn[DeflectedMember], ...]:
+    """The value, load, at and direction columns of the downward or upward deflection."""
+
+    def get(f: Callable[[DeflectedMember, Governing, int], object]) -> Callable[..., list]:
+        def values(b: DeflectedMember) -> list[object]:
+            ext = getattr(b.deflection, sense)
+            return [f(b, ext, i) for i in range(ext.value.size)]
+
+        return values
+
+    def label(b: DeflectedMember, ext: Governing, i: int) -> str | None:
+        case = int(ext.case[i])
+        return b.deflection.labels[case] if case >= 0 else None
+
+    return (
+        ResultColumn(
+            header=name,
+            quantity="deflection",
+            number_format=FORMAT_DEFLECTION,
+            width=12,
+            values=get(lambda _b, ext, i: float(ext.value[i])),
+            meaning=f"Largest {sense}ward live-load deflection at the station (downward "
+            "positive), with the dynamic load allowance and DF deflection.",
+        ),
+        ResultColumn(
+            header=f"{name} load",
+            width=26,
+            values=get(label),
+            text=True,
+            meaning="The part of the deflection loading that governs.",
+        ),
+        ResultColumn(
+            header=f"{name} at",
+            quantity="length",
+            number_format=FORMAT_VALUE,
+            width=10,
+            values=get(lambda _b, ext, i: _position(ext, i)),
+            meaning="Position of the governing truck's front axle from the member's left end.",
+        ),
+        ResultColumn(
+            header=f"{name} direction",
+            width=14,
+            values=get(lambda _b, ext, i: _direction(ext, i)),
+            text=True,
+            meaning="Direction of travel of the governing truck.",
+        ),
+    )
+
+
+def _per_station(get: Callable[[MemberEnvelope, int], object]) -> Callable[..., list]:
+    return lambda b: [get(b.envelope, i) for i in range(b.envelope.station_x.size)]
+
+
+DEFLECTIONS: ResultTable[DeflectedMember] = ResultTable(
+    sheet="Deflections",
+    purpose="One row per member and station, for the members whose Analysis row gives an EI "
+    "scale: the live-load deflection envelope under the LRFD deflection loading (the design "
+    "truck alone, or 25 % of it with the lane load, AASHTO LRFD 3.6.1.3.2), downward "
+    "positive.",
+    blocks=_deflected,
+    rows=_deflection_rows,
+    wanted=_asks_deflection,
+    frozen_columns=4,
+    columns=(
+        ResultColumn(
+            header="Member",
+            width=16,
+            values=_per_station(lambda env, _i: env.member),
+            text=True,
+            meaning="Member id.",
+        ),
+        ResultColumn(
+            header="Span",
+            number_format=FORMAT_WHOLE,
+            width=6,
+            values=_per_station(lambda env, i: int(env.station_span[i])),
+            meaning="Span number, from 1 at the left end.",
+        ),
+        ResultColumn(
+            header="Station",
+            number_format=FORMAT_FRACTION,
+            width=8,
+            values=_per_station(lambda env, i: float(env.station_fraction[i])),
+            meaning="Fraction of the span's length.",
+        ),
+        ResultColumn(
+            header="x",
+            quantity="length",
+            number_format=FORMAT_VALUE,
+            width=9,
+            values=_per_station(lambda env, i: float(env.station_x[i])),
+            meaning="Distance from the member's left end.",
+        ),
+        *_deflection_sense("down", "Deflection down"),
+        *_deflection_sense("up", "Deflection up"),
+    ),
+)
+
+
+def _per_span(get: Callable[[DeflectedMember, int], object]) -> Callable[..., list]:
+    return lambda b: [get(b, k) for k in range(b.deflection.span_length.size)]
+
+
+def _ratio(b: DeflectedMember, k: int) -> float | None:
+    ratio = float(b.deflection.span_ratio[k])
+    return ratio if np.isfinite(ratio) else None
+
+
+def _check(b: DeflectedMember, k: int) -> str:
+    d = b.deflection
+    if bool(d.passes[k]):
+        return f"OK (L/{d.limit:g})"
+    return f"exceeds L/{d.limit:g}"
+
+
+DEFLECTION_CHECK: ResultTable[DeflectedMember] = ResultTable(
+    sheet="Deflection Check",
+    purpose="One row per member and span, for the members whose Analysis row gives an EI "
+    "scale: the largest downward live-load deflection at the span's stations, the ratio span "
+    "/ deflection and the member's limit (AASHTO LRFD 2.5.2.6.2; 800 unless the Analysis row "
+    "gives another). Between stations the deflection may be a little larger: use more "
+    "stations per span for a closer value.",
+    blocks=_deflected,
+    rows=lambda result: sum(
+        b.deflection.span_length.size for b in result.asbuilt if b.deflection is not None
+    ),
+    wanted=_asks_deflection,
+    frozen_columns=2,
+    columns=(
+        ResultColumn(
+            header="Member",
+            width=16,
+            values=_per_span(lambda b, _k: b.envelope.member),
+            text=True,
+            meaning="Member id.",
+        ),
+        ResultColumn(
+            header="Span",
+            number_format=FORMAT_WHOLE,
+            width=6,
+            values=_per_span(lambda _b, k: k + 1),
+            meaning="Span number, from 1 at the left end.",
+        ),
+        ResultColumn(
+            header="Span length",
+            quantity="length",
+            number_format=FORMAT_VALUE,
+            width=12,
+            values=_per_span(lambda b, k: float(b.deflection.span_length[k])),
+            meaning="Length of the span.",
+        ),
+        ResultColumn(
+            header="Deflection",
+            quantity="deflection",
+            number_format=FORMAT_DEFLECTION,
+            width=12,
+            values=_per_span(lambda b, k: float(b.deflection.span_deflection[k])),
+            meaning="Largest downward live-load deflection at the span's stations.",
+        ),
+        ResultColumn(
+            header="Span/deflection",
+            number_format=FORMAT_WHOLE,
+            width=15,
+            values=_per_span(_ratio),
+            meaning="Span length over that deflection (empty where the span does not deflect "
+            "down).",
+        ),
+        ResultColumn(
+            header="Limit",
+            number_format=FORMAT_WHOLE,
+            width=8,
+            values=_per_span(lambda b, _k: float(b.deflection.limit)),
+            meaning="The least span/deflection accepted (Analysis sheet; 800 when blank).",
+        ),
+        ResultColumn(
+            header="Check",
+            width=16,
+            values=_per_span(_check),
+            fill=lambda v: DEFLECTION_EXCEEDED_RGB if str(v).startswith("exceeds") else None,
+            text=True,
+            meaning="OK when span/deflection is at least the limit.",
+        ),
+        ResultColumn(
+            header="DF",
+            number_format=FORMAT_RATIO,
+            width=7,
+            values=_per_span(lambda b, _k: float(b.deflection.df)),
+            meaning="Distribution factor of the deflection loading.",
+        ),
+        ResultColumn(
+            header="DF from",
+            width=16,
+            values=_per_span(lambda b, _k: DEFLECTION_DF_SOURCES[b.deflection.df_source]),
+            text=True,
+            meaning="Where that factor comes from: DF deflection (Analysis sheet), the girder "
+            "layout, or DF moment (AASHTO LRFD 2.5.2.6.2 asks for all lanes loaded, shared "
+            "equally by the girders: check it).",
+        ),
+    ),
+)
+
+
 # ---------------------------------------------------------------- the guide to them all
 
 
@@ -1718,6 +1955,8 @@ RESULT_TABLES: tuple[AnyTable, ...] = (
     GOVERNING,
     IMPACT,
     FATIGUE,
+    DEFLECTIONS,
+    DEFLECTION_CHECK,
     VEHICLE_SUMMARY,
     RATINGS,
     RATING_MATRIX,

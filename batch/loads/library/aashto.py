@@ -18,7 +18,7 @@ from batch.loads.factors import (
 from batch.loads.library.models import LoadModel, part
 from batch.loads.sourced import UNBOUNDED, Sourced
 
-__all__ = ["US_MODELS"]
+__all__ = ["DEFLECTION_LOADING", "US_MODELS"]
 
 _STD = "AASHTO Standard Specifications for Highway Bridges, 17th ed. (2002)"
 _LRFD = "AASHTO LRFD Bridge Design Specifications, 7th ed. (2014) and later"
@@ -778,4 +778,57 @@ US_MODELS: tuple[LoadModel, ...] = (
     NRL,
     EV2,
     EV3,
+)
+
+
+# ---------------------------------------------------------------- LRFD: the deflection loading
+# Not a fleet vehicle (it is not rated): the engine moves it over the members whose
+# Analysis row asks for deflections (batch/engine/deflection.py).
+
+_DEFLECTION_RULE = Sourced(
+    what="live-load deflection: the larger of the design truck alone and 25 % of the design"
+    " truck taken together with the design lane load, with the dynamic load allowance",
+    source=f"{_LRFD}, Art. 3.6.1.3.2 (with 2.5.2.6.2)",
+    status="from memory",
+)
+_QUARTER_TRUCK = Sourced(
+    what="deflection loading: fraction of the design truck taken with the lane load",
+    value=(0.25,),
+    source=f"{_LRFD}, Art. 3.6.1.3.2",
+    status="from memory",
+)
+
+DEFLECTION_LOADING = LoadModel(
+    name="HL-93 deflection",
+    units="US",
+    category="design",
+    source=f"{_LRFD}, Art. 3.6.1.3.2 (loading for live-load deflection) and 2.5.2.6.2"
+    " (criteria); US customary values, converted exactly in SI runs",
+    description="The design truck alone (8, 32, 32 kip; 14 ft and 14-30 ft), and 25 % of it"
+    " with the 0.64 kip/ft design lane load; the larger governs. The run's dynamic load"
+    " allowance applies to the truck, not to the lane load; axles that would lessen the"
+    " deflection are left out (as for HL-93).",
+    parts=(
+        part(
+            "design truck",
+            _TRUCK,
+            _TRUCK_SPACINGS,
+            drop_adverse_axles=True,
+            rules=(_DEFLECTION_RULE, _DROP_AXLES),
+        ),
+        part(
+            "25 % truck + lane",
+            Sourced.derived(
+                "0.25 x design truck axle loads",
+                tuple(0.25 * p for p in _TRUCK.numbers),
+                "kip",
+                _TRUCK,
+                _QUARTER_TRUCK,
+            ),
+            _TRUCK_SPACINGS,
+            lane_load=_LANE,
+            drop_adverse_axles=True,
+            rules=(_DEFLECTION_RULE, _NO_IM_ON_LANE, _DROP_AXLES),
+        ),
+    ),
 )
