@@ -17,6 +17,7 @@ posting loads are computed by :mod:`batch.rating`; these columns only show them.
 
 from __future__ import annotations
 
+import dataclasses
 import re
 from collections.abc import Callable, Iterator
 from typing import TYPE_CHECKING, Any, NamedTuple
@@ -630,6 +631,15 @@ def _numbers(values: NDArray[Any]) -> list[object]:
     return cells
 
 
+def _one_line(columns: tuple[ResultColumn[Any], ...]) -> tuple[ResultColumn[Any], ...]:
+    """The columns, each wide enough for its header and unit on one line (one header row)."""
+    unit = len(" (tonnes)")  # the longest unit label a header may take
+    return tuple(
+        dataclasses.replace(c, width=max(c.width, len(c.header) + (unit if c.quantity else 0) + 3))
+        for c in columns
+    )
+
+
 def _words(table: tuple[str, ...], codes: NDArray[np.int8]) -> NDArray[np.str_]:
     """The words of each code of one of :mod:`batch.rating.traffic`'s tables."""
     return np.array(table, dtype=np.str_)[codes]
@@ -893,7 +903,7 @@ def _term_columns(rows: Callable[[RatedMember], tuple[Any, Any]]) -> tuple[Resul
             header=header,
             quantity=quantity,
             number_format=fmt,
-            width=width,
+            width=max(width, len(header) + 3),  # a header on one line, so it prints as one row
             values=values,
             text=not fmt,
             meaning=meaning,
@@ -1053,111 +1063,114 @@ RATING_DETAIL: ResultTable[RatedMember] = ResultTable(
     wanted=lambda result: _n_rated(result) > 0,
     overflow="store",
     frozen_columns=2,
-    columns=(
-        ResultColumn(
-            header="Member",
-            width=16,
-            values=lambda b: [b.member.id] * b.rating.p_rf.size,
-            text=True,
-            meaning="Member id.",
-        ),
-        ResultColumn(
-            header="Vehicle",
-            width=18,
-            values=lambda b: [b.case.vehicles[int(v)].id for v in _detail_rows(b)[0]],
-            text=True,
-            meaning="Vehicle id, as on the Vehicles sheet.",
-        ),
-        ResultColumn(
-            header="Bridge",
-            width=12,
-            values=lambda b: [b.member.bridge] * b.rating.p_rf.size,
-            text=True,
-            meaning="The member's bridge (blank: none, the Settings' factors).",
-        ),
-        ResultColumn(
-            header="ADTT",
-            number_format=FORMAT_WHOLE,
-            width=7,
-            values=lambda b: [_adtt(b)] * b.rating.p_rf.size,
-            meaning="The bridge's ADTT (trucks a day, one direction), which the MBE tables of "
-            "legal and permit live-load factors are read at; blank: not known or no bridge.",
-        ),
-        ResultColumn(
-            header="Category",
-            width=9,
-            values=lambda b: [b.case.vehicles[int(v)].category for v in _detail_rows(b)[0]],
-            text=True,
-            meaning="The vehicle's category: design, legal or permit.",
-        ),
-        ResultColumn(
-            header="Permit type",
-            width=18,
-            values=lambda b: [b.case.vehicles[int(v)].permit_type for v in _detail_rows(b)[0]],
-            text=True,
-            meaning="The permit's kind of crossing (MBE Table 6A.4.5.4.2a-1); blank: none given.",
-        ),
-        ResultColumn(
-            header="Span",
-            number_format=FORMAT_WHOLE,
-            width=6,
-            values=_detail_place(lambda e, i: int(e.station_span[i])),
-            meaning="Span of the rated station, from 1 at the left end.",
-        ),
-        ResultColumn(
-            header="Station",
-            number_format=FORMAT_FRACTION,
-            width=8,
-            values=_detail_place(lambda e, i: float(e.station_fraction[i])),
-            meaning="Fraction of the span of the rated station.",
-        ),
-        ResultColumn(
-            header="x",
-            quantity="length",
-            number_format=FORMAT_VALUE,
-            width=9,
-            values=_detail_place(lambda e, i: float(e.station_x[i])),
-            meaning="Distance of the rated station from the member's left end.",
-        ),
-        ResultColumn(
-            header="Effect",
-            width=7,
-            values=lambda b: [
-                RATED_EFFECTS[int(b.rating.k_effect[k])][0] for k in _detail_rows(b)[1]
-            ],
-            text=True,
-            meaning="The rated effect and sense: M+, M-, V+ or V-.",
-        ),
-        ResultColumn(
-            header="RF",
-            number_format=FORMAT_RATIO,
-            width=8,
-            values=lambda b: _numbers(b.rating.p_rf.ravel()),
-            fill=_rf_fill,
-            meaning="Rating factor of this check (design loads: inventory); blank: the vehicle "
-            "gives no effect of this sense here.",
-        ),
-        ResultColumn(
-            header="RF operating",
-            number_format=FORMAT_RATIO,
-            width=10,
-            values=lambda b: _numbers(b.rating.p_rf_operating.ravel()),
-            fill=_rf_fill,
-            meaning="Design loads: the operating-level RF, with gamma LL operating.",
-        ),
-        ResultColumn(
-            header="Governs",
-            width=8,
-            values=lambda b: [
-                "yes" if int(b.rating.check[v]) == k else None
-                for v, k in zip(*_detail_rows(b), strict=True)
-            ],
-            text=True,
-            meaning="yes on the check that governs the member's rating for the vehicle (as on "
-            "the Ratings sheet).",
-        ),
-        _unit_column(_detail_rows),
-        *_term_columns(_detail_rows),
+    columns=_one_line(
+        (
+            ResultColumn(
+                header="Member",
+                width=16,
+                values=lambda b: [b.member.id] * b.rating.p_rf.size,
+                text=True,
+                meaning="Member id.",
+            ),
+            ResultColumn(
+                header="Vehicle",
+                width=18,
+                values=lambda b: [b.case.vehicles[int(v)].id for v in _detail_rows(b)[0]],
+                text=True,
+                meaning="Vehicle id, as on the Vehicles sheet.",
+            ),
+            ResultColumn(
+                header="Bridge",
+                width=12,
+                values=lambda b: [b.member.bridge] * b.rating.p_rf.size,
+                text=True,
+                meaning="The member's bridge (blank: none, the Settings' factors).",
+            ),
+            ResultColumn(
+                header="ADTT",
+                number_format=FORMAT_WHOLE,
+                width=7,
+                values=lambda b: [_adtt(b)] * b.rating.p_rf.size,
+                meaning="The bridge's ADTT (trucks a day, one direction), which the MBE tables of "
+                "legal and permit live-load factors are read at; blank: not known or no bridge.",
+            ),
+            ResultColumn(
+                header="Category",
+                width=9,
+                values=lambda b: [b.case.vehicles[int(v)].category for v in _detail_rows(b)[0]],
+                text=True,
+                meaning="The vehicle's category: design, legal or permit.",
+            ),
+            ResultColumn(
+                header="Permit type",
+                width=18,
+                values=lambda b: [b.case.vehicles[int(v)].permit_type for v in _detail_rows(b)[0]],
+                text=True,
+                meaning="The permit's kind of crossing (MBE Table 6A.4.5.4.2a-1); blank: none "
+                "given.",
+            ),
+            ResultColumn(
+                header="Span",
+                number_format=FORMAT_WHOLE,
+                width=6,
+                values=_detail_place(lambda e, i: int(e.station_span[i])),
+                meaning="Span of the rated station, from 1 at the left end.",
+            ),
+            ResultColumn(
+                header="Station",
+                number_format=FORMAT_FRACTION,
+                width=8,
+                values=_detail_place(lambda e, i: float(e.station_fraction[i])),
+                meaning="Fraction of the span of the rated station.",
+            ),
+            ResultColumn(
+                header="x",
+                quantity="length",
+                number_format=FORMAT_VALUE,
+                width=9,
+                values=_detail_place(lambda e, i: float(e.station_x[i])),
+                meaning="Distance of the rated station from the member's left end.",
+            ),
+            ResultColumn(
+                header="Effect",
+                width=7,
+                values=lambda b: [
+                    RATED_EFFECTS[int(b.rating.k_effect[k])][0] for k in _detail_rows(b)[1]
+                ],
+                text=True,
+                meaning="The rated effect and sense: M+, M-, V+ or V-.",
+            ),
+            ResultColumn(
+                header="RF",
+                number_format=FORMAT_RATIO,
+                width=8,
+                values=lambda b: _numbers(b.rating.p_rf.ravel()),
+                fill=_rf_fill,
+                meaning="Rating factor of this check (design loads: inventory); blank: the vehicle "
+                "gives no effect of this sense here.",
+            ),
+            ResultColumn(
+                header="RF operating",
+                number_format=FORMAT_RATIO,
+                width=10,
+                values=lambda b: _numbers(b.rating.p_rf_operating.ravel()),
+                fill=_rf_fill,
+                meaning="Design loads: the operating-level RF, with gamma LL operating.",
+            ),
+            ResultColumn(
+                header="Governs",
+                width=8,
+                values=lambda b: [
+                    "yes" if int(b.rating.check[v]) == k else None
+                    for v, k in zip(*_detail_rows(b), strict=True)
+                ],
+                text=True,
+                meaning="yes on the check that governs the member's rating for the vehicle (as on "
+                "the Ratings sheet).",
+            ),
+            _unit_column(_detail_rows),
+            *_term_columns(_detail_rows),
+        )
     ),
 )
 
@@ -1215,61 +1228,63 @@ DEAD_LOADS: ResultTable[DeadMember] = ResultTable(
     rows=lambda result: result.n_stations + result.n_supports if _dead_wanted(result) else 0,
     wanted=_dead_wanted,
     frozen_columns=2,
-    columns=(
-        ResultColumn(
-            header="Member",
-            width=16,
-            values=lambda b: (
-                [b.envelope.member] * (b.envelope.station_x.size + b.envelope.support_x.size)
+    columns=_one_line(
+        (
+            ResultColumn(
+                header="Member",
+                width=16,
+                values=lambda b: (
+                    [b.envelope.member] * (b.envelope.station_x.size + b.envelope.support_x.size)
+                ),
+                text=True,
+                meaning="Member id.",
             ),
-            text=True,
-            meaning="Member id.",
-        ),
-        ResultColumn(
-            header="Span",
-            number_format=FORMAT_WHOLE,
-            width=6,
-            values=_station_or_support(lambda e, i: int(e.station_span[i]), lambda e, i: None),
-            meaning="Span of the station (station rows).",
-        ),
-        ResultColumn(
-            header="Station",
-            number_format=FORMAT_FRACTION,
-            width=8,
-            values=_station_or_support(
-                lambda e, i: float(e.station_fraction[i]), lambda e, i: None
+            ResultColumn(
+                header="Span",
+                number_format=FORMAT_WHOLE,
+                width=6,
+                values=_station_or_support(lambda e, i: int(e.station_span[i]), lambda e, i: None),
+                meaning="Span of the station (station rows).",
             ),
-            meaning="Fraction of the span (station rows).",
-        ),
-        ResultColumn(
-            header="Support",
-            number_format=FORMAT_WHOLE,
-            width=8,
-            values=_station_or_support(lambda e, i: None, lambda e, i: i + 1),
-            meaning="Support number, 1 = the left end (support rows).",
-        ),
-        ResultColumn(
-            header="x",
-            quantity="length",
-            number_format=FORMAT_VALUE,
-            width=9,
-            values=_station_or_support(
-                lambda e, i: float(e.station_x[i]), lambda e, i: float(e.support_x[i])
+            ResultColumn(
+                header="Station",
+                number_format=FORMAT_FRACTION,
+                width=8,
+                values=_station_or_support(
+                    lambda e, i: float(e.station_fraction[i]), lambda e, i: None
+                ),
+                meaning="Fraction of the span (station rows).",
             ),
-            meaning="Distance from the member's left end.",
-        ),
-        _dead_column("DC M", "moment", "moment", "dc", "Moment of DC, sagging positive."),
-        _dead_column("DW M", "moment", "moment", "dw", "Moment of DW, sagging positive."),
-        _dead_column(
-            "DC V",
-            "force",
-            "shear",
-            "dc",
-            "Shear of DC (sum of upward forces left of the section).",
-        ),
-        _dead_column("DW V", "force", "shear", "dw", "Shear of DW."),
-        _dead_column("DC R", "force", "reaction", "dc", "Reaction of DC, upward positive."),
-        _dead_column("DW R", "force", "reaction", "dw", "Reaction of DW, upward positive."),
+            ResultColumn(
+                header="Support",
+                number_format=FORMAT_WHOLE,
+                width=8,
+                values=_station_or_support(lambda e, i: None, lambda e, i: i + 1),
+                meaning="Support number, 1 = the left end (support rows).",
+            ),
+            ResultColumn(
+                header="x",
+                quantity="length",
+                number_format=FORMAT_VALUE,
+                width=9,
+                values=_station_or_support(
+                    lambda e, i: float(e.station_x[i]), lambda e, i: float(e.support_x[i])
+                ),
+                meaning="Distance from the member's left end.",
+            ),
+            _dead_column("DC M", "moment", "moment", "dc", "Moment of DC, sagging positive."),
+            _dead_column("DW M", "moment", "moment", "dw", "Moment of DW, sagging positive."),
+            _dead_column(
+                "DC V",
+                "force",
+                "shear",
+                "dc",
+                "Shear of DC (sum of upward forces left of the section).",
+            ),
+            _dead_column("DW V", "force", "shear", "dw", "Shear of DW."),
+            _dead_column("DC R", "force", "reaction", "dc", "Reaction of DC, upward positive."),
+            _dead_column("DW R", "force", "reaction", "dw", "Reaction of DW, upward positive."),
+        )
     ),
 )
 
@@ -1325,7 +1340,7 @@ def _posting_columns(case: Case) -> tuple[ResultColumn[Any], ...]:
         )
 
     legal = [v.id for v in case.vehicles if v.category == "legal"]
-    return tuple(col for j, vid in enumerate(legal) for col in one(j, vid))
+    return _one_line(tuple(col for j, vid in enumerate(legal) for col in one(j, vid)))
 
 
 def _bridge_of(case: Case, ident: str) -> Bridge | None:
@@ -1342,21 +1357,23 @@ POSTINGS: ResultTable[BridgePosting] = ResultTable(
     rows=lambda result: len(result.rated.postings),
     wanted=lambda result: bool(result.rated.postings),
     overflow="store",
-    columns=(
-        ResultColumn(
-            header="Bridge",
-            width=14,
-            values=lambda b: [b.bridge or "(no bridge)"],
-            text=True,
-            meaning="Bridge id; (no bridge) for the rated members that name none.",
-        ),
-        ResultColumn(
-            header="Rated members",
-            number_format=FORMAT_WHOLE,
-            width=8,
-            values=lambda b: [b.members],
-            meaning="How many of the bridge's members are rated (have Capacities rows).",
-        ),
+    columns=_one_line(
+        (
+            ResultColumn(
+                header="Bridge",
+                width=14,
+                values=lambda b: [b.bridge or "(no bridge)"],
+                text=True,
+                meaning="Bridge id; (no bridge) for the rated members that name none.",
+            ),
+            ResultColumn(
+                header="Rated members",
+                number_format=FORMAT_WHOLE,
+                width=8,
+                values=lambda b: [b.members],
+                meaning="How many of the bridge's members are rated (have Capacities rows).",
+            ),
+        )
     ),
     per_vehicle=_posting_columns,
 )
