@@ -65,21 +65,23 @@ def test_every_rf_recomputed_from_its_row_alone(sheets) -> None:
         assert (row["Floor applied"] == "yes") == (flexure and row["phi c"] * row["phi s"] < 0.85)
         assert _close(row["C"], row["phi c phi s"] * row["phi Rn"])
         # DW 1.25 is Wren Ferry's own factor (overlay thickness measured, MBE Table
-        # 6A.4.2.2-1, from memory).
-        for load, gamma, full, relief in (
-            ("DC", "gamma DC", {1.25}, 0.9),
-            ("DW", "gamma DW", {1.5, 1.25}, 0.65),
-        ):
-            assert row[gamma] == relief if row[load] < 0 else row[gamma] in full
+        # 6A.4.2.2-1, from memory). LFR: A1 = 1.3 on DC and DW; ASR: 1 (MBE 6B.4, from memory).
+        lrfr = (("DC", "gamma DC", {1.25}, 0.9), ("DW", "gamma DW", {1.5, 1.25}, 0.65))
+        for load, gamma, full, relief in lrfr:
+            if row["Method"] == "LRFR":
+                assert row[gamma] == relief if row[load] < 0 else row[gamma] in full
+            else:
+                assert row[gamma] == {"LFR": 1.3, "ASR": 1.0}[row["Method"]]
         if pd.isna(row["RF"]):
             assert row["LL+IM"] == 0  # nothing of this sense here: not rated
             continue
         live = (1 + row["IM"]) * row["LL axles"] + (1 + row["IM on lane"]) * row["LL lane"]
         assert _close(row["LL+IM"], live)
-        numerator = row["C"] - row["gamma DC"] * row["DC"] - row["gamma DW"] * row["DW"]
+        dead = row["gamma DC"] * row["DC"] + row["gamma DW"] * row["DW"]
+        numerator = row[row["C used"]] - dead
         assert _close(row["RF"], numerator / (row["gamma LL"] * row["LL+IM"]))
         if row["Category"] == "design":
-            operating = numerator / (row["gamma LL operating"] * row["LL+IM"])
+            operating = (row["C operating"] - dead) / (row["gamma LL operating"] * row["LL+IM"])
             assert _close(row["RF operating"], operating)
         else:
             assert pd.isna(row["RF operating"])
@@ -102,6 +104,7 @@ def test_the_ratings_row_is_the_governing_detail_row(sheets) -> None:
 
 def test_limit_states_and_one_lane_factors_follow_the_vehicle(sheets) -> None:
     detail = sheets["Rating Detail"]
+    detail = detail[detail["Method"] == "LRFR"]
     strength2 = detail["Category"] == "permit"
     assert set(detail.loc[strength2, "Limit state"]) == {"Strength II"}
     assert set(detail.loc[~strength2, "Limit state"]) == {"Strength I"}

@@ -276,11 +276,14 @@ def test_a_lower_one_lane_df_raises_a_special_permits_rf_by_their_ratio(df, k, k
 
 
 def _today(case: Case) -> Case:
-    """``case`` without bridges and permit kinds: a workbook written before they existed."""
+    """``case`` without bridges, permit kinds and rating methods: a workbook written before
+    they existed (every member LRFR)."""
     return dataclasses.replace(
         case,
         bridges=(),
-        members=tuple(dataclasses.replace(m, bridge=None) for m in case.members),
+        members=tuple(
+            dataclasses.replace(m, bridge=None, rating_method="LRFR") for m in case.members
+        ),
         vehicles=tuple(dataclasses.replace(v, permit_type=None, crawl="no") for v in case.vehicles),
     )
 

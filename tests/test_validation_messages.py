@@ -968,6 +968,40 @@ WORKBOOK_CASES = [
         },
         [("Members", "A2", "no-single-lane-df", W)],
     ),
+    # rating methods (MBE Section 6B): ASR needs its operating allowables
+    (
+        "asr-without-operating-capacity",
+        {
+            "members": [MC | {"Rating method": "ASR"}],
+            "extra": {"Capacities": _sheet(CAP, ["KV-0101 G1", 1, 0.5, 900])},
+        },
+        [("Capacities", "A2", "no-operating-capacity", E)],
+    ),
+    (
+        "asr-with-operating-capacity",
+        {
+            "members": [MC | {"Rating method": "asr"}],
+            "extra": {
+                "Capacities": _sheet([*CAP, "Operating M+"], ["KV-0101 G1", 1, 0.5, 900, 1200])
+            },
+        },
+        [],
+    ),
+    (
+        "operating-capacity-on-an-lrfr-member",
+        {
+            "members": [MC],
+            "extra": {
+                "Capacities": _sheet([*CAP, "Operating M+"], ["KV-0101 G1", 1, 0.5, 900, 1200])
+            },
+        },
+        [("Capacities", "E2", "operating-not-asr", E)],
+    ),
+    (
+        "rating-method-unknown",
+        {"members": [M | {"Rating method": "WSD"}]},
+        [("Members", "C2", "not-a-choice", E)],
+    ),
     (
         "special-permit-with-single-lane-dfs",
         {

@@ -34,6 +34,7 @@ from batch.model import (
     Category,
     Member,
     PermitType,
+    RatingMethod,
     Segment,
     Settings,
     Spacing,
@@ -59,12 +60,13 @@ def _member(
     one_lane: tuple[float, float] | None = None,
     segments: tuple[tuple[float, float, float, float | None, str], ...] = (),
     analysis: Analysis | None = None,
+    method: RatingMethod = "LRFR",
 ) -> Member:
     """A member; ``df`` is (moment, shear), ``dead`` (DC, DW), ``factors`` (condition, system).
 
     ``bridge`` names its Bridges row; ``one_lane`` its one-lane DFs (moment, shear) as
     AASHTO LRFD gives them, 1.2 included; ``segments`` are Segments rows (From, To, EI,
-    EI at To, Haunch).
+    EI at To, Haunch); ``method`` its rating method.
     """
     return Member(
         id=id,
@@ -86,6 +88,7 @@ def _member(
             for a, b, ei, end, shape in segments
         ),
         analysis=analysis,
+        rating_method=method,
     )
 
 
@@ -215,6 +218,13 @@ _US_MEMBERS = (
     _member("KV-1010 G2", (40.0, 100.0, 100.0, 40.0),
             "Kestrel Valley viaduct, girder 2: hinges either side of the centre pier",
             df=(0.6, 0.69), dead=(1.3, 0.2), hinges=(120.0, 160.0)),
+    # Older bridges, designed by the Standard Specifications: rated by LFR and ASR.
+    _member("KV-0118 G2", (70.0,),
+            "Alder Creek bridge (1961), girder 2: load factor design for HS20, rated by LFR",
+            df=(0.65, 0.72), dead=(1.05, 0.15), bridge="KV-0118", method="LFR"),
+    _member("KV-0120 G1", (45.0,),
+            "Rook Lane bridge (1948), steel stringer 1: rated by allowable stress (ASR)",
+            df=(0.6, 0.7), dead=(0.75, 0.1), bridge="KV-0120", method="ASR"),
 )  # fmt: skip
 
 _US_VEHICLES = (
@@ -251,6 +261,9 @@ _US_VEHICLES = (
             description="AASHTO LRFD design live load, for comparison with KVHA-D1"),
     Vehicle(id="Type 3S2", library="Type 3S2", category="legal",
             description="AASHTO legal load, tractor with semitrailer"),
+    Vehicle(id="HS20", library="HS20", category="design",
+            description="AASHTO Standard Specifications HS20-44 loading, truck or lane, for the "
+            "older bridges"),
     Vehicle(id="SU7", library="SU7", category="legal",
             description="AASHTO specialized hauling vehicle, seven axles"),
 )  # fmt: skip
@@ -275,6 +288,12 @@ _US_CAPACITIES = (
     # the shear section 3.5 ft from the end support.
     Capacity(member="KV-0725 G3", x=66.5, resistance_m_pos=3300.0, resistance_m_neg=2900.0),
     Capacity(member="KV-0725 G3", x=3.5, resistance_v=260.0),
+    # LFR: the load factor capacities C (kip-ft, kip) of the 1961 design.
+    *_capacities("KV-0118 G2", (1, 0.0, None, None, 210.0), (1, 0.5, 2900.0, None, None)),
+    # ASR: the inventory allowables, and the operating ones beside them.
+    Capacity(member="KV-0120 G1", span=1, station=0.0, resistance_v=95.0, operating_v=130.0),
+    Capacity(member="KV-0120 G1", span=1, station=0.5, resistance_m_pos=600.0,
+             operating_m_pos=820.0),
 )  # fmt: skip
 
 # Invented traffic: each rated bridge has its own ADTT (one direction) and riding surface,
@@ -291,6 +310,9 @@ _US_BRIDGES = (
            description="Lark Hill ramp B: riding surface not surveyed (Settings' allowance)"),
     Bridge(id="KV-1001", adtt=150.0, riding_surface="smooth", dw_factor=1.25,
            description="Wren Ferry bridge: overlay thickness measured in the field"),
+    Bridge(id="KV-0118", adtt=400.0, riding_surface="major deviations",
+           description="Alder Creek bridge, 1961"),
+    Bridge(id="KV-0120", adtt=90.0, description="Rook Lane bridge, 1948"),
 )  # fmt: skip
 
 #: The main demo inventory, US units; KVHA-D1 (design truck and lane) is the screening

@@ -17,6 +17,7 @@ from batch.loads.sourced import Sourced, Status
 from batch.model.case import PermitType, RidingSurface
 
 __all__ = [
+    "ASR_FACTOR",
     "CAPACITY_FACTOR_VALUES",
     "CONDITION_FACTORS",
     "CRAWL_IMPACT",
@@ -28,6 +29,10 @@ __all__ = [
     "KN_PER_TONNE",
     "LEGAL_IMPACT",
     "LEGAL_LIVE_LOAD",
+    "LFR_A1",
+    "LFR_A2_INVENTORY",
+    "LFR_A2_OPERATING",
+    "LFR_POSTING",
     "MIN_CAPACITY_FACTOR",
     "PERMIT_LIVE_LOAD",
     "POSTING_DIVISOR",
@@ -377,6 +382,51 @@ EV_SCREEN = Sourced(
     seen="TxDOT FAST Act's Emergency Vehicles Load Rating Guide, rev. 1.0, April 2020",
 )
 
+# ---------------------------------------------------------------- LFR and ASR (MBE Section 6B)
+
+#: Load factor rating, RF = (C - A1 D) / (A2 L (1 + I)): A2 = 2.17 at the inventory level and
+#: 1.3 at the operating level (secondary: NCHRP Synthesis 359, Bridge Rating Practices and
+#: Policies for Overweight Vehicles, 2006, p. 7, quoting the 2000 Manual for Condition
+#: Evaluation); A1 = 1.3 (from memory; the Standard Specifications' load factor design group
+#: 1.3 D + 2.17 (L + I) is its design analogue, secondary in Nowak and Iatsko, PCI Journal,
+#: May-June 2017).
+LFR_A1 = Sourced(
+    what="LFR dead-load factor A1",
+    value=(1.3,),
+    source=f"{MBE}, 6B.4.3",
+    status="from memory",
+)
+LFR_A2_INVENTORY = Sourced(
+    what="LFR live-load factor A2, inventory level",
+    value=(2.17,),
+    source=f"{MBE}, 6B.4.3",
+    status="secondary",
+    seen="NCHRP Synthesis 359 (2006), p. 7, quoting the Manual for Condition Evaluation (2000)",
+)
+LFR_A2_OPERATING = Sourced(
+    what="LFR live-load factor A2, operating level",
+    value=(1.3,),
+    source=f"{MBE}, 6B.4.3",
+    status="secondary",
+    seen="NCHRP Synthesis 359 (2006), p. 7, quoting the Manual for Condition Evaluation (2000)",
+)
+#: Allowable stress rating: A1 = A2 = 1, the capacities being allowable (inventory and
+#: operating) values; from memory.
+ASR_FACTOR = Sourced(
+    what="ASR dead-load and live-load factors A1 = A2",
+    value=(1.0,),
+    source=f"{MBE}, 6B.4.2",
+    status="from memory",
+)
+#: LFR and ASR: legal loads are rated, and posted, at the operating level; a bridge is posted
+#: at RF x W, the operating rating in tons, where that is below the legal load (MBE 6B.7; from
+#: memory).
+LFR_POSTING = Sourced(
+    what="LFR and ASR posting: the operating rating RF x W of a legal load rating below 1",
+    source=f"{MBE}, 6B.7",
+    status="from memory",
+)
+
 #: Every table value a run may use, for the Run Log: (what, value and source).
 PUBLISHED_TABLES: tuple[tuple[str, str], ...] = (
     (
@@ -400,6 +450,13 @@ PUBLISHED_TABLES: tuple[tuple[str, str], ...] = (
     ),
     ("Permits escorted at crawl speed, dynamic allowance", cited(CRAWL_IMPACT)),
     ("One-lane multiple presence factor divided out", cited(SINGLE_LANE_PRESENCE)),
+    (
+        "LFR: A1; A2 inventory; A2 operating",
+        "; ".join(cited(x) for x in (LFR_A1, LFR_A2_INVENTORY, LFR_A2_OPERATING)),
+    ),
+    ("ASR: A1 = A2", cited(ASR_FACTOR)),
+    ("LFR and ASR posting", f"{LFR_POSTING.what} ({LFR_POSTING.source}; {LFR_POSTING.status})"),
+    ("Standard Specifications impact (LFR and ASR)", cited(STANDARD_IMPACT)),
     ("SHV exemption: NRL rating factor at least", cited(SHV_SCREEN)),
     ("EV exemption: HL-93 inventory rating factor at least", cited(EV_SCREEN)),
     (

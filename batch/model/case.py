@@ -46,6 +46,11 @@ RidingSurface = Literal["smooth", "minor deviations", "major deviations"]
 #: single trip escorted with no other vehicle on the bridge, single trip mixed with traffic,
 #: multiple trips (fewer than 100 crossings) mixed with traffic.
 PermitType = Literal["routine", "single-trip escorted", "single-trip", "multiple-trip"]
+#: How a member is rated (AASHTO MBE): load and resistance factor rating (Section 6A), or,
+#: for bridges designed by the Standard Specifications, load factor rating or allowable
+#: stress rating (Section 6B).
+RatingMethod = Literal["LRFR", "LFR", "ASR"]
+RATING_METHODS: tuple[RatingMethod, ...] = get_args(RatingMethod)
 RIDING_SURFACES: tuple[RidingSurface, ...] = get_args(RidingSurface)
 PERMIT_TYPES: tuple[PermitType, ...] = get_args(PermitType)
 
@@ -625,6 +630,16 @@ class Member:
         "surface set the rating factors; blank: the Settings' factors.",
         example=_EXAMPLE_BRIDGE,
     )
+    rating_method: RatingMethod = column(
+        "Rating method",
+        "choice",
+        default="LRFR",
+        choices=RATING_METHODS,
+        meaning="LRFR (default; MBE Section 6A), or, for a bridge designed by the Standard "
+        "Specifications, LFR (load factor rating) or ASR (allowable stress rating; MBE Section "
+        "6B). LFR and ASR take the Standard Specifications' impact 50/(L + 125) at each "
+        "effect's loaded length; the Capacities row gives their capacities.",
+    )
     # As built: filled in from the Segments and Analysis sheets (not columns of Members).
     segments: tuple[Segment, ...] = ()
     analysis: Analysis | None = None
@@ -889,7 +904,8 @@ class Capacity:
         default=None,
         quantity="moment",
         minimum=0.0,
-        meaning="Factored resistance for sagging moment; blank: not rated.",
+        meaning="Capacity for sagging moment: the factored resistance phi Rn (LRFR), the "
+        "capacity C (LFR), or the inventory allowable moment (ASR); blank: not rated.",
         example=4100,
     )
     resistance_m_neg: float | None = column(
@@ -898,7 +914,7 @@ class Capacity:
         default=None,
         quantity="moment",
         minimum=0.0,
-        meaning="Factored resistance for hogging moment, as a positive magnitude; "
+        meaning="Capacity for hogging moment, as a positive magnitude (as Resistance M+); "
         "blank: not rated.",
     )
     resistance_v: float | None = column(
@@ -907,7 +923,7 @@ class Capacity:
         default=None,
         quantity="force",
         minimum=0.0,
-        meaning="Factored shear resistance; blank: not rated.",
+        meaning="Capacity for shear (as Resistance M+); blank: not rated.",
         example=380,
     )
     dc_m: float | None = column(
@@ -937,6 +953,32 @@ class Capacity:
         default=None,
         quantity="force",
         meaning="Signed wearing-surface shear here; blank: from the member's DW load.",
+    )
+    # Allowable stress rating: the operating level's capacities.
+    operating_m_pos: float | None = column(
+        "Operating M+",
+        "number",
+        default=None,
+        quantity="moment",
+        minimum=0.0,
+        meaning="ASR members only: the operating allowable sagging moment (Resistance M+ is "
+        "the inventory one); required where Resistance M+ is given.",
+    )
+    operating_m_neg: float | None = column(
+        "Operating M-",
+        "number",
+        default=None,
+        quantity="moment",
+        minimum=0.0,
+        meaning="ASR members only: the operating allowable hogging moment, a magnitude.",
+    )
+    operating_v: float | None = column(
+        "Operating V",
+        "number",
+        default=None,
+        quantity="force",
+        minimum=0.0,
+        meaning="ASR members only: the operating allowable shear.",
     )
     # Members as built: a rated section anywhere (instead of Span and Station).
     x: float | None = column(

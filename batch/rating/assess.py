@@ -14,9 +14,11 @@ from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 from batch.engine.envelope import CaseEffects, case_effects
-from batch.loads.cases import LoadCase
+from batch.loads.cases import ImpactFormula, LoadCase
+from batch.loads.factors import STANDARD_SPECIFICATIONS_IMPACT
 from batch.model import Capacity, Case, Category, Member
 from batch.model.layout import Section
+from batch.model.units import conversion
 from batch.rating.lrfr import (
     FloatArray,
     MemberDeadLoads,
@@ -51,7 +53,8 @@ class AssessmentPlan:
     ``bridges`` the factors of each bridge by id ("" for members with no bridge);
     ``reference`` is the screening reference: a vehicle index, the load cases
     of a library model, or None for no screening. ``weights`` are the vehicles'
-    gross weights in US tons or tonnes (for posting loads).
+    gross weights in US tons or tonnes (for posting loads); ``impact`` the Standard
+    Specifications' impact formula in the run's length unit (LFR and ASR members).
     """
 
     categories: tuple[Category, ...]
@@ -62,6 +65,7 @@ class AssessmentPlan:
     capacities: dict[str, tuple[Capacity, ...]] = field(default_factory=dict)
     reference: int | tuple[LoadCase, ...] | None = None
     floor: float = 0.1
+    impact: ImpactFormula = STANDARD_SPECIFICATIONS_IMPACT
 
     @classmethod
     def of(cls, case: Case) -> AssessmentPlan | None:
@@ -96,6 +100,7 @@ class AssessmentPlan:
             capacities={member: tuple(rows) for member, rows in capacities.items()},
             reference=reference if isinstance(reference, int | None) else tuple(reference),
             floor=settings.screening_floor,
+            impact=STANDARD_SPECIFICATIONS_IMPACT.scaled(conversion("US", settings.units).length),
         )
 
     def sections(self, member: Member) -> tuple[Section, ...]:
@@ -154,6 +159,7 @@ def assess_member(
             terms.factors,
             plan.weights,
             dead,
+            plan.impact,
         )
     reference = _reference(member, effects, live, plan)
     screening = (

@@ -1,4 +1,4 @@
-"""Load rating (LRFR) and fleet screening of one member, from its live-load effects.
+"""Load rating (LRFR, LFR, ASR) and fleet screening of one member, from its effects.
 
 Pure numpy: no workbook code here. Units are the run's (kip, ft, kip-ft or kN,
 m, kN-m); the sign conventions are the engine's (sagging moment positive;
@@ -7,45 +7,56 @@ V = sum of the upward forces left of the section; reactions upward).
 Rating
 ------
 At every station of a member listed on the Capacities sheet, every vehicle is
-rated with the LRFR general equation (AASHTO Manual for Bridge Evaluation,
-MBE 6A.4.2.1, from memory)::
+rated. An LRFR member (the default) with the general equation of the AASHTO
+Manual for Bridge Evaluation (MBE 6A.4.2.1; the terms secondary in Khan 2010,
+the layout from memory)::
 
     RF = (C - gDC*DC - gDW*DW) / (gLL*(LL + IM)),    C = phi_c*phi_s*(phi*Rn)
 
-where phi*Rn is the factored resistance typed in the Capacities sheet. Each
-effect is rated in its own sense, and every quantity of the equation is taken
-in that sense:
+where phi*Rn is the factored resistance typed in the Capacities sheet; an LFR or
+ASR member (its Rating method; MBE Section 6B) with::
+
+    RF = (C - A1*(DC + DW)) / (A2*L*(1 + I))
+
+C the capacity typed (ASR: the inventory and the operating allowable), A1 = 1.3
+and A2 = 2.17 (inventory) or 1.3 (operating) for LFR, A1 = A2 = 1 for ASR, and I
+the Standard Specifications' impact at the effect's loaded length, on axles and
+lane loads (batch/loads/factors.py has each value with its status). Design loads
+are rated at the inventory level with the operating level beside it; under LFR
+and ASR legal loads and permits are rated at the operating level.
+
+A *check* is one station and effect in its sense, each rated with every term
+kept (:class:`MemberRating`):
 
 * ``M+`` (sagging): LL is the vehicle's largest sagging moment, DC and DW the
   dead-load moments with sagging positive, C from ``Resistance M+``;
 * ``M-`` (hogging): LL is the vehicle's largest hogging moment as a magnitude,
   DC and DW with hogging positive, C from ``Resistance M-``;
-* ``V``: shear is rated in both senses against ``Resistance V``: positive
-  shear with the dead-load shear as signed, and negative shear with the
-  dead-load shear's sign reversed; the smaller RF is the shear rating.
+* ``V+`` and ``V-``: shear in both senses against ``Resistance V``: positive
+  shear with the dead-load shear as signed, negative shear with its sign reversed.
 
-A dead-load effect that opposes the rated sense (negative in that sense)
+LRFR: a dead-load effect that opposes the rated sense (negative in that sense)
 relieves it; it is then taken with the relieving factors (Settings ``DC factor
-relieving`` 0.90 and ``DW factor relieving`` 0.65, the minimum factors of
-AASHTO LRFD Table 3.4.1-2, from memory), so that the relief is not overstated.
+relieving`` 0.90 and ``DW factor relieving`` 0.65, the minimum factors of AASHTO
+LRFD Table 3.4.1-2), so that the relief is not overstated. phi_s applies to
+flexure only; shear takes phi_s = 1 (MBE 6A.4.2.4, from memory). For flexure
+phi_c*phi_s is not taken below :data:`MIN_CAPACITY_FACTOR` (MBE Eq. 6A.4.2.1-3).
 
-phi_s applies to flexure only; shear takes phi_s = 1 (MBE 6A.4.2.4, from
-memory), so C = phi_c*(phi*Rn) for shear. For flexure phi_c*phi_s is not taken
-below :data:`MIN_CAPACITY_FACTOR` (MBE Eq. 6A.4.2.1-3, from memory).
-
-LL + IM is the vehicle's envelope over its load cases (a library model's
-parts) with the distribution factor, the row's Load multiplier and the dynamic load
-allowance, exactly as in Envelopes. Where a vehicle produces no effect of the
-rated sense (LL + IM = 0) that effect is not rated for it (RF = inf). The
-member's rating factor for a vehicle is the smallest over its rated stations
-and effects.
+LL + IM = (1 + IM)*LL axles + (1 + IM on lane)*LL lane is the vehicle's largest
+effect over its load cases (a library model's parts), recomputed from the
+engine's static parts with the live-load factor, dynamic allowance and
+distribution factor the bridge's traffic and the vehicle's kind of crossing set
+(:mod:`batch.rating.traffic`). Where a vehicle produces no effect of the rated
+sense (LL + IM = 0) that check is not rated for it (RF = inf). The member's
+rating factor for a vehicle is the smallest over its checks.
 
 Posting and screening
 ---------------------
 For a legal load with 0.3 <= RF < 1 the posting load is ``(W/0.7)*(RF - 0.3)``
-(MBE 6A.8.3, from memory), W the vehicle's gross weight in tons (US, 2 kip) or
-tonnes (SI, 9.80665 kN); below RF 0.3 the MBE recommends considering closing
-the bridge to that load.
+(MBE 6A.8.3; secondary, Khan 2010), W the vehicle's gross weight in tons (US, 2
+kip) or tonnes (SI, 9.80665 kN); below RF 0.3 the MBE recommends considering
+closing the bridge to that load. An LFR or ASR member is posted at its operating
+rating RF*W (MBE 6B.7, from memory).
 
 Screening compares every vehicle with a reference load (e.g. the design load
 the members were designed for): for each member and vehicle, the largest ratio
@@ -64,19 +75,22 @@ from typing import TYPE_CHECKING
 import numpy as np
 from numpy.typing import NDArray
 
+from batch.engine.impact import impact_fraction
 from batch.engine.influence import InfluenceLines
 from batch.loads import library
-from batch.loads.cases import LoadCase
+from batch.loads.cases import ImpactFormula, LoadCase
 from batch.loads.factors import (
+    ASR_FACTOR,
     KIP_PER_TON,
     KN_PER_TONNE,
+    LFR_A1,
     MIN_CAPACITY_FACTOR,
     POSTING_DIVISOR,
     POSTING_FLOOR,
 )
-from batch.model import Bridge, Capacity, Category, Member, Settings, Vehicle
+from batch.model import RATING_METHODS, Bridge, Capacity, Category, Member, Settings, Vehicle
 from batch.model.units import UnitSystem
-from batch.rating.traffic import VehicleTerms, member_df
+from batch.rating.traffic import VehicleTerms, member_df, standard_terms
 
 if TYPE_CHECKING:  # the compiled engine is not needed to read ratings
     from batch.engine.envelope import CaseEffects
@@ -94,6 +108,7 @@ __all__ = [
     "factored_dead_load",
     "gross_weight",
     "member_dead_loads",
+    "operating_rating",
     "posting_load",
     "rate_member",
     "rated_live",
@@ -298,14 +313,18 @@ class MemberRating:
     (floored at 0.85 for flexure, ``k_floored``); ``k_capacity`` C = k_phi *
     k_resistance; ``k_dc``, ``k_dw`` the dead-load effects in the rated sense
     (``k_dead_given``: typed on the Capacities row) with ``k_gamma_dc``,
-    ``k_gamma_dw``.
+    ``k_gamma_dw``; ``k_capacity_operating`` the capacity of the operating level
+    (the ASR operating allowable; C itself for LRFR and LFR).
 
     Vehicles: ``v_gamma`` (and ``v_gamma_operating``) the live-load factor and
     ``v_gamma_source`` its origin; ``v_df_moment``, ``v_df_shear`` the
     distribution factors used and ``v_df_source`` which; ``v_impact_source``
     where the dynamic allowance came from; ``v_limit_state`` (codes of the
     tables of :mod:`batch.rating.traffic`: small integers, so that a member's
-    stored rating stays small however large the fleet).
+    stored rating stays small however large the fleet); ``v_operating`` marks the
+    vehicles rated at the operating level with ``k_capacity_operating`` (legal loads
+    and permits of an LFR or ASR member). ``method`` (one value) is the member's
+    rating method, the index of :data:`batch.model.RATING_METHODS`.
 
     Pairs: ``p_axle`` and ``p_lane`` the axle and lane parts of the governing
     load case's effect, distribution factor and case factor included, without
@@ -331,6 +350,7 @@ class MemberRating:
     k_phi: FloatArray
     k_floored: NDArray[np.bool_]
     k_capacity: FloatArray
+    k_capacity_operating: FloatArray
     k_dc: FloatArray
     k_dw: FloatArray
     k_dead_given: NDArray[np.bool_]
@@ -344,6 +364,7 @@ class MemberRating:
     v_df_source: NDArray[np.int8]
     v_impact_source: NDArray[np.int8]
     v_limit_state: NDArray[np.int8]
+    v_operating: NDArray[np.bool_]
     p_axle: FloatArray
     p_lane: FloatArray
     p_impact: FloatArray
@@ -354,6 +375,7 @@ class MemberRating:
     p_case: NDArray[np.int64]
     p_position: FloatArray
     p_direction: NDArray[np.int8]
+    method: NDArray[np.int8]
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -363,6 +385,7 @@ class _Checks:
     station: NDArray[np.int64]
     effect: NDArray[np.int64]
     resistance: FloatArray
+    operating: FloatArray
     dc: FloatArray
     dw: FloatArray
     given: NDArray[np.bool_]
@@ -375,7 +398,7 @@ def _checks(
     il: InfluenceLines,
 ) -> _Checks:
     """One check per Capacities row and rated effect it gives a resistance for, in row order."""
-    station, effect, resistance, dc, dw, given = [], [], [], [], [], []
+    station, effect, resistance, operating, dc, dw, given = [], [], [], [], [], [], []
     for c in capacities:
         at = c.section(member.spans)
         row = None if at is None else il.station_index(at)
@@ -383,6 +406,7 @@ def _checks(
             raise ValueError(f"member {member.id!r}: give capacities at the member's own stations")
         for k, (_, family, sense) in enumerate(RATED_EFFECTS):
             rn = (c.resistance_m_pos, c.resistance_m_neg, c.resistance_v, c.resistance_v)[k]
+            op = (c.operating_m_pos, c.operating_m_neg, c.operating_v, c.operating_v)[k]
             if rn is None:
                 continue
             line = (il.moment_rows if family == "moment" else il.shear_rows).start + row
@@ -390,6 +414,7 @@ def _checks(
             station.append(row)
             effect.append(k)
             resistance.append(rn)
+            operating.append(np.nan if op is None else op)
             dc.append(sense * (dead.dc[line] if typed[0] is None else typed[0]))
             dw.append(sense * (dead.dw[line] if typed[1] is None else typed[1]))
             given.append(typed[0] is not None or typed[1] is not None)
@@ -399,6 +424,7 @@ def _checks(
         station=np.array(station, dtype=np.int64),
         effect=np.array(effect, dtype=np.int64),
         resistance=np.array(resistance, dtype=float),
+        operating=np.array(operating, dtype=float),
         dc=np.array(dc, dtype=float),
         dw=np.array(dw, dtype=float),
         given=np.array(given, dtype=bool),
@@ -427,6 +453,7 @@ def rated_live(
     impact: FloatArray,
     df: FloatArray,
     multi_lane: NDArray[np.bool_],
+    formula: ImpactFormula | None = None,
 ) -> _RatedLive:
     """Each vehicle's LL + IM at the effect rows ``lines``, in the rated ``senses``.
 
@@ -438,8 +465,11 @@ def rated_live(
     a case with an impact formula keeps the formula's. ``df`` (n_vehicles, n_lines)
     is the distribution factor each vehicle uses at each line. A vehicle with its
     cases' own allowance and the multi-lane factor (``multi_lane``) takes the
-    engine's value itself, so that such a rating is exactly the envelope's. The
-    vehicle's effect is its largest case's (the first on ties).
+    engine's value itself, so that such a rating is exactly the envelope's. With an
+    impact ``formula`` (an LFR or ASR member: the Standard Specifications' impact in
+    the run's length unit) every case takes the formula at each line's loaded length
+    instead, on its axles and its lane load alike. The vehicle's effect is its
+    largest case's (the first on ties).
     """
     up = senses[None, :] > 0
     side = {
@@ -451,10 +481,17 @@ def rated_live(
     sign = np.where(up, 1.0, -1.0)
     axle, lane, value = sign * side["axle"], sign * side["lane"], sign * side["value"]
     vehicle = np.array([c.vehicle for c in cases], dtype=np.int64)
-    formula = np.array([c.impact_formula is not None for c in cases], dtype=bool)[:, None]
-    replaced = ~np.isnan(impact[vehicle])[:, None] & ~formula
-    im = np.where(replaced, impact[vehicle][:, None], side["impact"])
-    im_lane = np.where(formula, im, 0.0)
+    if formula is not None:
+        length = np.where(up[0], effects.max_loaded_length[lines], effects.min_loaded_length[lines])
+        standard = impact_fraction(formula, length)[None, :]
+        im = np.broadcast_to(standard, axle.shape)
+        im_lane = im
+        replaced = np.ones(axle.shape, dtype=bool)
+    else:
+        on_lane = np.array([c.impact_formula is not None for c in cases], dtype=bool)[:, None]
+        replaced = ~np.isnan(impact[vehicle])[:, None] & ~on_lane
+        im = np.where(replaced, impact[vehicle][:, None], side["impact"])
+        im_lane = np.where(on_lane, im, 0.0)
     d = df[vehicle]
     own = (multi_lane[vehicle][:, None]) & ~replaced
     live = np.where(own, value, d * ((1 + im) * axle + (1 + im_lane) * lane))
@@ -487,6 +524,7 @@ def rate_member(
     factors: RatingFactors,
     weights: Sequence[float],
     dead: MemberDeadLoads | None = None,
+    formula: ImpactFormula | None = None,
 ) -> MemberRating:
     """Rate every vehicle at the member's ``capacities`` stations (see the module docstring).
 
@@ -495,19 +533,39 @@ def rate_member(
     (:func:`batch.rating.traffic.vehicle_terms`) and ``factors`` its dead-load
     factors; ``weights`` the vehicles' gross weights in US tons or tonnes, for
     the posting loads. ``capacities`` are the Capacities rows of this member, at
-    least one (validated: each on one of the member's stations).
+    least one (validated: each on one of the member's stations). An LFR or ASR
+    member (its Rating method) is rated by MBE Section 6B instead: see
+    :func:`_standard_method`; ``formula`` is then the Standard Specifications'
+    impact in the run's length unit.
     """
     il = effects.lines
     dead = dead if dead is not None else member_dead_loads(member, il)
     ck = _checks(member, capacities, dead, il)
     flexure = ck.effect < 2
-    phi_c = np.full(ck.effect.shape, member.condition_factor)
-    phi_s = np.where(flexure, member.system_factor, 1.0)
-    floored = flexure & (phi_c * phi_s < MIN_CAPACITY_FACTOR)
-    phi = np.where(floored, MIN_CAPACITY_FACTOR, phi_c * phi_s)
-    capacity = phi * ck.resistance
-    gamma_dc, gamma_dw = dead_load_factors(ck.dc, ck.dw, factors)
-    numerator = capacity - (gamma_dc * ck.dc + gamma_dw * ck.dw)
+    if member.rating_method == "LRFR":
+        phi_c = np.full(ck.effect.shape, member.condition_factor)
+        phi_s = np.where(flexure, member.system_factor, 1.0)
+        floored = flexure & (phi_c * phi_s < MIN_CAPACITY_FACTOR)
+        phi = np.where(floored, MIN_CAPACITY_FACTOR, phi_c * phi_s)
+        capacity = phi * ck.resistance
+        capacity_operating = capacity
+        gamma_dc, gamma_dw = dead_load_factors(ck.dc, ck.dw, factors)
+        formula = None
+    else:
+        if formula is None:
+            raise ValueError(
+                f"member {member.id!r}: {member.rating_method} needs the impact formula"
+            )
+        terms = standard_terms(categories, member.rating_method)
+        phi_c = phi_s = phi = np.ones(ck.effect.shape)
+        floored = np.zeros(ck.effect.shape, dtype=bool)
+        capacity = ck.resistance
+        capacity_operating = ck.resistance if member.rating_method == "LFR" else ck.operating
+        a1 = LFR_A1.number if member.rating_method == "LFR" else ASR_FACTOR.number
+        gamma_dc = gamma_dw = np.full(ck.effect.shape, a1)
+    dead_part = gamma_dc * ck.dc + gamma_dw * ck.dw
+    numerator = capacity - dead_part
+    numerator_operating = capacity_operating - dead_part
     family_rows = np.where(flexure, il.moment_rows.start, il.shear_rows.start)
     senses = np.array([RATED_EFFECTS[k][2] for k in ck.effect], dtype=np.int64)
     # Fatigue loads take the one-lane DF / 1.2 in the engine; rating shows the same.
@@ -526,12 +584,14 @@ def rate_member(
         terms.impact,
         df,
         ~one_lane,
+        formula,
     )
-    rf = _ratio(numerator[None, :], live.live * terms.gamma[:, None])
+    level = np.where(terms.operating[:, None], numerator_operating[None, :], numerator[None, :])
+    rf = _ratio(level, live.live * terms.gamma[:, None])
     design = np.array(categories) == "design"
     rf_op = np.where(
         design[:, None],
-        _ratio(numerator[None, :], live.live * terms.gamma_operating[:, None]),
+        _ratio(numerator_operating[None, :], live.live * terms.gamma_operating[:, None]),
         np.nan,
     )
     n = np.arange(len(categories))
@@ -539,12 +599,14 @@ def rate_member(
     governing = rf[n, best]
     found = np.isfinite(governing)
     operating = np.where(found, rf_op[n, best], np.nan)
+    lrfr = member.rating_method == "LRFR"
+    posted = posting_load if lrfr else operating_rating
     posting = [
-        posting_load(float(r), w) if c == "legal" else None
+        posted(float(r), w) if c == "legal" else None
         for r, w, c in zip(governing, weights, categories, strict=True)
     ]
     flags = [
-        rating_flag(c, float(r), float(op))
+        rating_flag(c, float(r), float(op), lrfr)
         for r, op, c in zip(governing, operating, categories, strict=True)
     ]
     return MemberRating(
@@ -563,6 +625,7 @@ def rate_member(
         k_phi=phi,
         k_floored=floored,
         k_capacity=capacity,
+        k_capacity_operating=capacity_operating,
         k_dc=ck.dc,
         k_dw=ck.dw,
         k_dead_given=ck.given,
@@ -576,6 +639,7 @@ def rate_member(
         v_df_source=np.array([w for _, _, w in dfs], dtype=np.int8),
         v_impact_source=terms.impact_source,
         v_limit_state=terms.limit_state,
+        v_operating=terms.operating,
         p_axle=live.axle,
         p_lane=live.lane,
         p_impact=live.impact,
@@ -586,6 +650,7 @@ def rate_member(
         p_case=live.case,
         p_position=live.position,
         p_direction=live.direction,
+        method=np.array([RATING_METHODS.index(member.rating_method)], dtype=np.int8),
     )
 
 
@@ -618,6 +683,17 @@ def posting_load(rf: float, weight: float) -> float | None:
     return weight / POSTING_DIVISOR * (rf - POSTING_FLOOR)
 
 
+def operating_rating(rf: float, weight: float) -> float | None:
+    """LFR and ASR: the operating rating RF x W of a legal load rating below 1, else None.
+
+    The posting of MBE 6B.7 (from memory; batch/loads/factors.py, ``LFR_POSTING``):
+    ``rf`` at the operating level, ``weight`` W and the result in tons or tonnes.
+    """
+    if not 0.0 <= rf < 1.0:
+        return None
+    return rf * weight
+
+
 #: The notes a governing rating may carry, by code (``MemberRating.flag``); 0 is none.
 FLAGS: tuple[str, ...] = (
     "",
@@ -631,10 +707,14 @@ FLAGS: tuple[str, ...] = (
 )
 
 
-def rating_flag(category: Category, rf: float, rf_operating: float) -> str | None:
+def rating_flag(
+    category: Category, rf: float, rf_operating: float, lrfr: bool = True
+) -> str | None:
     """A short note on a governing RF (one of :data:`FLAGS`; None when there is nothing to say).
 
-    ``rf`` is ``inf`` where the vehicle loads none of the rated effects.
+    ``rf`` is ``inf`` where the vehicle loads none of the rated effects. The closure
+    note below RF 0.3 is the LRFR posting rule's (MBE 6A.8.3); an LFR or ASR member
+    (``lrfr`` False) is posted at its operating rating down to RF 0.
     """
     if np.isinf(rf) and rf > 0:
         return FLAGS[1]
@@ -643,7 +723,7 @@ def rating_flag(category: Category, rf: float, rf_operating: float) -> str | Non
     if rf < 0:
         return FLAGS[2]
     if category == "legal":
-        return FLAGS[3] if rf < POSTING_FLOOR else FLAGS[4]
+        return FLAGS[3] if lrfr and rf < POSTING_FLOOR else FLAGS[4]
     if category == "permit":
         return FLAGS[5]
     if np.isfinite(rf_operating) and rf_operating < 1.0:

@@ -47,14 +47,17 @@ import numpy as np
 from numpy.typing import NDArray
 
 from batch.loads.factors import (
+    ASR_FACTOR,
     CRAWL_IMPACT,
     LEGAL_IMPACT,
     LEGAL_LIVE_LOAD,
+    LFR_A2_INVENTORY,
+    LFR_A2_OPERATING,
     PERMIT_LIVE_LOAD,
     SINGLE_LANE_PRESENCE,
     STRENGTH_LIMIT_STATE,
 )
-from batch.model import RIDING_SURFACES, Bridge, Member, Settings, Vehicle
+from batch.model import RIDING_SURFACES, Bridge, Member, RatingMethod, Settings, Vehicle
 
 __all__ = [
     "DF_SOURCES",
@@ -63,6 +66,7 @@ __all__ = [
     "LIMIT_STATES",
     "VehicleTerms",
     "member_df",
+    "standard_terms",
     "vehicle_terms",
 ]
 
@@ -79,6 +83,9 @@ GAMMA_SOURCES: tuple[str, ...] = (
     "MBE Table 6A.4.5.4.2a-1 at the bridge's ADTT",
     "MBE Table 6A.4.5.4.2a-1, ADTT not known: its ADTT > 5000 value",
     "MBE Table 6A.4.5.4.2a-1, single-trip escorted (any ADTT)",
+    "LFR, inventory level: A2 (MBE 6B.4.3)",
+    "LFR, operating level: A2 (MBE 6B.4.3)",
+    "ASR: A2 = 1 (MBE 6B.4.2)",
 )
 #: Where a dynamic load allowance came from, by code (``VehicleTerms.impact_source``): the
 #: load case's own (the Settings', or one a library model fixes), a riding surface, or crawl.
@@ -86,6 +93,8 @@ IMPACT_SOURCES: tuple[str, ...] = (
     "the load case's own",
     *(f"riding surface: {surface} (MBE C6A.4.4.3)" for surface in RIDING_SURFACES),
     "escorted at crawl speed (MBE 6A.4.5.5)",
+    "Standard Specifications, 50/(L + 125) <= 0.30 at the effect's loaded length (Art. 3.8.2),"
+    " on axles and lane",
 )
 #: Which distribution factor a vehicle uses, by code (see :func:`member_df`).
 DF_SOURCES: tuple[str, ...] = (
@@ -94,7 +103,11 @@ DF_SOURCES: tuple[str, ...] = (
     f"one lane / {SINGLE_LANE_PRESENCE.number:g}; multi-lane where no one-lane DF is given",
 )
 #: The limit states a rating row may name, by code.
-LIMIT_STATES: tuple[str, ...] = tuple(dict.fromkeys(STRENGTH_LIMIT_STATE.values()))
+LIMIT_STATES: tuple[str, ...] = (
+    *dict.fromkeys(STRENGTH_LIMIT_STATE.values()),
+    "Load factor (LFR)",
+    "Allowable stress (ASR)",
+)
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -117,6 +130,7 @@ class VehicleTerms:
     impact_source: Codes
     one_lane: NDArray[np.bool_]
     limit_state: Codes
+    operating: NDArray[np.bool_]
 
 
 def _design(bridge: Bridge | None, settings: Settings) -> tuple[float, float, int]:
@@ -192,6 +206,41 @@ def vehicle_terms(
         impact_source=np.array(impact_source, dtype=np.int8),
         one_lane=np.array(one_lane, dtype=bool),
         limit_state=np.array(limit, dtype=np.int8),
+        operating=np.zeros(len(gamma), dtype=bool),
+    )
+
+
+def standard_terms(categories: Sequence[str], method: RatingMethod) -> VehicleTerms:
+    """The terms of an LFR or ASR member (MBE Section 6B), whatever its bridge's traffic.
+
+    Design loads are rated at the inventory level with the operating level beside
+    it; legal loads and permits at the operating level. LFR: A2 = 2.17 (inventory)
+    and 1.3 (operating); ASR: A2 = 1 (the capacities are allowable values for each
+    level). Every load case takes the Standard Specifications' impact at the
+    effect's loaded length, on its axles and lane (code of :data:`IMPACT_SOURCES`);
+    distribution factors are the multi-lane ones.
+    """
+    design = np.array([c == "design" for c in categories], dtype=bool)
+    if method == "LFR":
+        inventory, operating = LFR_A2_INVENTORY.number, LFR_A2_OPERATING.number
+        sources = (
+            GAMMA_SOURCES.index("LFR, inventory level: A2 (MBE 6B.4.3)"),
+            GAMMA_SOURCES.index("LFR, operating level: A2 (MBE 6B.4.3)"),
+        )
+    else:
+        inventory = operating = ASR_FACTOR.number
+        sources = (GAMMA_SOURCES.index("ASR: A2 = 1 (MBE 6B.4.2)"),) * 2
+    limit = LIMIT_STATES.index("Load factor (LFR)" if method == "LFR" else "Allowable stress (ASR)")
+    n = design.size
+    return VehicleTerms(
+        gamma=np.where(design, inventory, operating),
+        gamma_operating=np.where(design, operating, np.nan),
+        gamma_source=np.where(design, sources[0], sources[1]).astype(np.int8),
+        impact=np.full(n, np.nan),
+        impact_source=np.full(n, len(IMPACT_SOURCES) - 1, dtype=np.int8),
+        one_lane=np.zeros(n, dtype=bool),
+        limit_state=np.full(n, limit, dtype=np.int8),
+        operating=~design,
     )
 
 

@@ -9,6 +9,9 @@
   escorted permit (MBE 6A.4.5.5).
 * A rated member without single-lane distribution factors, in a fleet with special
   permits, warns that those permits take its multi-lane factors.
+* Rating methods: a Capacities row of an ASR member gives the operating allowable
+  beside every inventory one it gives (Operating M+, M-, V); the operating columns
+  belong to ASR members only.
 
 The schema has already judged each value on its own; a field it rejected is skipped.
 """
@@ -80,6 +83,7 @@ def traffic_problems(
                 "error",
             )
     yield from _single_lane_warnings(document, members, vehicles, ok)
+    yield from _method_problems(document, members, ok)
 
 
 def _vehicle_problems(
@@ -190,6 +194,8 @@ def _single_lane_warnings(
         ident = _ident(member)
         if ident is None or ident.casefold() not in rated:
             continue
+        if member.get("rating_method", "LRFR") != "LRFR":  # LFR and ASR: multi-lane DFs
+            continue
         missing = [k for k in ("df_moment_single", "df_shear_single") if k not in member]
         at = ("members", i, missing[0] if missing else "df_moment_single")
         if missing and ok(at):
@@ -201,3 +207,49 @@ def _single_lane_warnings(
                 "MBE asks for (6A.4.5.4.2); give the one-lane DFs as AASHTO LRFD gives them",
                 "warning",
             )
+
+
+_OPERATING = (
+    ("resistance_m_pos", "operating_m_pos"),
+    ("resistance_m_neg", "operating_m_neg"),
+    ("resistance_v", "operating_v"),
+)
+
+
+def _method_problems(
+    document: dict[str, Any],
+    members: list[tuple[int, dict[str, Any]]],
+    ok: Callable[[DocPath], bool],
+) -> Iterator[Found]:
+    """ASR rows give an operating capacity beside each inventory one; others give none."""
+    methods = {
+        ident.casefold(): m.get("rating_method", "LRFR")
+        for _, m in members
+        if (ident := _ident(m)) is not None
+    }
+    for i, row in _rows(document, "capacities"):
+        name = row.get("member")
+        if not isinstance(name, str) or name.strip().casefold() not in methods:
+            continue
+        asr = methods[name.strip().casefold()] == "ASR"
+        for inventory, operating in _OPERATING:
+            at: DocPath = ("capacities", i, operating)
+            if not ok(at) or not ok(("capacities", i, inventory)):
+                continue
+            if asr and inventory in row and operating not in row:
+                yield (
+                    at,
+                    "no-operating-capacity",
+                    f"member {name.strip()!r} is rated by ASR, and its operating level needs its "
+                    f"own allowable; give {label(at)} beside {label(('capacities', i, inventory))}"
+                    " (the inventory allowable), or rate the member by LRFR or LFR",
+                    "error",
+                )
+            elif not asr and operating in row:
+                yield (
+                    at,
+                    "operating-not-asr",
+                    f"{label(at)} is for members rated by ASR, and member {name.strip()!r} is "
+                    "not; leave it blank, or set the member's Rating method to ASR",
+                    "error",
+                )

@@ -35,7 +35,7 @@ from batch.engine.effects import (
     governing_row,
 )
 from batch.engine.fatigue import FatigueRanges
-from batch.model import Bridge, Case, Member
+from batch.model import RATING_METHODS, Bridge, Case, Member
 from batch.rating.lrfr import FLAGS, RATED_EFFECTS, MemberDeadLoads, MemberRating
 from batch.rating.posting import BridgePosting
 from batch.rating.screening import SCREEN_EFFECTS, MemberScreening
@@ -653,12 +653,21 @@ _Cells = Callable[[MemberRating, NDArray[np.int64], NDArray[np.int64]], NDArray[
 _Term = tuple[str, ResultQuantity, str, float, str, _Cells]
 _TERMS: tuple[_Term, ...] = (
     (
+        "Method",
+        "",
+        "",
+        7,
+        "The member's rating method: LRFR (MBE Section 6A), LFR or ASR (Section 6B).",
+        lambda r, v, k: np.full(np.shape(k), RATING_METHODS[int(r.method[0])]),
+    ),
+    (
         "Limit state",
         "",
         "",
         11,
         "The limit state of the check, as the MBE names it: Strength I for design and legal "
-        "loads, Strength II for permits (MBE Table 6A.4.2.2-1).",
+        "loads, Strength II for permits (MBE Table 6A.4.2.2-1); Load factor or Allowable "
+        "stress for LFR and ASR members.",
         lambda r, v, k: _words(LIMIT_STATES, r.v_limit_state[v]),
     ),
     (
@@ -666,7 +675,8 @@ _TERMS: tuple[_Term, ...] = (
         "",
         FORMAT_VALUE,
         10,
-        "The factored resistance phi*Rn typed on the Capacities row (moment or shear).",
+        "The capacity typed on the Capacities row (moment or shear): the factored resistance "
+        "phi*Rn (LRFR), the capacity (LFR), the inventory allowable (ASR).",
         lambda r, v, k: r.k_resistance[k],
     ),
     (
@@ -710,6 +720,23 @@ _TERMS: tuple[_Term, ...] = (
         lambda r, v, k: r.k_capacity[k],
     ),
     (
+        "C operating",
+        "",
+        FORMAT_VALUE,
+        10,
+        "The operating level's capacity: the ASR operating allowable; C itself for LRFR and LFR.",
+        lambda r, v, k: r.k_capacity_operating[k],
+    ),
+    (
+        "C used",
+        "",
+        "",
+        12,
+        "Which capacity RF uses: C, or C operating (legal loads and permits of an LFR or ASR "
+        "member, rated at the operating level).",
+        lambda r, v, k: np.where(r.v_operating[v], "C operating", "C"),
+    ),
+    (
         "DC",
         "",
         FORMAT_VALUE,
@@ -722,7 +749,8 @@ _TERMS: tuple[_Term, ...] = (
         "",
         FORMAT_FACTOR,
         8,
-        "Load factor on DC: the DC factor, or DC factor relieving where DC is negative.",
+        "Load factor on DC: the DC factor, or DC factor relieving where DC is negative "
+        "(LRFR); A1 (LFR 1.3, ASR 1).",
         lambda r, v, k: r.k_gamma_dc[k],
     ),
     (
@@ -738,7 +766,8 @@ _TERMS: tuple[_Term, ...] = (
         "",
         FORMAT_FACTOR,
         8,
-        "Load factor on DW: the DW factor, or DW factor relieving where DW is negative.",
+        "Load factor on DW: the DW factor, or DW factor relieving where DW is negative "
+        "(LRFR); A1 (LFR, ASR).",
         lambda r, v, k: r.k_gamma_dw[k],
     ),
     (
@@ -1056,7 +1085,7 @@ RATING_DETAIL: ResultTable[RatedMember] = ResultTable(
     sheet="Rating Detail",
     purpose="One row per rated member, vehicle and check (a rated station and effect, in its "
     "sense): every term of the rating equation, so that each RF can be recomputed from its "
-    "row alone: RF = (C - gamma DC * DC - gamma DW * DW) / (gamma LL * (LL+IM)), with "
+    "row alone: RF = (C used - gamma DC * DC - gamma DW * DW) / (gamma LL * (LL+IM)), with "
     "C = (phi c phi s) * (phi Rn) and LL+IM = (1 + IM) * LL axles + (1 + IM on lane) * LL lane.",
     blocks=_rated,
     rows=lambda result: result.rated.checks,
