@@ -41,7 +41,13 @@ from batch.reading.cells import NUMBER_RULE
 from batch.writing.cautions import CAUTIONS, SIGN_CONVENTIONS
 from batch.writing.package.save import SaveError, atomic_save
 from batch.writing.package.stream import PageSetup
-from batch.writing.printing import HEADER_PARTS, page_setup, wrapped_height
+from batch.writing.printing import (
+    HEADER_PARTS,
+    LINE_POINTS,
+    page_setup,
+    wrapped_height,
+    wrapped_lines,
+)
 
 __all__ = [
     "GUIDE_SHEET",
@@ -65,6 +71,8 @@ _ZIP_TIME = (1980, 1, 1, 0, 0, 0)
 #: Drop-down lists apply from row 2 down to the last row a sheet can have.
 _LAST_ROW = 1_048_576
 _MAX_WIDTH = 60
+#: Widest a column grows for its header alone (characters); a longer header wraps.
+_HEADER_CHARS = 16
 #: Width of the guide sheet's one column, characters: narrow enough to print on a
 #: portrait page of Letter or A4 at full size even in a font a third wider than the
 #: workbook's (a program without Calibri substitutes one), since a one-column sheet is
@@ -193,7 +201,7 @@ def _style_header(ws: Worksheet, sheet: InputSheet, units: UnitSystem) -> None:
         _put(cell, header_text(column, units))
         cell.font = _HEADER_FONT
         cell.fill = _REQUIRED_FILL if column.required else _HEADER_FILL
-        cell.alignment = Alignment(vertical="center")
+        cell.alignment = Alignment(vertical="center", wrap_text=True)
         note = _header_note(column)
         if note:
             cell.comment = Comment(note, "spanfleet", height=150, width=320)
@@ -259,10 +267,19 @@ def _write_table(
         if column.choices:
             letter = get_column_letter(j)
             _add_choice_list(ws, column.header, column.choices, f"{letter}2:{letter}{_LAST_ROW}")
+    headers = [header_text(c, units) for c in sheet.columns]
+    # A long header wraps onto a second line rather than widening its column, so that a
+    # sheet of many columns still prints to the page width.
     widths = _set_widths(
         ws,
-        [[header_text(c, units), *(str(r.get(c.key) or "") for r in rows)] for c in sheet.columns],
+        [
+            [h[: _HEADER_CHARS - 3], *(str(r.get(c.key) or "") for r in rows)]
+            for h, c in zip(headers, sheet.columns, strict=True)
+        ],
     )
+    lines = max(wrapped_lines(h, w) for h, w in zip(headers, widths, strict=True))
+    if lines > 1:
+        ws.row_dimensions[1].height = lines * LINE_POINTS
     ws.freeze_panes = "B2"
     _print_setup(ws, page_setup(widths, 1, units))
 
