@@ -16,6 +16,7 @@ process), which tests/test_rating.py and tests/test_rating_runs.py check.
 from __future__ import annotations
 
 import contextlib
+import dataclasses
 import io
 import shutil
 from pathlib import Path
@@ -241,6 +242,8 @@ def test_a_ratings_table_too_long_for_a_sheet_is_left_to_the_store(tmp_path: Pat
     # the Run Log, while the matrix (one row per member) still fits.
     case = read_input(SAMPLES / "kvha-inventory.xlsx").case
     assert case is not None
+    # (without HS20, whose Impact sheet gives a member more rows than this lowered limit)
+    case = dataclasses.replace(case, vehicles=tuple(v for v in case.vehicles if v.id != "HS20"))
     result = run_case(case)
     info = InputInfo(name="case.json", digest="0" * 64, source="json", output="out.xlsx")
     path = tmp_path / "out.xlsx"
