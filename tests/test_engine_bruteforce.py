@@ -347,10 +347,10 @@ def test_a_whole_fleet_in_one_call_matches_brute_force(index: int) -> None:
     # A run hands a member's whole fleet to the compiled kernel at once: the rigid trains
     # swept together, then every ranged train's rigid range ends and free chains. Each
     # vehicle's row must hold the extremes the brute-force search finds for it alone
-    # (stepped and polished, see the module docstring; common practice), and where its
-    # spacings are fixed, its vehicle at the reported position and direction must give
-    # the reported value. A ranged vehicle's row must also equal the one-vehicle sweep's,
-    # whose reported spacing test_exact_extremes_match_brute_force checks.
+    # (stepped and polished, see the module docstring; common practice), and its vehicle
+    # at the reported position, direction and (for a ranged train) spacing must give the
+    # reported value, evaluated axle by axle from the influence line (_value_at_reported).
+    # A ranged vehicle's row must also equal the one-vehicle sweep's.
     rng = np.random.default_rng([SEED, N_CASES + index])
     member = _random_member(rng)
     fleet = [_random_vehicle(rng) for _ in range(FLEET_SIZE)]
@@ -360,19 +360,37 @@ def test_a_whole_fleet_in_one_call_matches_brute_force(index: int) -> None:
         for i, v in enumerate(fleet)
     ]
     found = fleet_extremes_of(il, cases)
+    width = max(int(np.sum(v.hi > v.lo)) for v in fleet)
+    assert found.max_spacing.shape == found.min_spacing.shape == (*found.max_value.shape, width)
     for row, vehicle in enumerate(fleet):
         brute = BruteForce(il, vehicle)
         scale = il.effect_scale * vehicle.loads.sum()
         alone = axle_extremes(il, AxleTrain.of(vehicle.loads, vehicle.lo, vehicle.hi))
+        ranged = np.flatnonzero(vehicle.hi > vehicle.lo)
+        spacings = {}
+        for name, reported in (("max", found.max_spacing[row]), ("min", found.min_spacing[row])):
+            # A ranged gap's row holds its spacing (within its range) wherever an axle
+            # gives the extreme; past the train's own ranged gaps, and for a fixed train,
+            # NaN.
+            assert np.all(np.isnan(reported[:, ranged.size :]))
+            value = getattr(found, f"{name}_value")[row]
+            moved = getattr(found, f"{name}_direction")[row] != 0
+            used = np.tile(vehicle.lo, (il.n_effects, 1))
+            used[:, ranged] = reported[:, : ranged.size]
+            assert np.all(np.isfinite(used[moved])), row
+            assert np.all(used[moved] >= vehicle.lo - 1e-9), row
+            assert np.all(used[moved] <= vehicle.hi + 1e-9), row
+            assert np.all(moved | (value == 0.0)), row
+            spacings[name] = used
         row_extremes = AxleExtremes(
             max_value=found.max_value[row],
             max_position=found.max_position[row],
             max_direction=found.max_direction[row],
-            max_spacing=np.tile(vehicle.lo, (il.n_effects, 1)),
+            max_spacing=spacings["max"],
             min_value=found.min_value[row],
             min_position=found.min_position[row],
             min_direction=found.min_direction[row],
-            min_spacing=np.tile(vehicle.lo, (il.n_effects, 1)),
+            min_spacing=spacings["min"],
         )
         for sense, engine, one in (
             (1.0, row_extremes.max_value, alone.max_value),
@@ -380,6 +398,55 @@ def test_a_whole_fleet_in_one_call_matches_brute_force(index: int) -> None:
         ):
             assert np.all(np.abs(brute.extreme(sense) - engine) <= REL_TOL_EXACT * scale), row
             assert np.all(np.abs(one - engine) <= REL_TOL_EXACT * scale), row
-            if np.all(vehicle.hi == vehicle.lo):
-                reproduced = _value_at_reported(il, vehicle, row_extremes, sense)
-                assert np.all(np.abs(reproduced - engine) <= REL_TOL_EXACT * scale), row
+            reproduced = _value_at_reported(il, vehicle, row_extremes, sense)
+            assert np.all(np.abs(reproduced - engine) <= REL_TOL_EXACT * scale), row
+
+
+def test_a_fleet_reports_the_spacing_of_each_ranged_gap() -> None:
+    # Two ranged gaps with a fixed one between them (a permit-like train), beside an
+    # HL-93-like truck (AASHTO LRFD 3.6.1.2.2: 14 ft, then 14 to 30 ft) and a fixed train,
+    # on three unequal spans. Each extreme's row of spacings holds one place per ranged
+    # gap, front to rear; the train placed at the reported position, direction and
+    # spacings gives the reported value, evaluated axle by axle (_value_at_reported).
+    il = influence_lines([60.0, 80.0, 60.0], [1.0, 1.0, 1.0], (), 10)
+    fleet = [
+        Vehicle(loads=np.array([8.0, 32.0, 32.0]), lo=np.array([14.0, 14.0]),
+                hi=np.array([14.0, 30.0])),
+        Vehicle(loads=np.array([12.0, 30.0, 30.0, 25.0]), lo=np.array([10.0, 4.0, 12.0]),
+                hi=np.array([24.0, 4.0, 40.0])),
+        Vehicle(loads=np.array([10.0, 20.0]), lo=np.array([12.0]), hi=np.array([12.0])),
+    ]  # fmt: skip
+    cases = [
+        LoadCase(label=f"vehicle {i}", train=AxleTrain.of(v.loads, v.lo, v.hi))
+        for i, v in enumerate(fleet)
+    ]
+    found = fleet_extremes_of(il, cases)
+    assert found.max_spacing.shape == (3, il.n_effects, 2)
+    assert np.all(np.isnan(found.max_spacing[0, :, 1]))
+    assert np.all(np.isnan(found.max_spacing[2])) and np.all(np.isnan(found.min_spacing[2]))
+    for row, vehicle in enumerate(fleet):
+        ranged = np.flatnonzero(vehicle.hi > vehicle.lo)
+        used = {}
+        for name in ("max", "min"):
+            full = np.tile(vehicle.lo, (il.n_effects, 1))
+            full[:, ranged] = getattr(found, f"{name}_spacing")[row][:, : ranged.size]
+            used[name] = full
+        row_extremes = AxleExtremes(
+            max_value=found.max_value[row],
+            max_position=found.max_position[row],
+            max_direction=found.max_direction[row],
+            max_spacing=used["max"],
+            min_value=found.min_value[row],
+            min_position=found.min_position[row],
+            min_direction=found.min_direction[row],
+            min_spacing=used["min"],
+        )
+        scale = il.effect_scale * vehicle.loads.sum()
+        for sense, engine in ((1.0, found.max_value[row]), (-1.0, found.min_value[row])):
+            reproduced = _value_at_reported(il, vehicle, row_extremes, sense)
+            assert np.all(np.abs(reproduced - engine) <= REL_TOL_EXACT * scale), row
+    # The free spacing is used: somewhere a ranged gap governs strictly inside its range
+    # (here the first gap of the permit-like train, for some hogging moments and shears).
+    both = np.concatenate([found.max_spacing[1], found.min_spacing[1]])
+    inside = (both > fleet[1].lo[[0, 2]] + 1e-6) & (both < fleet[1].hi[[0, 2]] - 1e-6)
+    assert inside.any()

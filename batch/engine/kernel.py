@@ -45,7 +45,9 @@ __all__ = [
 ]
 
 #: Governing kept per row and effect: maximum, its front-axle position and
-#: direction, then the same three for the minimum.
+#: direction, then the same three for the minimum (each (rows, n_effects)); then the
+#: spacings of the maximum and of the minimum ((rows, n_effects, W): the spacing of
+#: each ranged gap of the train, W the most ranged gaps of any train kept, 0 when none).
 Governing = tuple[
     NDArray[np.float64],
     NDArray[np.float64],
@@ -53,6 +55,8 @@ Governing = tuple[
     NDArray[np.float64],
     NDArray[np.float64],
     NDArray[np.int8],
+    NDArray[np.float64],
+    NDArray[np.float64],
 ]
 
 
@@ -157,6 +161,9 @@ def _copy(plan: SweepPlan, out: Governing) -> None:
             out[3][i, e] = out[3][i, source]
             out[4][i, e] = out[4][i, source]
             out[5][i, e] = out[5][i, source]
+            for g in range(out[6].shape[2]):
+                out[6][i, e, g] = out[6][i, source, g]
+                out[7][i, e, g] = out[7][i, source, g]
 
 
 @nb.njit(cache=True, inline="always")
@@ -621,6 +628,7 @@ def fleet_extremes(
     tol: float,
     keep: tuple[bool, bool],
     out: Governing,
+    spacing: np.ndarray,
 ) -> None:
     """The governing extremes of many rigid axle trains (fixed spacings), kept in ``out``.
 
@@ -630,7 +638,10 @@ def fleet_extremes(
     n_effects)) keeps whichever is worse, the extreme held or the train's:
     the maximum, its front-axle position and direction, then the same for the
     minimum, each only if ``keep`` says so (maximum, minimum). Rows start from
-    0 with position NaN and direction 0 (the train off the member).
+    0 with position NaN and direction 0 (the train off the member). Where a
+    train's extreme is kept, so is its row of ``spacing`` ((trains, W), see
+    :data:`Governing`; a train of fixed spacings whose row need not say them
+    gives NaN), so that a ranged train's end spacings are known.
 
     Each train and direction is one sweep of every line (:func:`_sweep`),
     then every line is settled at once (:func:`_settle`).
@@ -645,7 +656,8 @@ def fleet_extremes(
     at = _bundle_of(plan, n_lanes)
     line = np.zeros((4, n_lanes))
     index = np.empty((6, n_lanes), dtype=np.int64)
-    max_v, max_p, max_d, min_v, min_p, min_d = out
+    max_v, max_p, max_d, min_v, min_p, min_d, max_s, min_s = out
+    width = spacing.shape[1]
     for case in range(case_start.size - 1):
         i = case_row[case]
         for si in range(sigmas.size):
@@ -668,10 +680,14 @@ def fleet_extremes(
                     max_v[i, e] = line[0, r]
                     max_p[i, e] = line[1, r]
                     max_d[i, e] = np.int8(sigma)
+                    for g in range(width):
+                        max_s[i, e, g] = spacing[case, g]
                 if keep[1] and line[2, r] < min_v[i, e]:
                     min_v[i, e] = line[2, r]
                     min_p[i, e] = line[3, r]
                     min_d[i, e] = np.int8(sigma)
+                    for g in range(width):
+                        min_s[i, e, g] = spacing[case, g]
     _copy(plan, out)
 
 
@@ -974,15 +990,22 @@ def chain_fleet(
     tol: float,
     keep: tuple[bool, bool],
     out: Governing,
+    spacing: np.ndarray,
+    free: np.ndarray,
+    own: np.ndarray,
 ) -> None:
     """:func:`chain_extremes` of many chains in one call, kept in ``out`` as :func:`fleet_extremes`.
 
     Chain j has axles ``job_start[j]:job_start[j + 1]``; ``group_start[j]``
     (padded with -1) delimits its groups relative to its first axle, and
-    ``gap_lo[j]``/``gap_hi[j]`` bound its front-to-front distances. The
-    workspace is made once, for the largest.
+    ``gap_lo[j]``/``gap_hi[j]`` bound its front-to-front distances. Where a
+    chain's extreme is kept, so are its spacings: ``spacing[j]`` (W, those at
+    an end of their range), with place ``free[j, k]`` (of free gap k) set to
+    the front-to-front distance the join found less ``own[j, k]``, the length
+    of the group in front of it. The workspace is made once, for the largest.
     """
-    max_v, max_p, max_d, min_v, min_p, min_d = out
+    max_v, max_p, max_d, min_v, min_p, min_d, max_s, min_s = out
+    width = spacing.shape[1]
     n_eff = max_v.shape[1]
     # An extreme not kept is held at infinity, so the join never seeks it.
     never_above = np.full(n_eff, np.inf)
@@ -1019,10 +1042,18 @@ def chain_fleet(
                     max_v[i, e] = high[e]
                     max_p[i, e] = found[1][0, e]
                     max_d[i, e] = np.int8(sigma)
+                    for g in range(width):
+                        max_s[i, e, g] = spacing[job, g]
+                    for k in range(n_groups - 1):
+                        max_s[i, e, free[job, k]] = found[2][0, e, k] - own[job, k]
                 if keep[1] and low[e] < min_v[i, e]:
                     min_v[i, e] = low[e]
                     min_p[i, e] = found[1][1, e]
                     min_d[i, e] = np.int8(sigma)
+                    for g in range(width):
+                        min_s[i, e, g] = spacing[job, g]
+                    for k in range(n_groups - 1):
+                        min_s[i, e, free[job, k]] = found[2][1, e, k] - own[job, k]
     _copy(plan, out)
 
 

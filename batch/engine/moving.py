@@ -54,15 +54,23 @@ RIGHT_TO_LEFT = -1
 class FleetExtremes:
     """Governing of axle trains per effect (see :class:`AxleExtremes`).
 
-    For one train the arrays have shape (n_effects,); for many, (n_trains, n_effects).
+    For one train the arrays have shape (n_effects,); for many, (n_trains,
+    n_effects). ``*_spacing`` adds a last axis: for one train, the spacing used
+    for each of its gaps; for many, one place per *ranged* gap (W = the most
+    ranged gaps of any train among them, 0 when none): a ranged train's row
+    holds the spacing used for each of its ranged gaps, front to rear (NaN past
+    its last), a train of fixed spacings' row NaN (its spacings are its own).
+    Lengths in the member's unit.
     """
 
     max_value: NDArray[np.float64]
     max_position: NDArray[np.float64]
     max_direction: NDArray[np.int8]
+    max_spacing: NDArray[np.float64]
     min_value: NDArray[np.float64]
     min_position: NDArray[np.float64]
     min_direction: NDArray[np.int8]
+    min_spacing: NDArray[np.float64]
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -78,8 +86,18 @@ class AxleExtremes(FleetExtremes):
     extreme is 0 (no position of the train gives an effect of that sign).
     """
 
-    max_spacing: NDArray[np.float64]
-    min_spacing: NDArray[np.float64]
+
+def ranged_width(cases: Sequence[LoadCase]) -> int:
+    """The most ranged gaps of any train of ``cases`` (0 when none has a range).
+
+    The width of the spacing arrays of :class:`FleetExtremes` for those cases.
+    """
+    return max((_ranged(c.train).size for c in cases), default=0)
+
+
+def _ranged(train: AxleTrain) -> NDArray[np.int64]:
+    """The gaps of ``train`` given as ranges, front to rear."""
+    return np.array([g for g, s in enumerate(train.spacings) if s.is_range], dtype=np.int64)
 
 
 @dataclass(frozen=True)
@@ -279,6 +297,7 @@ def fleet_extremes_of(
     il: InfluenceLines,
     cases: Sequence[LoadCase],
     directions: tuple[int, ...] = (LEFT_TO_RIGHT, RIGHT_TO_LEFT),
+    width: int = 0,
 ) -> FleetExtremes:
     """Exact extremes of every load case's axle train on every influence line of one member.
 
@@ -288,18 +307,23 @@ def fleet_extremes_of(
     Every rigid train, and every rigid way of fixing a ranged train's spacings
     at the ends of their ranges, is swept in one compiled call per partition;
     only the ways that leave a spacing free go one by one through the group
-    join. Units as in :func:`axle_extremes`.
+    join. Units as in :func:`axle_extremes`. The spacing arrays are ``width``
+    wide, or as wide as :func:`ranged_width` needs if that is more (so that
+    the extremes of some cases fit beside those of others).
     """
     _check_directions(directions)
     n_eff = il.n_effects
     shape = (len(cases), n_eff)
+    width = max(width, ranged_width(cases))
     out = FleetExtremes(
         max_value=np.zeros(shape),
         max_position=np.full(shape, np.nan),
         max_direction=np.zeros(shape, np.int8),
+        max_spacing=np.full((*shape, width), np.nan),
         min_value=np.zeros(shape),
         min_position=np.full(shape, np.nan),
         min_direction=np.zeros(shape, np.int8),
+        min_spacing=np.full((*shape, width), np.nan),
     )
     tol = POSITION_TOL * il.length
     kept = (
@@ -309,46 +333,62 @@ def fleet_extremes_of(
         out.min_value,
         out.min_position,
         out.min_direction,
+        out.max_spacing,
+        out.min_spacing,
     )
-    rigid: dict[bool, list[tuple[int, NDArray[np.float64], NDArray[np.float64]]]] = {}
+    rigid: dict[bool, list[_Job]] = {}
     chains: dict[bool, list[_Link]] = {}
     for row, t in enumerate(cases):
         ready = _prepare(il, t.train)
+        ranged = _ranged(t.train)
         for combo in ready.combos:
             if combo.free:
                 lo, hi = combo.gap_bounds(ready.lo, ready.hi)
-                link = (row, ready.loads, combo, lo, hi)
+                link = (row, ready.loads, combo, lo, hi, ranged)
                 chains.setdefault(t.drop_adverse_axles, []).append(link)
             else:
-                rigid.setdefault(t.drop_adverse_axles, []).append((row, ready.loads, combo.offsets))
+                job = (row, ready.loads, combo, ranged)
+                rigid.setdefault(t.drop_adverse_axles, []).append(job)
     sigmas = np.array(directions, dtype=float)
     # Rigid trains first, then the free-gap chains of ranged ones; ties keep the first.
     for drop, jobs in rigid.items():
-        start = np.cumsum([0] + [p.size for _, p, _ in jobs], dtype=np.int64)
+        start = np.cumsum([0] + [p.size for _, p, _, _ in jobs], dtype=np.int64)
+        spacing = np.full((len(jobs), width), np.nan)
+        for j, (_, _, combo, ranged) in enumerate(jobs):
+            # (a ranged train with its ranges at their ends: say which; NaN for a fixed one)
+            spacing[j, : ranged.size] = combo.spacing[ranged]
         args = (
-            np.concatenate([p for _, p, _ in jobs]),
-            np.concatenate([o for _, _, o in jobs]),
+            np.concatenate([p for _, p, _, _ in jobs]),
+            np.concatenate([c.offsets for _, _, c, _ in jobs]),
             start,
-            np.array([row for row, _, _ in jobs], dtype=np.int64),
+            np.array([row for row, _, _, _ in jobs], dtype=np.int64),
             sigmas,
             tol,
         )
         for plan, keep in _kept(il, drop):
-            fleet_extremes(plan, *args, keep, kept)
+            fleet_extremes(plan, *args, keep, kept, spacing)
     for drop, links in chains.items():
-        width = max(c.group_start.size for _, _, c, _, _ in links)
-        groups = np.full((len(links), width), -1, dtype=np.int64)
-        gap_lo = np.zeros((len(links), width - 2))
-        gap_hi = np.zeros((len(links), width - 2))
-        for j, (_, _, combo, lo, hi) in enumerate(links):
+        most = max(c.group_start.size for _, _, c, _, _, _ in links)
+        groups = np.full((len(links), most), -1, dtype=np.int64)
+        gap_lo = np.zeros((len(links), most - 2))
+        gap_hi = np.zeros((len(links), most - 2))
+        # The ranged gaps' spacings: those at an end of their range, and where each free
+        # one goes (its place among the ranged gaps), less the length of the group before.
+        fixed = np.full((len(links), width), np.nan)
+        free = np.zeros((len(links), most - 2), dtype=np.int64)
+        own = np.zeros((len(links), most - 2))
+        for j, (_, _, combo, lo, hi, ranged) in enumerate(links):
             groups[j, : combo.group_start.size] = combo.group_start
             gap_lo[j, : lo.size] = lo
             gap_hi[j, : hi.size] = hi
+            fixed[j, : ranged.size] = combo.spacing[ranged]
+            free[j, : len(combo.free)] = np.searchsorted(ranged, combo.free)
+            own[j, : combo.own.size] = combo.own
         chain_args = (
-            np.concatenate([p for _, p, _, _, _ in links]),
-            np.concatenate([c.offsets for _, _, c, _, _ in links]),
-            np.cumsum([0] + [p.size for _, p, _, _, _ in links], dtype=np.int64),
-            np.array([row for row, _, _, _, _ in links], dtype=np.int64),
+            np.concatenate([p for _, p, _, _, _, _ in links]),
+            np.concatenate([c.offsets for _, _, c, _, _, _ in links]),
+            np.cumsum([0] + [p.size for _, p, _, _, _, _ in links], dtype=np.int64),
+            np.array([row for row, _, _, _, _, _ in links], dtype=np.int64),
             groups,
             gap_lo,
             gap_hi,
@@ -356,12 +396,17 @@ def fleet_extremes_of(
             tol,
         )
         for plan, keep in _kept(il, drop):
-            chain_fleet(plan, *chain_args, keep, kept)
+            chain_fleet(plan, *chain_args, keep, kept, fixed, free, own)
     return out
 
 
-#: A chain job: output row, axle loads, the way its spacings are fixed, and its gap bounds.
-_Link = tuple[int, NDArray[np.float64], _Combo, NDArray[np.float64], NDArray[np.float64]]
+#: A rigid job: output row, axle loads, the way its spacings are fixed, its ranged gaps.
+_Job = tuple[int, NDArray[np.float64], _Combo, NDArray[np.int64]]
+#: A chain job: output row, axle loads, the way its spacings are fixed, its gap bounds,
+#: its ranged gaps.
+_Link = tuple[
+    int, NDArray[np.float64], _Combo, NDArray[np.float64], NDArray[np.float64], NDArray[np.int64]
+]
 
 
 def _kept(il: InfluenceLines, drop: bool) -> list[tuple[SweepPlan, tuple[bool, bool]]]:
