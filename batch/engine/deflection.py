@@ -80,14 +80,18 @@ def member_deflection(
     shown = 1.0 / (own.ei_scale * units["rigidity"] * units["deflection"])
     rows = il.deflection_rows
     out = []
-    for values, positions, directions, sign in (
-        (effects.max_value, effects.max_position, effects.max_direction, 1.0),
-        (effects.min_value, effects.min_position, effects.min_direction, -1.0),
+    for values, positions, directions, spacings, sign in (
+        (effects.max_value, effects.max_position, effects.max_direction, effects.max_spacing, 1.0),
+        (effects.min_value, effects.min_position, effects.min_direction, effects.min_spacing, -1.0),
     ):
-        v, case, p, d = governing(
-            values[:, rows] * shown, positions[:, rows], directions[:, rows], sign
+        v, case, p, d, s = governing(
+            values[:, rows] * shown,
+            positions[:, rows],
+            directions[:, rows],
+            spacings[:, rows],
+            sign,
         )
-        out.append(Governing(value=v, case=case, position=p, direction=d))
+        out.append(Governing(value=v, case=case, position=p, direction=d, spacing=s))
     spans = np.asarray(member.spans, dtype=float)
     per_span = np.array(
         [out[0].value[il.station_span == k + 1].max(initial=0.0) for k in range(spans.size)]

@@ -39,13 +39,17 @@ class Governing:
     indexes the load cases (-1 where no case gives a value of that sign, in which
     case ``value`` is 0); ``position`` is the governing front axle's x (NaN when
     only a lane load acts); ``direction`` is +1 left to right, -1 right to left,
-    0 none.
+    0 none. ``spacing`` (rows, W) is the spacing the governing train used for
+    each of its ranged gaps, front to rear (length unit; W the most ranged gaps
+    of any of the load cases, 0 when none has one); NaN past the train's own
+    ranged gaps, for a train of fixed spacings and where ``position`` is NaN.
     """
 
     value: NDArray[np.float64]
     case: NDArray[np.int64]
     position: NDArray[np.float64]
     direction: NDArray[np.int8]
+    spacing: NDArray[np.float64]
 
 
 @dataclass(frozen=True, kw_only=True)

@@ -35,6 +35,7 @@ from batch.engine.moving import (
     RIGHT_TO_LEFT,
     FleetExtremes,
     fleet_extremes_of,
+    ranged_width,
 )
 from batch.loads.cases import LoadCase
 from batch.loads.factors import SINGLE_LANE_PRESENCE
@@ -114,6 +115,10 @@ class CaseEffects(FleetExtremes):
     sign or its scope excludes the effect. ``*_position`` is the governing front
     axle's x (NaN when only a lane load acts; for a load placed again in another
     span, the load in the worst span), ``*_direction`` +1/-1 (0 none, or placed).
+    ``*_spacing`` (n_cases, n_effects, W) is the spacing used for each ranged
+    gap of the governing train, front to rear (W the most ranged gaps of any
+    case; NaN past a case's own, for a train of fixed spacings and where
+    ``*_position`` is NaN).
 
     ``max_impact`` and ``min_impact`` (n_cases, n_effects) are the impact
     allowance (fraction) each value includes: the case's fixed dynamic load
@@ -183,7 +188,8 @@ def case_effects(
     n_eff = il.n_effects
     df = _distribution(member, cases, il)
     active = np.array([c.applies_to(member.spans) for c in cases], dtype=bool)
-    fleet = _active_extremes(il, cases, active, DIRECTION_CODES[directions])
+    width = ranged_width(cases)
+    fleet = _active_extremes(il, cases, active, DIRECTION_CODES[directions], width)
     lengths = loaded_lengths(il)
     allowances = _allowances(cases, lengths)
     lane = np.array([c.lane_load for c in cases])[:, None]
@@ -200,12 +206,14 @@ def case_effects(
     applies = np.array([scopes[c.scope] for c in cases], dtype=bool).reshape(-1, n_eff, 2)
     applies &= active[:, None, None]
     out = {}
-    for col, (sense, axle_v, axle_p, axle_d, area) in enumerate(
+    for col, (sense, axle_v, axle_p, axle_d, axle_s, area) in enumerate(
         (
-            ("max", fleet.max_value, fleet.max_position, fleet.max_direction, positive),
-            ("min", fleet.min_value, fleet.min_position, fleet.min_direction, negative),
+            ("max", fleet.max_value, fleet.max_position, fleet.max_direction,
+             fleet.max_spacing, positive),
+            ("min", fleet.min_value, fleet.min_position, fleet.min_direction,
+             fleet.min_spacing, negative),
         )
-    ):
+    ):  # fmt: skip
         on_axles, on_lane = allowances[col]
         # Below ZERO_TOL of the case's natural size an extreme is round-off, not an effect.
         axle_part = np.where(np.abs(axle_v) > ZERO_TOL * size, axle_v, 0.0)
@@ -220,6 +228,7 @@ def case_effects(
             np.where(moving, axle_d, 0).astype(np.int8),
             np.where(acting, factor * axle_part, 0.0),
             np.where(acting, factor * lane * area[None, :], 0.0),
+            np.where(moving[:, :, None], axle_s, np.nan),
         )
     return CaseEffects(
         lines=il,
@@ -229,6 +238,8 @@ def case_effects(
         min_value=out["min"][0],
         min_position=out["min"][1],
         min_direction=out["min"][2],
+        max_spacing=out["max"][5],
+        min_spacing=out["min"][5],
         max_impact=np.broadcast_to(allowances[0][0], (len(cases), n_eff)),
         min_impact=np.broadcast_to(allowances[1][0], (len(cases), n_eff)),
         max_loaded_length=lengths[0],
@@ -305,15 +316,17 @@ def _allowances(
     return out[0], out[1]
 
 
-def _no_extremes(shape: tuple[int, int]) -> FleetExtremes:
-    """Extremes of cases that give no effect: zero, no position, no direction."""
+def _no_extremes(shape: tuple[int, int], width: int) -> FleetExtremes:
+    """Extremes of cases that give no effect: zero, no position, direction or spacing."""
     return FleetExtremes(
         max_value=np.zeros(shape),
         max_position=np.full(shape, np.nan),
         max_direction=np.zeros(shape, np.int8),
+        max_spacing=np.full((*shape, width), np.nan),
         min_value=np.zeros(shape),
         min_position=np.full(shape, np.nan),
         min_direction=np.zeros(shape, np.int8),
+        min_spacing=np.full((*shape, width), np.nan),
     )
 
 
@@ -322,20 +335,26 @@ def _active_extremes(
     cases: Sequence[LoadCase],
     active: NDArray[np.bool_],
     directions: tuple[int, ...],
+    width: int,
 ) -> FleetExtremes:
-    """Axle extremes of the ``active`` cases (their span rule met); the others' rows hold none."""
+    """Axle extremes of the ``active`` cases (their span rule met); the others' rows hold none.
+
+    The spacing arrays are ``width`` wide (:func:`~batch.engine.moving.ranged_width`).
+    """
     if active.all():
-        return _axle_extremes(il, cases, directions)
-    out = _no_extremes((len(cases), il.n_effects))
+        return _axle_extremes(il, cases, directions, width)
+    out = _no_extremes((len(cases), il.n_effects), width)
     if active.any():
-        kept = _axle_extremes(il, [c for c, a in zip(cases, active, strict=True) if a], directions)
+        kept = _axle_extremes(
+            il, [c for c, a in zip(cases, active, strict=True) if a], directions, width
+        )
         for name in vars(out):
             getattr(out, name)[active] = getattr(kept, name)
     return out
 
 
 def _axle_extremes(
-    il: InfluenceLines, cases: Sequence[LoadCase], directions: tuple[int, ...]
+    il: InfluenceLines, cases: Sequence[LoadCase], directions: tuple[int, ...], width: int
 ) -> FleetExtremes:
     """The axle extremes of every case: moved across the member, or placed span by span.
 
@@ -345,11 +364,11 @@ def _axle_extremes(
     """
     placed = np.array([c.other_span_load for c in cases], dtype=bool)
     if not placed.any():
-        return fleet_extremes_of(il, cases, directions)
-    out = _no_extremes((len(cases), il.n_effects))
+        return fleet_extremes_of(il, cases, directions, width)
+    out = _no_extremes((len(cases), il.n_effects), width)
     if not placed.all():
         moved = fleet_extremes_of(
-            il, [c for c, p in zip(cases, placed, strict=True) if not p], directions
+            il, [c for c, p in zip(cases, placed, strict=True) if not p], directions, width
         )
         for name in vars(out):
             getattr(out, name)[~placed] = getattr(moved, name)
@@ -389,16 +408,27 @@ def governing(
     value: NDArray[np.float64],
     position: NDArray[np.float64],
     direction: NDArray[np.int8],
+    spacing: NDArray[np.float64],
     sign: float,
     rows: NDArray[np.int64] | None = None,
-) -> tuple[NDArray[np.float64], NDArray[np.int64], NDArray[np.float64], NDArray[np.int8]]:
-    """The worst of the given case rows per effect; the first row wins ties, -1 when none acts."""
+) -> tuple[
+    NDArray[np.float64],
+    NDArray[np.int64],
+    NDArray[np.float64],
+    NDArray[np.int8],
+    NDArray[np.float64],
+]:
+    """The worst of the given case rows per effect; the first row wins ties, -1 when none acts.
+
+    Returns its value, case, position, direction and spacing ((n_effects, W)).
+    """
     rows = np.arange(value.shape[0]) if rows is None else rows
     n_eff = value.shape[1]
     pad = np.zeros((1, n_eff))
     v = np.concatenate([pad, value[rows]])  # row 0 stands for "no case"
     p = np.concatenate([pad + np.nan, position[rows]])
     d = np.concatenate([pad.astype(np.int8), direction[rows]])
+    s = np.concatenate([np.full((1, *spacing.shape[1:]), np.nan), spacing[rows]])
     signed = sign * v
     # Cases within round-off of the worst are a tie, and the first of them wins, so a
     # symmetric member names the same vehicle at mirrored stations.
@@ -406,7 +436,7 @@ def governing(
     best = (signed >= top - TIE_REL_TOL * np.abs(top)).argmax(axis=0)
     cols = np.arange(n_eff)
     case = np.where(best > 0, rows[np.maximum(best - 1, 0)], -1)
-    return v[best, cols], case, p[best, cols], d[best, cols]
+    return v[best, cols], case, p[best, cols], d[best, cols], s[best, cols]
 
 
 def envelope_of(
@@ -418,15 +448,22 @@ def envelope_of(
     """The envelope over the load cases ``rows`` (all by default) of ``effects``."""
     il = effects.lines
     best = {
-        "max": governing(effects.max_value, effects.max_position, effects.max_direction, 1.0, rows),
-        "min": governing(
-            effects.min_value, effects.min_position, effects.min_direction, -1.0, rows
-        ),
+        sense: governing(
+            getattr(effects, f"{sense}_value"),
+            getattr(effects, f"{sense}_position"),
+            getattr(effects, f"{sense}_direction"),
+            getattr(effects, f"{sense}_spacing"),
+            sign,
+            rows,
+        )
+        for sense, sign in (("max", 1.0), ("min", -1.0))
     }
 
     def pick(sense: str, part: slice) -> Governing:
-        v, c, p, d = best[sense]
-        return Governing(value=v[part], case=c[part], position=p[part], direction=d[part])
+        v, c, p, d, s = best[sense]
+        return Governing(
+            value=v[part], case=c[part], position=p[part], direction=d[part], spacing=s[part]
+        )
 
     impact = None
     if effects.standard_impact is not None:
