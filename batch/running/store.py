@@ -331,9 +331,10 @@ def _unpack_asbuilt(blob: bytes | None) -> MemberAsBuilt:
 
 
 #: Each envelope array in the order it is stored, with its stored type: first the
-#: layout, then per effect family and sense value, case and position; then, for a run
-#: with the Standard Specifications' impact, its loaded length and fraction per effect
-#: (:data:`_IMPACT`); the one-byte directions last (so every wider array stays aligned).
+#: layout, then per effect family and sense value, case, position and spacing (W per
+#: row, W in the header); then, for a run with the Standard Specifications' impact, its
+#: loaded length and fraction per effect (:data:`_IMPACT`); the one-byte directions last
+#: (so every wider array stays aligned).
 _ARRAYS: tuple[tuple[str, str, type[np.generic]], ...] = (
     ("", "station_span", np.int64),
     ("", "station_fraction", np.float64),
@@ -342,7 +343,12 @@ _ARRAYS: tuple[tuple[str, str, type[np.generic]], ...] = (
     *(
         (name, field, kind)
         for name in _EXTREMES
-        for field, kind in (("value", np.float64), ("case", np.int64), ("position", np.float64))
+        for field, kind in (
+            ("value", np.float64),
+            ("case", np.int64),
+            ("position", np.float64),
+            ("spacing", np.float64),
+        )
     ),
 )
 _DIRECTIONS: tuple[tuple[str, str, type[np.generic]], ...] = tuple(
@@ -365,13 +371,15 @@ def _stored(with_impact: bool) -> tuple[tuple[str, str, type[np.generic]], ...]:
 def _pack(env: MemberEnvelope) -> bytes:
     """An envelope as raw little-endian arrays behind a count of stations and supports.
 
-    The header holds the number of stations, of supports, and 1 when the
-    envelope has the Standard Specifications' impact rows (else 0). Decoding is
-    a handful of ``np.frombuffer`` views, fast enough to stream every member back
+    The header holds the number of stations, of supports, 1 when the envelope
+    has the Standard Specifications' impact rows (else 0), and W, the width of
+    the spacings (:class:`~batch.engine.effects.Governing`). Decoding is a
+    handful of ``np.frombuffer`` views, fast enough to stream every member back
     to the writer for each result sheet.
     """
     impact = env.impact or ()
-    header = [env.station_x.size, env.support_x.size, int(env.impact is not None)]
+    width = env.m_max.spacing.shape[1]
+    header = [env.station_x.size, env.support_x.size, int(env.impact is not None), width]
     parts = [np.array(header, "<i8").tobytes()]
     for name, field, kind in _stored(env.impact is not None):
         if name.startswith("impact "):
@@ -385,21 +393,23 @@ def _pack(env: MemberEnvelope) -> bytes:
 def _unpack(member: str, blob: bytes | None, labels: tuple[str, ...]) -> MemberEnvelope:
     if blob is None:
         raise ValueError(f"member {member!r} has no stored results")
-    if len(blob) < 24:
+    if len(blob) < 32:
         raise ValueError(f"member {member!r}'s stored results are cut short")
-    n_stations, n_supports, has_impact = (int(n) for n in np.frombuffer(blob, "<i8", 3))
-    offset = 24
+    n_stations, n_supports, has_impact, width = (int(n) for n in np.frombuffer(blob, "<i8", 4))
+    offset = 32
     arrays: dict[tuple[str, str], Any] = {}
     for name, field, kind in _stored(has_impact == 1):
         by_support = name.startswith("r_") or field == "support_x"
         if name.startswith("impact "):
             by_support = _EXTREMES[int(name.split()[1])].startswith("r_")
         count = n_supports if by_support else n_stations
+        per_row = width if field == "spacing" else 1
         dtype = np.dtype(kind).newbyteorder("<")
-        if offset + count * dtype.itemsize > len(blob):
+        if width < 0 or offset + count * per_row * dtype.itemsize > len(blob):
             raise ValueError(f"member {member!r}'s stored results are cut short")
-        arrays[name, field] = np.frombuffer(blob, dtype, count, offset)
-        offset += count * dtype.itemsize
+        array = np.frombuffer(blob, dtype, count * per_row, offset)
+        arrays[name, field] = array.reshape(count, width) if field == "spacing" else array
+        offset += count * per_row * dtype.itemsize
     if offset != len(blob):
         raise ValueError(f"member {member!r}'s stored results do not have the expected size")
     extremes: dict[str, Any] = {
@@ -408,6 +418,7 @@ def _unpack(member: str, blob: bytes | None, labels: tuple[str, ...]) -> MemberE
             case=arrays[name, "case"],
             position=arrays[name, "position"],
             direction=arrays[name, "direction"],
+            spacing=arrays[name, "spacing"],
         )
         for name in _EXTREMES
     }
