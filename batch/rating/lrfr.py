@@ -332,7 +332,10 @@ class MemberRating:
     ``p_impact_lane`` on the lane load (0 but for an impact formula's case);
     ``p_live`` = (1 + p_impact) * p_axle + (1 + p_impact_lane) * p_lane, the LL + IM;
     ``p_rf``, ``p_rf_operating``; ``p_case`` the governing load case (-1:
-    none), ``p_position`` its front axle's x and ``p_direction`` +1/-1.
+    none), ``p_position`` its front axle's x, ``p_direction`` +1/-1 and
+    ``p_spacing`` ((n_vehicles, n_checks, W)) the spacing it used for each of
+    its ranged gaps, front to rear (length unit; NaN for a train of fixed
+    spacings, see :class:`~batch.engine.envelope.CaseEffects`).
     """
 
     rf: FloatArray
@@ -375,6 +378,7 @@ class MemberRating:
     p_case: NDArray[np.int64]
     p_position: FloatArray
     p_direction: NDArray[np.int8]
+    p_spacing: FloatArray
     method: NDArray[np.int8]
 
 
@@ -443,6 +447,7 @@ class _RatedLive:
     case: NDArray[np.int64]
     position: FloatArray
     direction: NDArray[np.int8]
+    spacing: FloatArray  # (n_vehicles, n_checks, W)
 
 
 def rated_live(
@@ -469,7 +474,7 @@ def rated_live(
     impact ``formula`` (an LFR or ASR member: the Standard Specifications' impact in
     the run's length unit) every case takes the formula at each line's loaded length
     instead, on its axles and its lane load alike. The vehicle's effect is its
-    largest case's (the first on ties).
+    largest case's (the first on ties), with its position, direction and spacing.
     """
     up = senses[None, :] > 0
     side = {
@@ -478,6 +483,7 @@ def rated_live(
         )
         for name in ("value", "axle", "lane", "impact", "position", "direction")
     }
+    spacing = np.where(up[:, :, None], effects.max_spacing[:, lines], effects.min_spacing[:, lines])
     sign = np.where(up, 1.0, -1.0)
     axle, lane, value = sign * side["axle"], sign * side["lane"], sign * side["value"]
     vehicle = np.array([c.vehicle for c in cases], dtype=np.int64)
@@ -511,6 +517,7 @@ def rated_live(
         case=np.where(acts, first, -1),
         position=np.where(acts, side["position"][first, columns], np.nan),
         direction=np.where(acts, side["direction"][first, columns], 0).astype(np.int8),
+        spacing=np.where(acts[:, :, None], spacing[first, columns], np.nan),
     )
 
 
@@ -650,6 +657,7 @@ def rate_member(
         p_case=live.case,
         p_position=live.position,
         p_direction=live.direction,
+        p_spacing=live.spacing,
         method=np.array([RATING_METHODS.index(member.rating_method)], dtype=np.int8),
     )
 
