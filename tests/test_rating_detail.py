@@ -141,3 +141,25 @@ def test_postings_are_rounded_down_by_the_owners_rule(sheets) -> None:
                 assert pd.isna(rounded)
             else:
                 assert rounded == math.floor(value)
+
+
+def test_a_ranged_vehicle_says_the_spacing_it_governs_with(sheets) -> None:
+    # The HL-93 design truck's rear spacing varies from 14 to 30 ft (AASHTO LRFD 9th ed.,
+    # 3.6.1.2.2), and the two trucks of the 90 % negative-moment load are at least 50 ft
+    # apart (3.6.1.3.1): every row such a load case governs (US sample) says the spacing
+    # used for its ranged gap, within its range, with the unit; a load case of fixed
+    # spacings (the tandem) says none. Every spacing cell is numbers and the length unit.
+    detail, ratings = sheets["Rating Detail"], sheets["Ratings"]
+    unit = " m" if "at (m)" in detail else " ft"
+    for text in pd.concat([detail["spacing"], ratings["spacing"]]).dropna():
+        assert text.endswith(unit), text
+        assert all(float(v) > 0 for v in text.removesuffix(unit).split("; ")), text
+    if unit == " m":
+        return
+    label = detail["Load case"].fillna("")
+    for part, low, high in (("HL-93 (truck + lane)", 14.0, 30.0), ("two trucks", 50.0, 1e4)):
+        said = detail.loc[label.str.contains(part, regex=False), "spacing"].dropna()
+        assert len(said) > 0, part
+        for text in said:
+            assert low <= float(text.removesuffix(unit)) <= high, (part, text)
+    assert detail.loc[label.str.contains("tandem"), "spacing"].isna().all()

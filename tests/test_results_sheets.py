@@ -33,7 +33,13 @@ from batch.loads.fleet import fleet_cases
 from batch.model import Case, Member, Settings, Spacing, Vehicle
 from batch.running.executor import run_case
 from batch.writing.cautions import CAUTIONS
-from batch.writing.columns import ENVELOPES, GOVERNING, REACTIONS, is_result_sheet_name
+from batch.writing.columns import (
+    ENVELOPES,
+    GOVERNING,
+    REACTIONS,
+    is_result_sheet_name,
+    spacing_text,
+)
 from batch.writing.package.save import atomic_save
 from batch.writing.package.splice import SourcePackage, empty_package
 from batch.writing.results import result_package
@@ -119,7 +125,13 @@ def test_sheets_and_headers_follow_the_contract(written: tuple[Case, Path]) -> N
         ("V max", "kip"),
         ("V min", "kip"),
     ):
-        expected += [f"{name} ({unit})", f"{name} vehicle", f"{name} at (ft)", f"{name} direction"]
+        expected += [
+            f"{name} ({unit})",
+            f"{name} vehicle",
+            f"{name} at (ft)",
+            f"{name} direction",
+            f"{name} spacing",
+        ]
     assert env_header == expected
     react_header = [c.value for c in wb["Reactions"][1]]
     assert react_header[:3] == ["Member", "Support", "x (ft)"]
@@ -142,7 +154,7 @@ def test_envelopes_equal_the_engine_cell_for_cell(written: tuple[Case, Path]) ->
     case, path = written
     rows = _rows(load_workbook(path)["Envelopes"])
     cases = fleet_cases(case.vehicles, case.settings)
-    k = 0
+    k = spaced = 0
     for member in case.members:
         env = member_envelope(member, cases, case.settings.stations_per_span, "both")
         for i in range(env.station_x.size):
@@ -157,14 +169,25 @@ def test_envelopes_equal_the_engine_cell_for_cell(written: tuple[Case, Path]) ->
                 assert row[f"{eff.name} ({unit})"] == pytest.approx(
                     ext.value[i], rel=REL_TOL_EXACT, abs=0.0
                 )
+                spacing = row[f"{eff.name} spacing"]
                 if ext.case[i] < 0:
                     assert row[f"{eff.name} vehicle"] is None
                     assert row[f"{eff.name} at (ft)"] is None
                     assert row[f"{eff.name} direction"] is None
+                    assert spacing is None
                 else:
                     assert row[f"{eff.name} vehicle"] == env.labels[ext.case[i]]
                     assert row[f"{eff.name} direction"] in ("left-to-right", "right-to-left")
+                    # The truck's one ranged gap (14 to 30 ft) says its spacing, the single
+                    # axle none; in the engine's numbers, with the unit in the cell.
+                    if env.labels[ext.case[i]] == "KVHA haul 3-axle":
+                        assert spacing == f"{spacing_text(ext.spacing[i])} ft"
+                        assert 14.0 <= float(spacing.removesuffix(" ft")) <= 30.0
+                        spaced += 1
+                    else:
+                        assert spacing is None
     assert k == len(rows)
+    assert spaced > 0
 
 
 def test_pandas_reads_the_engines_numbers_bit_for_bit(written: tuple[Case, Path]) -> None:
@@ -264,7 +287,7 @@ def test_number_formats_filter_and_widths(written: tuple[Case, Path]) -> None:
     assert ws.cell(row=2, column=header.index("Station") + 1).number_format == "0.000"
     assert ws.cell(row=3, column=header.index("M max (kip-ft)") + 1).number_format == "0.0"
     assert ws.cell(row=3, column=header.index("x (ft)") + 1).number_format == "0.0"
-    assert ws.auto_filter.ref == f"A1:T{ws.max_row}"
+    assert ws.auto_filter.ref == f"A1:X{ws.max_row}"
     assert ws.column_dimensions["E"].width >= len("M max (kip-ft)")
     assert ws["A1"].font.b
 

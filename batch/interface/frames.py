@@ -61,7 +61,7 @@ def table_frame(table: AnyTable, result: RunResult) -> pd.DataFrame:
     cells: list[list[object]] = [[] for _ in columns]
     for block in table.blocks(result):
         for j, col in enumerate(columns):
-            cells[j].extend(col.values(block))
+            cells[j].extend(col.cells(block, labels))
     titles = [col.title(labels) for col in columns]
     frame = pd.concat(
         [_series(col, vals, t) for col, vals, t in zip(columns, cells, titles, strict=True)],

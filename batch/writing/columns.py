@@ -86,6 +86,7 @@ __all__ = [
     "ScreenedMember",
     "direction_text",
     "is_result_sheet_name",
+    "spacing_text",
 ]
 
 #: Direction codes of the engine and their text in the result sheets.
@@ -115,6 +116,24 @@ def direction_text(code: int) -> str | None:
     return DIRECTION_TEXT.get(int(code))
 
 
+#: Decimals of a spacing shown as text (trailing zeros dropped, one kept: ``14.0``).
+SPACING_DECIMALS = 3
+
+
+def spacing_text(spacing: NDArray[np.float64]) -> str | None:
+    """The spacings of a ranged train's ranged gaps as text, e.g. ``14.0`` or ``14.0; 30.0``.
+
+    Front to rear, in the length unit (the sheet adds it: ``14.0 ft``); None (an
+    empty cell) when none is finite (a train of fixed spacings, or no vehicle).
+    """
+    shown = []
+    for v in np.asarray(spacing, dtype=float).tolist():
+        if np.isfinite(v):
+            text = f"{v:.{SPACING_DECIMALS}f}".rstrip("0")
+            shown.append(text + "0" if text.endswith(".") else text)
+    return "; ".join(shown) or None
+
+
 # ---------------------------------------------------------------- cell values
 
 
@@ -136,12 +155,24 @@ def _direction(ext: Governing, i: int) -> str | None:
     return direction_text(int(ext.direction[i])) if int(ext.case[i]) >= 0 else None
 
 
+def _spacing(ext: Governing, i: int) -> str | None:
+    return spacing_text(ext.spacing[i]) if int(ext.case[i]) >= 0 else None
+
+
+#: What a spacing column holds (the envelope sheets and the rating sheets alike).
+SPACING_MEANING = (
+    "The spacing the governing vehicle used for each gap of its given as a range, front to "
+    "rear, separated by '; ' (blank for a vehicle of fixed spacings): the worst one within "
+    "the range, found exactly."
+)
+
+
 def _member(rows: Rows) -> Values:
     return lambda env: [env.member] * _row_count(rows, env)
 
 
 def _effect_columns(effect: Effect) -> tuple[Column, ...]:
-    """The value, vehicle, at and direction columns of one effect, row by row."""
+    """The value, vehicle, at, direction and spacing columns of one effect, row by row."""
 
     def value(env: MemberEnvelope) -> list[object]:
         return [float(v) for v in effect.extremes(env).value]
@@ -188,11 +219,24 @@ def _effect_columns(effect: Effect) -> tuple[Column, ...]:
             text=True,
             meaning="Direction of travel of the governing vehicle.",
         ),
+        ResultColumn(
+            header=f"{effect.name} spacing",
+            quantity="length",
+            width=14,
+            values=per_row(lambda _env, ext, i: _spacing(ext, i)),
+            highlight=effect.name,
+            text=True,
+            unit_in_cells=True,
+            meaning=SPACING_MEANING,
+        ),
     )
 
 
 def _governing_columns(effect: Effect) -> tuple[Column, ...]:
-    """One member's extreme of ``effect``: value, where, and which vehicle, position, direction."""
+    """One member's extreme of ``effect``: its value, where, and what governs it (see below).
+
+    Which vehicle, its position, direction and spacing, as on the Envelopes sheet.
+    """
 
     def one(get: Callable[[MemberEnvelope, Governing, int], object], empty: object) -> Values:
         def values(env: MemberEnvelope) -> list[object]:
@@ -245,7 +289,7 @@ def _governing_columns(effect: Effect) -> tuple[Column, ...]:
                 meaning="Distance of that support from the member's left end.",
             ),
         )
-    value, vehicle, at, direction = _effect_columns(effect)
+    value, vehicle, at, direction, spacing = _effect_columns(effect)
     return (
         ResultColumn(
             header=value.header,
@@ -264,12 +308,14 @@ def _governing_columns(effect: Effect) -> tuple[Column, ...]:
                 width=col.width,
                 values=one(get, None),
                 text=col.text,
+                unit_in_cells=col.unit_in_cells,
                 meaning=col.meaning,
             )
             for col, get in (
                 (vehicle, _vehicle),
                 (at, lambda _env, ext, i: _position(ext, i)),
                 (direction, lambda _env, ext, i: _direction(ext, i)),
+                (spacing, lambda _env, ext, i: _spacing(ext, i)),
             )
         ),
     )
@@ -895,6 +941,14 @@ _TERMS: tuple[_Term, ...] = (
         "Its direction of travel.",
         lambda r, v, k: r.p_direction[v, k],
     ),
+    (
+        "spacing",
+        "length",
+        "",
+        12,
+        SPACING_MEANING,
+        lambda r, v, k: r.p_spacing[v, k],
+    ),
 )
 
 
@@ -921,6 +975,11 @@ def _term_columns(rows: Callable[[RatedMember], tuple[Any, Any]]) -> tuple[Resul
                     direction_text(d) if ok else None
                     for d, ok in zip(cells.tolist(), rated.tolist(), strict=True)
                 ]
+            if header == "spacing":
+                return [
+                    spacing_text(g) if ok else None
+                    for g, ok in zip(cells, rated.tolist(), strict=True)
+                ]
             if cells.dtype.kind == "U":
                 return [
                     t if t and ok else None
@@ -935,6 +994,7 @@ def _term_columns(rows: Callable[[RatedMember], tuple[Any, Any]]) -> tuple[Resul
             width=max(width, len(header) + 3),  # a header on one line, so it prints as one row
             values=values,
             text=not fmt,
+            unit_in_cells=not fmt and bool(quantity),  # (a text cell says its own unit)
             meaning=meaning,
         )
 

@@ -68,7 +68,10 @@ class ResultColumn(Generic[B]):
     row of the block in this column (``""``: never). ``fill`` gives a cell's
     fill colour (RGB hex) from its value, or None for none. ``text`` cells are
     always written as text, never as formulas; ``wrap`` cells wrap within the
-    column's width, their rows as tall as the text needs.
+    column's width, their rows as tall as the text needs. ``unit_in_cells``
+    puts the unit of ``quantity`` at the end of every text cell instead of in
+    the header (``14.0 ft``), so that a cell holding one number is still read
+    as text, not as a number.
     """
 
     header: str
@@ -80,11 +83,22 @@ class ResultColumn(Generic[B]):
     fill: Callable[[object], str | None] | None = None
     text: bool = False
     wrap: bool = False
+    unit_in_cells: bool = False
     meaning: str = ""
 
     def title(self, unit_labels: Mapping[str, str]) -> str:
         """Header text with its unit, e.g. ``"M max (kip-ft)"``."""
-        return f"{self.header} ({unit_labels[self.quantity]})" if self.quantity else self.header
+        if self.quantity and not self.unit_in_cells:
+            return f"{self.header} ({unit_labels[self.quantity]})"
+        return self.header
+
+    def cells(self, block: B, unit_labels: Mapping[str, str]) -> Sequence[object]:
+        """The column's cells for one block, each text cell with its unit if it takes one."""
+        values = self.values(block)
+        if not (self.unit_in_cells and self.quantity):
+            return values
+        unit = unit_labels[self.quantity]
+        return [f"{v} {unit}" if isinstance(v, str) else v for v in values]
 
 
 def _always(_result: RunResult) -> bool:

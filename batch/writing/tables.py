@@ -184,7 +184,7 @@ def write_table(
 
     ws = next_sheet()
     for block in table.blocks(result):
-        cells = [col.values(block) for col in columns]
+        cells = [col.cells(block, units) for col in columns]
         n = len(cells[0])
         if any(len(values) != n for values in cells):
             raise ValueError(f"{table.sheet}: the columns of one member's rows differ in length")
