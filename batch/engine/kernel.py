@@ -628,7 +628,8 @@ def fleet_extremes(
     tol: float,
     keep: tuple[bool, bool],
     out: Governing,
-    spacing: np.ndarray,
+    gaps: np.ndarray,
+    ranged: np.ndarray,
 ) -> None:
     """The governing extremes of many rigid axle trains (fixed spacings), kept in ``out``.
 
@@ -639,9 +640,10 @@ def fleet_extremes(
     the maximum, its front-axle position and direction, then the same for the
     minimum, each only if ``keep`` says so (maximum, minimum). Rows start from
     0 with position NaN and direction 0 (the train off the member). Where a
-    train's extreme is kept, so is its row of ``spacing`` ((trains, W), see
-    :data:`Governing`; a train of fixed spacings whose row need not say them
-    gives NaN), so that a ranged train's end spacings are known.
+    train's extreme is kept, so are the spacings of its ranged gaps (see
+    :data:`Governing`): train i's gaps are ``gaps[case_start[i] - i:]`` (one
+    fewer than its axles), ``ranged[i]`` (W, padded with -1) says which of
+    them were given as ranges.
 
     Each train and direction is one sweep of every line (:func:`_sweep`),
     then every line is settled at once (:func:`_settle`).
@@ -657,9 +659,10 @@ def fleet_extremes(
     line = np.zeros((4, n_lanes))
     index = np.empty((6, n_lanes), dtype=np.int64)
     max_v, max_p, max_d, min_v, min_p, min_d, max_s, min_s = out
-    width = spacing.shape[1]
+    width = ranged.shape[1]
     for case in range(case_start.size - 1):
         i = case_row[case]
+        first_gap = case_start[case] - case
         for si in range(sigmas.size):
             sigma = sigmas[si]
             n_steps = _sweep(
@@ -680,14 +683,16 @@ def fleet_extremes(
                     max_v[i, e] = line[0, r]
                     max_p[i, e] = line[1, r]
                     max_d[i, e] = np.int8(sigma)
-                    for g in range(width):
-                        max_s[i, e, g] = spacing[case, g]
+                    for w in range(width):
+                        g = ranged[case, w]
+                        max_s[i, e, w] = gaps[first_gap + g] if g >= 0 else np.nan
                 if keep[1] and line[2, r] < min_v[i, e]:
                     min_v[i, e] = line[2, r]
                     min_p[i, e] = line[3, r]
                     min_d[i, e] = np.int8(sigma)
-                    for g in range(width):
-                        min_s[i, e, g] = spacing[case, g]
+                    for w in range(width):
+                        g = ranged[case, w]
+                        min_s[i, e, w] = gaps[first_gap + g] if g >= 0 else np.nan
     _copy(plan, out)
 
 
@@ -990,22 +995,20 @@ def chain_fleet(
     tol: float,
     keep: tuple[bool, bool],
     out: Governing,
-    spacing: np.ndarray,
-    free: np.ndarray,
-    own: np.ndarray,
+    gaps: np.ndarray,
+    ranged: np.ndarray,
 ) -> None:
     """:func:`chain_extremes` of many chains in one call, kept in ``out`` as :func:`fleet_extremes`.
 
     Chain j has axles ``job_start[j]:job_start[j + 1]``; ``group_start[j]``
     (padded with -1) delimits its groups relative to its first axle, and
     ``gap_lo[j]``/``gap_hi[j]`` bound its front-to-front distances. Where a
-    chain's extreme is kept, so are its spacings: ``spacing[j]`` (W, those at
-    an end of their range), with place ``free[j, k]`` (of free gap k) set to
-    the front-to-front distance the join found less ``own[j, k]``, the length
-    of the group in front of it. The workspace is made once, for the largest.
+    chain's extreme is kept, so are the spacings of its ranged gaps, given as in
+    :func:`fleet_extremes` (``gaps``, ``ranged``): a gap between two groups is
+    the front-to-front distance the join found less the length of the group in
+    front of it. The workspace is made once, for the largest.
     """
     max_v, max_p, max_d, min_v, min_p, min_d, max_s, min_s = out
-    width = spacing.shape[1]
     n_eff = max_v.shape[1]
     # An extreme not kept is held at infinity, so the join never seeks it.
     never_above = np.full(n_eff, np.inf)
@@ -1042,19 +1045,45 @@ def chain_fleet(
                     max_v[i, e] = high[e]
                     max_p[i, e] = found[1][0, e]
                     max_d[i, e] = np.int8(sigma)
-                    for g in range(width):
-                        max_s[i, e, g] = spacing[job, g]
-                    for k in range(n_groups - 1):
-                        max_s[i, e, free[job, k]] = found[2][0, e, k] - own[job, k]
+                    _chain_spacing(max_s, i, e, 0, found[2], gaps, ranged, job, a0, offsets,
+                                   group_start, n_groups)  # fmt: skip
                 if keep[1] and low[e] < min_v[i, e]:
                     min_v[i, e] = low[e]
                     min_p[i, e] = found[1][1, e]
                     min_d[i, e] = np.int8(sigma)
-                    for g in range(width):
-                        min_s[i, e, g] = spacing[job, g]
-                    for k in range(n_groups - 1):
-                        min_s[i, e, free[job, k]] = found[2][1, e, k] - own[job, k]
+                    _chain_spacing(min_s, i, e, 1, found[2], gaps, ranged, job, a0, offsets,
+                                   group_start, n_groups)  # fmt: skip
     _copy(plan, out)
+
+
+@nb.njit(cache=True, inline="always")
+def _chain_spacing(
+    kept: np.ndarray,
+    i: int,
+    e: int,
+    sense: int,
+    distance: np.ndarray,
+    gaps: np.ndarray,
+    ranged: np.ndarray,
+    job: int,
+    a0: int,
+    offsets: np.ndarray,
+    group_start: np.ndarray,
+    n_groups: int,
+) -> None:
+    """``kept[i, e]``: the spacing of each ranged gap of chain ``job`` where it governs.
+
+    A gap between groups k and k + 1 (the gap before the first axle of group
+    k + 1) is the front-to-front ``distance[sense, e, k]`` less group k's own
+    length (the offset of its last axle); any other is the chain's own.
+    """
+    for w in range(ranged.shape[1]):
+        g = ranged[job, w]
+        value = gaps[a0 - job + g] if g >= 0 else np.nan
+        for k in range(n_groups - 1):
+            if g >= 0 and group_start[job, k + 1] - 1 == g:
+                value = distance[sense, e, k] - offsets[a0 + g]
+        kept[i, e, w] = value
 
 
 @nb.njit(cache=True)

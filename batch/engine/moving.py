@@ -92,12 +92,7 @@ def ranged_width(cases: Sequence[LoadCase]) -> int:
 
     The width of the spacing arrays of :class:`FleetExtremes` for those cases.
     """
-    return max((_ranged(c.train).size for c in cases), default=0)
-
-
-def _ranged(train: AxleTrain) -> NDArray[np.int64]:
-    """The gaps of ``train`` given as ranges, front to rear."""
-    return np.array([g for g, s in enumerate(train.spacings) if s.is_range], dtype=np.int64)
+    return max((len(c.train.ranged) for c in cases), default=0)
 
 
 @dataclass(frozen=True)
@@ -340,7 +335,7 @@ def fleet_extremes_of(
     chains: dict[bool, list[_Link]] = {}
     for row, t in enumerate(cases):
         ready = _prepare(il, t.train)
-        ranged = _ranged(t.train)
+        ranged = t.train.ranged
         for combo in ready.combos:
             if combo.free:
                 lo, hi = combo.gap_bounds(ready.lo, ready.hi)
@@ -353,10 +348,6 @@ def fleet_extremes_of(
     # Rigid trains first, then the free-gap chains of ranged ones; ties keep the first.
     for drop, jobs in rigid.items():
         start = np.cumsum([0] + [p.size for _, p, _, _ in jobs], dtype=np.int64)
-        spacing = np.full((len(jobs), width), np.nan)
-        for j, (_, _, combo, ranged) in enumerate(jobs):
-            # (a ranged train with its ranges at their ends: say which; NaN for a fixed one)
-            spacing[j, : ranged.size] = combo.spacing[ranged]
         args = (
             np.concatenate([p for _, p, _, _ in jobs]),
             np.concatenate([c.offsets for _, _, c, _ in jobs]),
@@ -365,25 +356,19 @@ def fleet_extremes_of(
             sigmas,
             tol,
         )
+        gaps = np.concatenate([c.spacing for _, _, c, _ in jobs])
+        which = _padded([r for _, _, _, r in jobs], width)
         for plan, keep in _kept(il, drop):
-            fleet_extremes(plan, *args, keep, kept, spacing)
+            fleet_extremes(plan, *args, keep, kept, gaps, which)
     for drop, links in chains.items():
         most = max(c.group_start.size for _, _, c, _, _, _ in links)
         groups = np.full((len(links), most), -1, dtype=np.int64)
         gap_lo = np.zeros((len(links), most - 2))
         gap_hi = np.zeros((len(links), most - 2))
-        # The ranged gaps' spacings: those at an end of their range, and where each free
-        # one goes (its place among the ranged gaps), less the length of the group before.
-        fixed = np.full((len(links), width), np.nan)
-        free = np.zeros((len(links), most - 2), dtype=np.int64)
-        own = np.zeros((len(links), most - 2))
-        for j, (_, _, combo, lo, hi, ranged) in enumerate(links):
+        for j, (_, _, combo, lo, hi, _) in enumerate(links):
             groups[j, : combo.group_start.size] = combo.group_start
             gap_lo[j, : lo.size] = lo
             gap_hi[j, : hi.size] = hi
-            fixed[j, : ranged.size] = combo.spacing[ranged]
-            free[j, : len(combo.free)] = np.searchsorted(ranged, combo.free)
-            own[j, : combo.own.size] = combo.own
         chain_args = (
             np.concatenate([p for _, p, _, _, _, _ in links]),
             np.concatenate([c.offsets for _, _, c, _, _, _ in links]),
@@ -395,17 +380,25 @@ def fleet_extremes_of(
             sigmas,
             tol,
         )
+        gaps = np.concatenate([c.spacing for _, _, c, _, _, _ in links])
+        which = _padded([r for _, _, _, _, _, r in links], width)
         for plan, keep in _kept(il, drop):
-            chain_fleet(plan, *chain_args, keep, kept, fixed, free, own)
+            chain_fleet(plan, *chain_args, keep, kept, gaps, which)
     return out
 
 
+def _padded(rows: list[tuple[int, ...]], width: int) -> NDArray[np.int64]:
+    """Each job's ranged gaps as one row of ``width``, padded with -1."""
+    pad = (-1,) * width
+    return np.array([r + pad[len(r) :] for r in rows], dtype=np.int64).reshape(len(rows), width)
+
+
 #: A rigid job: output row, axle loads, the way its spacings are fixed, its ranged gaps.
-_Job = tuple[int, NDArray[np.float64], _Combo, NDArray[np.int64]]
+_Job = tuple[int, NDArray[np.float64], _Combo, tuple[int, ...]]
 #: A chain job: output row, axle loads, the way its spacings are fixed, its gap bounds,
 #: its ranged gaps.
 _Link = tuple[
-    int, NDArray[np.float64], _Combo, NDArray[np.float64], NDArray[np.float64], NDArray[np.int64]
+    int, NDArray[np.float64], _Combo, NDArray[np.float64], NDArray[np.float64], tuple[int, ...]
 ]
 
 

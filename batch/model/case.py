@@ -19,6 +19,7 @@ conventions of docs/workbook.md: sagging moment positive, shear V = dM/dx
 
 from __future__ import annotations
 
+import functools
 import itertools
 import math
 from collections.abc import Sequence
@@ -725,6 +726,14 @@ class AxleTrain:
     def weight(self) -> float:
         """The sum of the axle loads."""
         return math.fsum(self.loads)
+
+    @functools.cached_property
+    def ranged(self) -> tuple[int, ...]:
+        """The gaps given as ranges (index from 0 at the front), front to rear.
+
+        Kept once per train: the engine asks it of every train on every member.
+        """
+        return tuple(g for g, s in enumerate(self.spacings) if s.is_range)
 
     def scaled(self, force: float, length: float) -> AxleTrain:
         """The same train with loads times ``force`` and spacings times ``length``."""
