@@ -43,6 +43,7 @@ from elsewhere cannot run code.
 from __future__ import annotations
 
 import contextlib
+import dataclasses
 import json
 import os
 import secrets
@@ -286,7 +287,8 @@ def _unpack_fatigue(blob: bytes | None) -> FatigueRanges | None:
         raise ValueError(f"stored fatigue ranges lack {exc}") from exc
 
 
-_GOVERNING = ("value", "case", "position", "direction")
+#: The arrays of a stored :class:`Governing` (every field of it).
+_GOVERNING = tuple(f.name for f in dataclasses.fields(Governing))
 
 
 def _pack_asbuilt(asbuilt: MemberAsBuilt) -> bytes:
