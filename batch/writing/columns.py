@@ -1780,7 +1780,7 @@ def _deflection_rows(result: RunResult) -> int:
 
 
 def _deflection_sense(sense: str, name: str) -> tuple[ResultColumn[DeflectedMember], ...]:
-    """The value, load, at and direction columns of the downward or upward deflection."""
+    """The value, load, at, direction and spacing columns of the downward or upward deflection."""
 
     def get(f: Callable[[DeflectedMember, Governing, int], object]) -> Callable[..., list]:
         def values(b: DeflectedMember) -> list[object]:
@@ -1824,6 +1824,15 @@ def _deflection_sense(sense: str, name: str) -> tuple[ResultColumn[DeflectedMemb
             values=get(lambda _b, ext, i: _direction(ext, i)),
             text=True,
             meaning="Direction of travel of the governing truck.",
+        ),
+        ResultColumn(
+            header=f"{name} spacing",
+            quantity="length",
+            width=14,
+            values=get(lambda _b, ext, i: _spacing(ext, i)),
+            text=True,
+            unit_in_cells=True,
+            meaning=SPACING_MEANING,
         ),
     )
 
