@@ -82,6 +82,19 @@ def test_station_positions_are_the_decimals_an_engineer_types(sample_results: Pa
     assert 2.4 in x and 2.4000000000000004 not in x  # a tenth of the 24 ft span
 
 
+def test_governing_positions_carry_no_round_off_tails(sample_results: Path) -> None:
+    # A front-axle position at an axle-on-station event is a station less an axle's offset
+    # (14.0 - 13.2 is 0.8000000000000007 in doubles); the sheets show twelve significant
+    # digits, so it reads 0.8. Stationary points (irrational in general) keep twelve.
+    for sheet in ("Envelopes", "Reactions", "Governing", "Deflections", "Ratings", "Rating Detail"):
+        frame = pd.read_excel(sample_results, sheet_name=sheet)
+        at = [c for c in frame.columns if " at (" in c or c.startswith("at (")]
+        assert at, sheet
+        for column in at:
+            values = frame[column].dropna().to_numpy(dtype=float)
+            assert all(v == float(f"{v:.12g}") for v in values), (sheet, column)
+
+
 @pytest.mark.parametrize(
     ("spans", "n"),
     [

@@ -86,6 +86,7 @@ __all__ = [
     "ScreenedMember",
     "direction_text",
     "is_result_sheet_name",
+    "shown_position",
     "spacing_text",
 ]
 
@@ -146,9 +147,24 @@ def _vehicle(env: MemberEnvelope, ext: Governing, i: int) -> str | None:
     return env.labels[case] if case >= 0 else None
 
 
+def shown_position(p: NDArray[np.float64]) -> NDArray[np.float64]:
+    """Computed positions (ft or m) as the decimals an engineer would type.
+
+    Rounded to twelve significant digits (a nanometre-scale step on any real member),
+    so that a front axle 13.2 ft behind a station at 14 ft reads 0.8, not
+    0.8000000000000007: each is N / 10**k with N an integer below 10**12 and 10**k exact,
+    so the quotient is the double nearest that decimal. Zero and NaN stay as they are.
+    """
+    p = np.asarray(p, dtype=float)
+    finite = np.isfinite(p) & (p != 0)
+    size = np.abs(np.where(finite, p, 1.0))
+    scale = 10.0 ** (11 - np.floor(np.log10(size)))
+    return np.where(finite, np.round(p * scale) / scale, p)
+
+
 def _position(ext: Governing, i: int) -> float | None:
     p = float(ext.position[i])
-    return p if int(ext.case[i]) >= 0 and np.isfinite(p) else None
+    return float(shown_position(np.array(p))) if int(ext.case[i]) >= 0 and np.isfinite(p) else None
 
 
 def _direction(ext: Governing, i: int) -> str | None:
@@ -931,7 +947,7 @@ _TERMS: tuple[_Term, ...] = (
         FORMAT_VALUE,
         9,
         "Position of its front axle from the member's left end (blank: lane load alone).",
-        lambda r, v, k: r.p_position[v, k],
+        lambda r, v, k: shown_position(r.p_position[v, k]),
     ),
     (
         "direction",
