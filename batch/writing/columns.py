@@ -595,10 +595,17 @@ def _per_vehicle(get: Callable[[Any, int], object]) -> Callable[[Any], list[obje
     return lambda block: [get(block, v) for v in range(len(block.case.vehicles))]
 
 
+#: RF_BANDS from the highest band down, for the fill of one cell.
+_RF_DOWN = tuple((low, rgb) for low, rgb, _ in reversed(RF_BANDS))
+
+
 def _rf_fill(value: object) -> str | None:
     if not isinstance(value, float):
         return None
-    return next(rgb for low, rgb, _ in reversed(RF_BANDS) if value >= low)
+    for low, rgb in _RF_DOWN:  # a plain loop: called once per RF cell of a run
+        if value >= low:
+            return rgb
+    return None
 
 
 def _exceeded_fill(value: object) -> str | None:
@@ -616,21 +623,23 @@ def _peak_blocks(result: RunResult) -> list[MemberPeaks]:
 _MEMBER: ResultColumn[Any] = ResultColumn(
     header="Member",
     width=16,
-    values=_per_vehicle(lambda b, _v: b.envelope.member if hasattr(b, "envelope") else b.member),
+    values=lambda b: (
+        [b.envelope.member if hasattr(b, "envelope") else b.member] * len(b.case.vehicles)
+    ),
     text=True,
     meaning="Member id.",
 )
 _VEHICLE: ResultColumn[Any] = ResultColumn(
     header="Vehicle",
     width=18,
-    values=_per_vehicle(lambda b, v: b.case.vehicles[v].id),
+    values=lambda b: [v.id for v in b.case.vehicles],
     text=True,
     meaning="Vehicle id, as on the Vehicles sheet.",
 )
 _CATEGORY: ResultColumn[Any] = ResultColumn(
     header="Category",
     width=9,
-    values=_per_vehicle(lambda b, v: b.case.vehicles[v].category),
+    values=lambda b: [v.category for v in b.case.vehicles],
     text=True,
     meaning="The vehicle's category: design, legal or permit.",
 )
@@ -679,10 +688,20 @@ def _n_rated(result: RunResult) -> int:
     return result.rated.members
 
 
-def _place(b: RatedMember, v: int, get: Callable[[MemberEnvelope, int], object]) -> object:
-    """A cell of the governing station of vehicle ``v`` (empty where nothing governs)."""
-    row = int(b.rating.station[v])
-    return get(b.envelope, row) if row >= 0 else None
+def _place(get: Callable[[MemberEnvelope], NDArray[Any]]) -> Callable[[RatedMember], list[object]]:
+    """Per vehicle, ``get`` (a station array of the envelope) at its governing station.
+
+    Empty where nothing governs.
+    """
+
+    def values(b: RatedMember) -> list[object]:
+        rows = b.rating.station
+        cells: list[object] = get(b.envelope)[np.maximum(rows, 0)].tolist()
+        for v in np.flatnonzero(rows < 0).tolist():
+            cells[v] = None
+        return cells
+
+    return values
 
 
 def _numbers(values: NDArray[Any]) -> list[object]:
@@ -1064,7 +1083,7 @@ RATINGS: ResultTable[RatedMember] = ResultTable(
             header="RF",
             number_format=FORMAT_RATIO,
             width=8,
-            values=_per_vehicle(lambda b, v: _finite_or_blank(b.rating.rf[v])),
+            values=lambda b: _numbers(b.rating.rf),
             fill=_rf_fill,
             meaning="Governing rating factor: the smallest over the member's rated stations and "
             "effects (inventory level for design loads); blank: the vehicle loads none of them. "
@@ -1073,11 +1092,9 @@ RATINGS: ResultTable[RatedMember] = ResultTable(
         ResultColumn(
             header="Effect",
             width=7,
-            values=_per_vehicle(
-                lambda b, v: (
-                    RATED_EFFECTS[int(b.rating.effect[v])][0] if b.rating.effect[v] >= 0 else None
-                )
-            ),
+            values=lambda b: [
+                RATED_EFFECTS[e][0] if e >= 0 else None for e in b.rating.effect.tolist()
+            ],
             text=True,
             meaning="The rated effect that governs: M+ (sagging), M- (hogging), V+ or V- (shear "
             "in either sense).",
@@ -1086,16 +1103,14 @@ RATINGS: ResultTable[RatedMember] = ResultTable(
             header="Span",
             number_format=FORMAT_WHOLE,
             width=6,
-            values=_per_vehicle(lambda b, v: _place(b, v, lambda e, i: int(e.station_span[i]))),
+            values=_place(lambda e: e.station_span),
             meaning="Span of the governing station, from 1 at the left end.",
         ),
         ResultColumn(
             header="Station",
             number_format=FORMAT_FRACTION,
             width=8,
-            values=_per_vehicle(
-                lambda b, v: _place(b, v, lambda e, i: float(e.station_fraction[i]))
-            ),
+            values=_place(lambda e: e.station_fraction),
             meaning="Fraction of the span of the governing station.",
         ),
         ResultColumn(
@@ -1103,7 +1118,7 @@ RATINGS: ResultTable[RatedMember] = ResultTable(
             quantity="length",
             number_format=FORMAT_VALUE,
             width=9,
-            values=_per_vehicle(lambda b, v: _place(b, v, lambda e, i: float(e.station_x[i]))),
+            values=_place(lambda e: e.station_x),
             meaning="Distance of the governing station from the member's left end.",
         ),
         ResultColumn(
@@ -1111,7 +1126,7 @@ RATINGS: ResultTable[RatedMember] = ResultTable(
             quantity="weight",
             number_format=FORMAT_VALUE,
             width=12,
-            values=_per_vehicle(lambda b, v: _finite_or_blank(b.rating.posting[v])),
+            values=lambda b: _numbers(b.rating.posting),
             meaning="Legal loads with 0.3 <= RF < 1: the posting load (W/0.7)(RF - 0.3), "
             "MBE 6A.8.3.",
         ),
@@ -1119,14 +1134,14 @@ RATINGS: ResultTable[RatedMember] = ResultTable(
             header="RF operating",
             number_format=FORMAT_RATIO,
             width=10,
-            values=_per_vehicle(lambda b, v: _finite_or_blank(b.rating.rf_operating[v])),
+            values=lambda b: _numbers(b.rating.rf_operating),
             fill=_rf_fill,
             meaning="Design loads: the operating-level rating factor at the same place.",
         ),
         ResultColumn(
             header="Flag",
             width=44,
-            values=_per_vehicle(lambda b, v: FLAGS[int(b.rating.flag[v])] or None),
+            values=lambda b: [FLAGS[f] or None for f in b.rating.flag.tolist()],
             text=True,
             meaning="A note on a rating below 1, or on a vehicle that loads no rated effect.",
         ),
