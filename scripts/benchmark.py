@@ -10,6 +10,9 @@ It writes an input workbook, runs ``spanfleet run`` on it as a user would
 (a separate process, timed from start to finish), and prints the time per
 member-vehicle pair, effects per second and the run's peak memory, then runs a
 quarter of the inventory to show that peak memory does not grow with members.
+The run's CPU time (its worker processes' included) is set against the kernel's
+alone on the same members and fleet (timed here on a sample of the members), to
+show how much of a run is spent outside the kernel.
 
 Shared computers are noisy and only a ratio measured side by side means
 anything, so two baselines are timed in the same run, on a sample of the same
@@ -58,6 +61,7 @@ from batch.loads.cases import LoadCase
 from batch.loads.fleet import fleet_cases
 from batch.model import AxleTrain, Case, Vehicle
 from batch.model.layout import POSITION_TOL
+from batch.rating.assess import AssessmentPlan
 from batch.writing.template import write_case_workbook
 
 STEP = 0.5  # ft, the baselines' front-axle step (the vectorised one's grid)
@@ -217,8 +221,11 @@ def kernel_work(il: InfluenceLines, cases: list[LoadCase], found: FleetExtremes)
     return line_events, solves
 
 
-def _end_to_end(case: Case, jobs: int | None) -> tuple[float, float]:
-    """Seconds and peak memory (MB) of ``spanfleet run`` on ``case``, as a user runs it."""
+def _end_to_end(case: Case, jobs: int | None) -> tuple[float, float, float]:
+    """Seconds, CPU seconds (its workers' too) and peak memory (MB) of ``spanfleet run``.
+
+    Run on ``case`` as a user runs it.
+    """
     with tempfile.TemporaryDirectory() as tmp:
         book = Path(tmp) / "synthetic-inventory.xlsx"
         write_case_workbook(case, book)
@@ -237,7 +244,27 @@ def _end_to_end(case: Case, jobs: int | None) -> tuple[float, float]:
             child.returncode = os.waitstatus_to_exitcode(status)
         if child.returncode != 0:
             raise SystemExit(f"spanfleet run failed:\n{log.read_text()}")
-    return elapsed, usage.ru_maxrss / 1024
+    return elapsed, usage.ru_utime + usage.ru_stime, usage.ru_maxrss / 1024
+
+
+def kernel_seconds(case: Case, cases: list[LoadCase], every: int) -> float:
+    """CPU seconds the kernel would take on the whole inventory, from every ``every``-th member.
+
+    Each sampled member's stations are those of the run (its rated sections added) and its
+    whole fleet goes in one call, as in a run.
+    """
+    plan = AssessmentPlan.of(case)
+    settings = case.settings
+    sampled = case.members[::every]
+    ils = [
+        member_influence(m, settings.stations_per_span, () if plan is None else plan.sections(m))
+        for m in sampled
+    ]
+    fleet_extremes_of(ils[0], cases)  # compiled and warm outside the timing
+    start = time.process_time()
+    for il in ils:
+        fleet_extremes_of(il, cases)
+    return (time.process_time() - start) * len(case.members) / len(sampled)
 
 
 def _best_time(work: Callable[[], object], rounds: int = 5) -> float:
@@ -280,14 +307,16 @@ def main(argv: list[str] | None = None) -> int:
     case = inventory(args.members)
     pairs = len(case.members) * len(case.vehicles)
     settings = case.settings
-    elapsed, peak_mb = _end_to_end(case, args.jobs)
+    elapsed, cpu, peak_mb = _end_to_end(case, args.jobs)
     # The same fleet on a quarter of the inventory: peak memory should not grow with members.
     small = inventory(max(1, args.members // 4))
-    _, small_peak_mb = _end_to_end(small, args.jobs)
+    _, _, small_peak_mb = _end_to_end(small, args.jobs)
 
     # Kernel alone, three-span members, every vehicle (fixed and ranged), both directions,
     # the whole fleet in one call per member as in a run.
     cases = fleet_cases(case.vehicles, settings)
+    every = max(1, len(case.members) // 100)
+    in_kernel = kernel_seconds(case, cases, every)
     three = [m for m in case.members if len(m.spans) == 3][:20]
     ils = [member_influence(m, settings.stations_per_span) for m in three]
     kernel_us = _best_time(lambda: [fleet_extremes_of(il, cases) for il in ils]) / (
@@ -378,6 +407,11 @@ def main(argv: list[str] | None = None) -> int:
     )
     print(f"end to end           {elapsed:.1f} s  ({per_pair * 1e6:.0f} us per pair)")
     print(f"effects per second   {effects / elapsed:,.0f}  (max and min of every line)")
+    print(
+        f"outside the kernel   {1 - in_kernel / cpu:.0%} of the run's CPU time "
+        f"({cpu:.1f} s, workers included; the kernel's {in_kernel:.1f} s timed apart on one "
+        f"member in {every}; target <= 25%)"
+    )
     print(
         f"peak memory          {peak_mb:.0f} MB (the spanfleet process); "
         f"{small_peak_mb:.0f} MB with a quarter of the members"
