@@ -18,6 +18,7 @@ posting loads are computed by :mod:`batch.rating`; these columns only show them.
 from __future__ import annotations
 
 import dataclasses
+import math
 import re
 from collections.abc import Callable, Iterator
 from typing import TYPE_CHECKING, Any, NamedTuple
@@ -586,8 +587,9 @@ class ScreenedMember(NamedTuple):
 
 
 def _finite_or_blank(value: float) -> float | None:
-    """A finite number, or an empty cell."""
-    return float(value) if np.isfinite(value) else None
+    """A finite number, or an empty cell (math, not numpy: called once per cell)."""
+    number = float(value)
+    return number if math.isfinite(number) else None
 
 
 def _per_vehicle(get: Callable[[Any, int], object]) -> Callable[[Any], list[object]]:
@@ -652,7 +654,7 @@ def _peak_column(k: int, effect: Effect) -> ResultColumn[MemberPeaks]:
         quantity=effect.quantity,
         number_format=FORMAT_VALUE,
         width=12,
-        values=lambda b: [float(x) for x in b.peaks[:, k]],
+        values=lambda b: b.peaks[:, k].tolist(),
         meaning=f"{effect.meaning} The member's extreme under this vehicle alone.",
     )
 
