@@ -360,9 +360,10 @@ class SheetStream:
             ]
         if kinds <= _TEXTS:
             mid = f'"{s} t="inlineStr">'
-            inline = self._inline
+            # Each distinct text once (a column repeats a few ids and words), then a lookup.
+            inline = {v: self._inline(v) for v in set(values) if v}  # type: ignore[arg-type]
             return [
-                f"{head}{r}{mid}{inline(v)}</c>" if v else ""  # type: ignore[arg-type]
+                f"{head}{r}{mid}{inline[v]}</c>" if v else ""
                 for r, v in zip(rs, values, strict=True)
             ]
         return [
