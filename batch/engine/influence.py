@@ -173,18 +173,25 @@ class InfluenceLines:
         (n_effects, len(x)).
         """
         xs = np.atleast_1d(np.asarray(x, dtype=float))
+        return self.ordinates(np.arange(self.n_effects)[:, None], xs[None, :], side)
+
+    def ordinates(
+        self, lines: NDArray[np.int64], x: NDArray[np.float64], side: str = "right"
+    ) -> NDArray[np.float64]:
+        """Ordinate of line ``lines[...]`` for a unit load at ``x[...]``, element by element.
+
+        ``lines`` and ``x`` broadcast together; ``side`` and the member's ends as
+        in :meth:`evaluate`, which is this for every line at every x.
+        """
         tol = POSITION_TOL * self.length
         n_pieces = self.breaks.size - 1
-        if side == "right":
-            j = np.searchsorted(self.breaks, xs, side="right") - 1
-        elif side == "left":
-            j = np.searchsorted(self.breaks, xs, side="left") - 1
-        else:
+        if side not in ("right", "left"):
             raise ValueError("side must be 'right' or 'left'")
-        on = (xs >= -tol) & (xs <= self.length + tol)
+        j = np.searchsorted(self.breaks, x, side="left" if side == "left" else "right") - 1
+        on = (x >= -tol) & (x <= self.length + tol)
         j = np.clip(j, 0, n_pieces - 1)
-        t = xs - self.breaks[j]
-        c = self.coef[:, j, :]
+        t = x - self.breaks[j]
+        c = self.coef[lines, j, :]
         out = ((c[..., 3] * t + c[..., 2]) * t + c[..., 1]) * t + c[..., 0]
         return np.where(on, out, 0.0)
 
@@ -368,6 +375,40 @@ class InfluenceLines:
         part = antiderivative(hi) - antiderivative(lo)
         positive = np.where(part > 0, part, 0.0).sum(axis=(1, 2))
         negative = np.where(part < 0, part, 0.0).sum(axis=(1, 2))
+        return positive, negative
+
+    def areas_where(
+        self, governing: NDArray[np.int64], companion: NDArray[np.int64]
+    ) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+        """Exact integrals of each companion line where its governing line is positive, negative.
+
+        For each pair ``(governing[r], companion[r])``, the integral of the
+        companion line over the parts of the member where the governing line is
+        above 0, and over those where it is below 0: multiplied by a uniform
+        load per unit length, the companion effect of that load placed on the
+        parts adverse to the governing effect. ``areas_where(e, e)`` is
+        :meth:`areas` of e. Zero crossings as in :meth:`areas`.
+        """
+        from batch.engine.kernel import cubic_crossings
+
+        h = np.diff(self.breaks)  # the common partition: both lines' pieces coincide
+        g = np.ascontiguousarray(self.coef[governing])  # (R, P, 4)
+        c = self.coef[companion][..., None, :]
+        spans = np.ascontiguousarray(np.broadcast_to(h, g.shape[:2]))
+        roots = cubic_crossings(g, spans)  # (R, P, 3)
+        cuts = np.concatenate([np.zeros((*g.shape[:2], 1)), roots, spans[..., None]], axis=-1)
+        cuts = np.sort(np.where(np.isnan(cuts), spans[..., None], cuts), axis=-1)
+        lo, hi = cuts[..., :-1], cuts[..., 1:]
+        mid = 0.5 * (lo + hi)
+        k = g[..., None, :]
+        sign = ((k[..., 3] * mid + k[..., 2]) * mid + k[..., 1]) * mid + k[..., 0]
+
+        def antiderivative(t: NDArray[np.float64]) -> NDArray[np.float64]:
+            return t * (c[..., 0] + t * (c[..., 1] / 2 + t * (c[..., 2] / 3 + t * c[..., 3] / 4)))
+
+        part = antiderivative(hi) - antiderivative(lo)
+        positive = np.where(sign > 0, part, 0.0).sum(axis=(1, 2))
+        negative = np.where(sign < 0, part, 0.0).sum(axis=(1, 2))
         return positive, negative
 
 
