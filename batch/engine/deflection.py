@@ -91,7 +91,11 @@ def member_deflection(
             spacings[:, rows],
             sign,
         )
-        out.append(Governing(value=v, case=case, position=p, direction=d, spacing=s))
+        # (a deflection has no companion effect)
+        none = np.full(v.shape, np.nan)
+        out.append(
+            Governing(value=v, case=case, position=p, direction=d, spacing=s, concurrent=none)
+        )
     spans = np.asarray(member.spans, dtype=float)
     per_span = np.array(
         [out[0].value[il.station_span == k + 1].max(initial=0.0) for k in range(spans.size)]

@@ -43,6 +43,11 @@ class Governing:
     each of its ranged gaps, front to rear (length unit; W the most ranged gaps
     of any of the load cases, 0 when none has one); NaN past the train's own
     ranged gaps, for a train of fixed spacings and where ``position`` is NaN.
+    ``concurrent`` is the effect that acts with the governing value, the same
+    load case standing in the same place (:func:`batch.engine.envelope.envelope_of`):
+    for a moment, the shear at its station; for a shear, the moment at its
+    station (force and moment units, same signs); NaN for a reaction or a deflection, where no
+    case governs and for a load placed again in another span.
     """
 
     value: NDArray[np.float64]
@@ -50,6 +55,7 @@ class Governing:
     position: NDArray[np.float64]
     direction: NDArray[np.int8]
     spacing: NDArray[np.float64]
+    concurrent: NDArray[np.float64]
 
 
 @dataclass(frozen=True, kw_only=True)

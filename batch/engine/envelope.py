@@ -21,8 +21,10 @@ Sign conventions are those of :mod:`batch.engine.influence`.
 
 from __future__ import annotations
 
+import functools
 from collections.abc import Sequence
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 from numpy.typing import NDArray
@@ -40,7 +42,7 @@ from batch.engine.moving import (
 from batch.loads.cases import LoadCase
 from batch.loads.factors import SINGLE_LANE_PRESENCE
 from batch.model import Member
-from batch.model.layout import Section
+from batch.model.layout import POSITION_TOL, Section
 
 __all__ = [
     "CaseEffects",
@@ -53,6 +55,9 @@ __all__ = [
 
 #: An extreme smaller than this fraction of the case's natural size is round-off, not an effect.
 ZERO_TOL = 1e-10
+#: The two one-sided limits of a train's effect (an axle on a break of the line) closer than
+#: this fraction of the effect's natural size are one value: the line does not jump there.
+SIDE_REL_TOL = 1e-9
 
 DIRECTION_CODES: dict[str, tuple[int, ...]] = {
     "both": (LEFT_TO_RIGHT, RIGHT_TO_LEFT),
@@ -138,9 +143,14 @@ class CaseEffects(FleetExtremes):
     impact being the formula's for a case with an impact formula and 0 otherwise
     (all 0 where the value is 0). Rating recomputes a vehicle's effect from them
     with its own dynamic allowance and distribution factor (:mod:`batch.rating.lrfr`).
+
+    ``cases`` are the load cases of the rows and ``distribution`` (n_cases,
+    n_effects) the distribution factor each case takes on each effect.
     """
 
     lines: InfluenceLines
+    cases: tuple[LoadCase, ...]
+    distribution: NDArray[np.float64]
     max_impact: NDArray[np.float64]
     min_impact: NDArray[np.float64]
     max_loaded_length: NDArray[np.float64]
@@ -232,6 +242,8 @@ def case_effects(
         )
     return CaseEffects(
         lines=il,
+        cases=tuple(cases),
+        distribution=df,
         max_value=out["max"][0],
         max_position=out["max"][1],
         max_direction=out["max"][2],
@@ -439,13 +451,132 @@ def governing(
     return v[best, cols], case, p[best, cols], d[best, cols], s[best, cols]
 
 
+@dataclass(frozen=True)
+class _Trains:
+    """The load cases' trains as padded arrays, for evaluating them where they govern.
+
+    ``loads`` (n_cases, A) the axle loads, 0 past a train's last axle; ``gaps``
+    (n_cases, A - 1) the low end of every gap; ``ranged`` (n_cases, W) the gaps
+    given as ranges, front to rear (-1 past the last); the rest one per case.
+    """
+
+    loads: NDArray[np.float64]
+    gaps: NDArray[np.float64]
+    ranged: NDArray[np.int64]
+    lane: NDArray[np.float64]
+    factor: NDArray[np.float64]
+    drop: NDArray[np.bool_]
+    placed: NDArray[np.bool_]
+    formula: NDArray[np.bool_]
+
+
+@functools.lru_cache(maxsize=8)
+def _trains(cases: tuple[LoadCase, ...]) -> _Trains:
+    """:class:`_Trains` of ``cases``, made once for all the members of a run."""
+    most = max(len(c.train.loads) for c in cases)
+    width = ranged_width(cases)
+    loads = np.zeros((len(cases), most))
+    gaps = np.zeros((len(cases), most - 1))
+    ranged = np.full((len(cases), width), -1, dtype=np.int64)
+    for row, c in enumerate(cases):
+        loads[row, : len(c.train.loads)] = c.train.loads
+        gaps[row, : len(c.train.low)] = c.train.low
+        ranged[row, : len(c.train.ranged)] = c.train.ranged
+    return _Trains(
+        loads=loads,
+        gaps=gaps,
+        ranged=ranged,
+        lane=np.array([c.lane_load for c in cases]),
+        factor=np.array([c.factor for c in cases]),
+        drop=np.array([c.drop_adverse_axles for c in cases], dtype=bool),
+        placed=np.array([c.other_span_load for c in cases], dtype=bool),
+        formula=np.array([c.impact_formula is not None for c in cases], dtype=bool),
+    )
+
+
+def _concurrent(
+    effects: CaseEffects,
+    sense: str,
+    governing: NDArray[np.int64],
+    companion: NDArray[np.int64],
+    found: tuple[NDArray[Any], ...],
+) -> NDArray[np.float64]:
+    """The value of each ``companion`` line with the load placed as it governs ``governing``.
+
+    ``found`` is :func:`_governing`'s (value, case, position, direction, spacing)
+    of those governing lines in ``sense`` ("max" or "min"). The governing case's
+    axles stand where they govern (front axle at the position, the direction,
+    the spacing; with ``drop_adverse_axles`` only the axles that add to the
+    governing effect), its lane load on the parts of the member where the
+    governing line is adverse; the companion takes the case's factor, its own
+    distribution factor and the governing value's dynamic allowance:
+    ``DF * ((1 + IM) * axles + (1 + IM lane) * lane)``. Where an axle stands on
+    a jump of a line, the limit from the side that gives the governing value
+    is taken for both lines; where both sides give it (the governing line does
+    not jump there, e.g. a moment with an axle on its station), the companion
+    takes the load on the station as the governing line's section sees it
+    (:mod:`batch.engine.influence`: just right of the station, or just left at
+    fraction 1 of a span, where the load is then to its right). NaN where no
+    case governs, and for a load placed again in another span (its second
+    position is not kept).
+    """
+    il = effects.lines
+    _, case, position, direction, spacing = found
+    governs = case >= 0
+    c = np.maximum(case, 0)
+    trains = _trains(effects.cases)
+    rows = np.arange(c.size)
+    gaps = trains.gaps[c]
+    for w in range(trains.ranged.shape[1]):  # (the ranged gaps, at most MAX_RANGES)
+        gap = trains.ranged[c, w]
+        used = (gap >= 0) & np.isfinite(spacing[:, w])
+        gaps[rows[used], gap[used]] = spacing[used, w]
+    offsets = np.concatenate([np.zeros((c.size, 1)), np.cumsum(gaps, axis=1)], axis=1)
+    moving = governs & np.isfinite(position) & (direction != 0)
+    x = np.where(moving, position, 0.0)[:, None] - direction[:, None] * offsets
+    loads = np.where(moving[:, None], trains.loads[c], 0.0)
+    tol = POSITION_TOL * il.length
+    # An axle within round-off of a break stands on it (the sweep puts it there exactly).
+    j = np.clip(np.searchsorted(il.breaks, x), 1, il.breaks.size - 1)
+    before, after = il.breaks[j - 1], il.breaks[j]
+    near = np.where(x - before <= after - x, before, after)
+    x = np.where(np.abs(near - x) <= tol, near, x)
+    sign = 1.0 if sense == "max" else -1.0
+    sums = {}
+    for side in ("left", "right"):
+        # The limit from outside the member of a load on an end support is 0 (off it).
+        off = x <= tol if side == "left" else x >= il.length - tol
+        own = np.where(off, 0.0, il.ordinates(governing[:, None], x, side))
+        other = np.where(off, 0.0, il.ordinates(companion[:, None], x, side))
+        counted = ~trains.drop[c][:, None] | (sign * own > 0)
+        sums[side] = ((loads * own * counted).sum(axis=1), (loads * other * counted).sum(axis=1))
+    factor = trains.factor[c]
+    target = getattr(effects, f"{sense}_axle")[c, governing]
+    miss = {side: np.abs(factor * sums[side][0] - target) for side in sums}
+    size = il.effect_scale[governing] * trains.loads[c].sum(axis=1) * np.abs(factor)
+    tie = np.abs(factor * (sums["left"][0] - sums["right"][0])) <= SIDE_REL_TOL * size
+    section_left = il.station_fraction[governing % il.n_stations] == 1.0
+    left = np.where(tie, ~section_left, miss["left"] <= miss["right"])
+    axles = factor * np.where(left, sums["left"][1], sums["right"][1])
+    areas = il.areas_where(governing, companion)[0 if sense == "max" else 1]
+    lane = factor * trains.lane[c] * areas
+    impact = getattr(effects, f"{sense}_impact")[c, governing]
+    impact_lane = np.where(trains.formula[c], impact, 0.0)
+    value = effects.distribution[c, companion] * ((1 + impact) * axles + (1 + impact_lane) * lane)
+    return np.where(governs & ~trains.placed[c], value, np.nan)
+
+
 def envelope_of(
     member_id: str,
     effects: CaseEffects,
     labels: tuple[str, ...],
     rows: NDArray[np.int64] | None = None,
 ) -> MemberEnvelope:
-    """The envelope over the load cases ``rows`` (all by default) of ``effects``."""
+    """The envelope over the load cases ``rows`` (all by default) of ``effects``.
+
+    With each governing moment and shear, its concurrent shear and moment
+    (:func:`_concurrent`).
+    """
     il = effects.lines
     best = {
         sense: governing(
@@ -459,10 +590,29 @@ def envelope_of(
         for sense, sign in (("max", 1.0), ("min", -1.0))
     }
 
+    # The companion of a station's moment line is the shear line at that station, and back.
+    n = il.n_stations
+    lines = np.arange(2 * n)
+    companion = np.concatenate([lines[n:], lines[:n]])
+    concurrent = {
+        sense: np.concatenate(
+            [
+                _concurrent(effects, sense, lines, companion, tuple(a[: 2 * n] for a in found)),
+                np.full(il.n_effects - 2 * n, np.nan),  # (a reaction has none)
+            ]
+        )
+        for sense, found in best.items()
+    }
+
     def pick(sense: str, part: slice) -> Governing:
         v, c, p, d, s = best[sense]
         return Governing(
-            value=v[part], case=c[part], position=p[part], direction=d[part], spacing=s[part]
+            value=v[part],
+            case=c[part],
+            position=p[part],
+            direction=d[part],
+            spacing=s[part],
+            concurrent=concurrent[sense][part],
         )
 
     impact = None

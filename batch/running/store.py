@@ -79,7 +79,7 @@ _EXTREMES = ("m_max", "m_min", "v_max", "v_min", "r_max", "r_min")
 
 #: The layout of the tables below (SQLite's user_version); a store of another layout
 #: is rebuilt empty.
-SCHEMA_VERSION = 4
+SCHEMA_VERSION = 5
 #: Seconds a run waits for another run's write to the store to finish.
 BUSY_TIMEOUT_S = 30.0
 
@@ -333,10 +333,10 @@ def _unpack_asbuilt(blob: bytes | None) -> MemberAsBuilt:
 
 
 #: Each envelope array in the order it is stored, with its stored type: first the
-#: layout, then per effect family and sense value, case, position and spacing (W per
-#: row, W in the header); then, for a run with the Standard Specifications' impact, its
-#: loaded length and fraction per effect (:data:`_IMPACT`); the one-byte directions last
-#: (so every wider array stays aligned).
+#: layout, then per effect family and sense value, case, position, spacing (W per row, W
+#: in the header) and concurrent effect; then, for a run with the Standard
+#: Specifications' impact, its loaded length and fraction per effect (:data:`_IMPACT`);
+#: the one-byte directions last (so every wider array stays aligned).
 _ARRAYS: tuple[tuple[str, str, type[np.generic]], ...] = (
     ("", "station_span", np.int64),
     ("", "station_fraction", np.float64),
@@ -350,6 +350,7 @@ _ARRAYS: tuple[tuple[str, str, type[np.generic]], ...] = (
             ("case", np.int64),
             ("position", np.float64),
             ("spacing", np.float64),
+            ("concurrent", np.float64),
         )
     ),
 )
@@ -421,6 +422,7 @@ def _unpack(member: str, blob: bytes | None, labels: tuple[str, ...]) -> MemberE
             position=arrays[name, "position"],
             direction=arrays[name, "direction"],
             spacing=arrays[name, "spacing"],
+            concurrent=arrays[name, "concurrent"],
         )
         for name in _EXTREMES
     }
