@@ -28,6 +28,7 @@ RESULT_SHEETS = {
     "Envelopes",
     "Reactions",
     "Governing",
+    "Concurrent Forces",
     "Vehicle Summary",
     "Moment Charts",
     "Shear Charts",

@@ -110,6 +110,7 @@ def test_sheets_and_headers_follow_the_contract(written: tuple[Case, Path]) -> N
         "Envelopes",
         "Reactions",
         "Governing",
+        "Concurrent Forces",
         "Vehicle Summary",
         "Moment Charts",
         "Shear Charts",
@@ -188,6 +189,51 @@ def test_envelopes_equal_the_engine_cell_for_cell(written: tuple[Case, Path]) ->
                         assert spacing is None
     assert k == len(rows)
     assert spaced > 0
+
+
+def test_concurrent_forces_are_the_engines_cell_for_cell(written: tuple[Case, Path]) -> None:
+    # Each governing shear with the moment acting with it, and each governing moment with
+    # its shear: the engine's numbers unchanged (tests/test_concurrent.py checks them
+    # against a brute-force search), beside the same vehicle, position and direction.
+    case, path = written
+    rows = _rows(load_workbook(path)["Concurrent Forces"])
+    cases = fleet_cases(case.vehicles, case.settings)
+    header = list(rows[0])
+    assert header[:10] == [
+        "Member",
+        "Span",
+        "Station",
+        "x (ft)",
+        "V max (kip)",
+        "M with V max (kip-ft)",
+        "V max vehicle",
+        "V max at (ft)",
+        "V max direction",
+        "V max spacing",
+    ]
+    assert "V with M min (kip)" in header and len(header) == 4 + 4 * 6
+    k = 0
+    for member in case.members:
+        env = member_envelope(member, cases, case.settings.stations_per_span, "both")
+        for i in range(env.station_x.size):
+            row = rows[k]
+            k += 1
+            for name, other, unit in (
+                ("V max", "M", "kip-ft"),
+                ("V min", "M", "kip-ft"),
+                ("M max", "V", "kip"),
+                ("M min", "V", "kip"),
+            ):
+                ext = _EFFECT[name].extremes(env)
+                cell = row[f"{other} with {name} ({unit})"]
+                if np.isnan(ext.concurrent[i]):
+                    assert cell is None
+                else:
+                    assert cell == ext.concurrent[i]
+                assert row[f"{name} vehicle"] == (
+                    env.labels[ext.case[i]] if ext.case[i] >= 0 else None
+                )
+    assert k == len(rows)
 
 
 def test_pandas_reads_the_engines_numbers_bit_for_bit(written: tuple[Case, Path]) -> None:

@@ -250,6 +250,7 @@ def test_a_second_run_replaces_the_result_sheets(tmp_path: Path) -> None:
         "Envelopes",
         "Reactions",
         "Governing",
+        "Concurrent Forces",
         "Vehicle Summary",
         "Moment Charts",
         "Shear Charts",

@@ -59,6 +59,7 @@ if TYPE_CHECKING:
 
 __all__ = [
     "CHARTS_SHEET",
+    "CONCURRENT",
     "DEAD_LOADS",
     "DEFLECTIONS",
     "DEFLECTION_CHECK",
@@ -428,6 +429,55 @@ GOVERNING: ResultTable[MemberEnvelope] = ResultTable(
             meaning="Member id.",
         ),
         *(col for e in EFFECTS for col in _governing_columns(e)),
+    ),
+)
+
+
+# ---------------------------------------------------------------- concurrent forces
+
+
+def _concurrent_columns(effect: Effect) -> tuple[Column, ...]:
+    """A governing moment or shear, the shear or moment acting with it, and what governs."""
+    value, *governs = _effect_columns(effect)
+    moment = effect.quantity == "moment"
+    other = "V" if moment else "M"
+    return (
+        value,
+        ResultColumn(
+            header=f"{other} with {effect.name}",
+            quantity="force" if moment else "moment",
+            number_format=FORMAT_VALUE,
+            width=12,
+            values=lambda env: _numbers(effect.extremes(env).concurrent),
+            highlight=effect.name,
+            meaning=f"The {'shear' if moment else 'moment'} at the station that acts with "
+            f"{effect.name}: the same vehicle at the same position, direction and spacing, its "
+            "lane load on the same parts of the member; its own distribution factor, the "
+            f"dynamic allowance of {effect.name}. Blank where no vehicle governs, and for a "
+            "load placed again in another span.",
+        ),
+        *governs,
+    )
+
+
+CONCURRENT: ResultTable[MemberEnvelope] = ResultTable(
+    sheet="Concurrent Forces",
+    purpose="One row per member and station: the largest and smallest shear, each with the "
+    "moment that acts with it, and the largest sagging and hogging moment, each with the "
+    "shear that acts with it (the same vehicle in the same place): for checks that take a "
+    "shear with its concurrent moment, as the shear resistance of concrete does (AASHTO "
+    "LRFD 5.7.3.4.2 takes Mu with Vu).",
+    blocks=lambda result: result.envelopes,
+    rows=lambda result: result.n_stations,
+    highlights=_highlights("station"),
+    frozen_columns=4,
+    columns=(
+        *ENVELOPES.columns[:4],
+        *(
+            col
+            for name in ("V max", "V min", "M max", "M min")
+            for col in _concurrent_columns(next(e for e in EFFECTS if e.name == name))
+        ),
     ),
 )
 
@@ -2101,6 +2151,7 @@ RESULT_TABLES: tuple[AnyTable, ...] = (
     ENVELOPES,
     REACTIONS,
     GOVERNING,
+    CONCURRENT,
     IMPACT,
     FATIGUE,
     DEFLECTIONS,
