@@ -31,7 +31,7 @@ import itertools
 import numpy as np
 import pytest
 from numpy.typing import NDArray
-from tolerances import REL_TOL_EXACT
+from tolerances import REL_TOL_EXACT, REL_TOL_LIBRARY
 
 from batch.engine.envelope import member_envelope, member_influence
 from batch.loads.cases import LoadCase
@@ -243,3 +243,67 @@ def test_the_lane_integral_is_the_area_over_the_governing_lines_adverse_parts() 
             quad(line, b0, b1)[0] for b0, b1 in zip(il.breaks[:-1], il.breaks[1:], strict=True)
         )
         assert up[i] + down[i] == pytest.approx(whole, rel=1e-9, abs=1e-9 * il.length**2)
+
+
+def _fe_moments(
+    spans: tuple[float, ...], ei: tuple[float, ...], stations: NDArray[np.float64], loads: dict
+) -> NDArray[np.float64]:
+    """Moments (sagging positive) at ``stations`` under point loads {x: P}, by PyNite.
+
+    A chain of frame elements with a node at every support, station and load; PyNite's
+    member moment Mz is negative for sagging (its sign convention), hence the minus.
+    """
+    import Pynite
+
+    supports = np.concatenate([[0.0], np.cumsum(spans)])
+    points = np.sort(np.concatenate([supports, stations, list(loads)]))
+    xs = points[np.concatenate([[True], np.diff(points) > 1e-9])]
+    model = Pynite.FEModel3D()
+    model.add_material("unit", 1.0, 1.0, 0.3, 0.0)
+    for i, x in enumerate(xs):
+        model.add_node(f"N{i}", float(x), 0.0, 0.0)
+        on_support = bool(np.any(np.abs(supports - x) <= 1e-9))
+        model.def_support(f"N{i}", i == 0, on_support, True, True, True)
+    for i in range(xs.size - 1):
+        span = int(np.searchsorted(supports, 0.5 * (xs[i] + xs[i + 1]))) - 1
+        model.add_section(f"S{i}", 1.0, 1.0, float(ei[span]), 1.0)
+        model.add_member(f"E{i}", f"N{i}", f"N{i + 1}", "unit", f"S{i}")
+    for x, p in loads.items():
+        model.add_node_load(f"N{int(np.argmin(np.abs(xs - x)))}", "FY", -p)
+    model.analyze_linear(check_statics=False)
+    out = []
+    for x in stations:
+        i = int(np.argmin(np.abs(xs - x)))
+        member = model.members[f"E{min(i, xs.size - 2)}"]
+        at = 0.0 if i < xs.size - 1 else float(xs[i] - xs[i - 1])
+        out.append(-member.moment("Mz", at))
+    return np.array(out)
+
+
+def test_the_moment_with_a_governing_shear_on_continuous_spans_matches_fe() -> None:
+    # Three continuous spans with unequal EI: the moment acting with V max and with V min
+    # at every station equals an independent finite-element model (PyNiteFEA, a general
+    # frame solver; tests/test_engine_fea.py checks it against hand answers) loaded with
+    # the governing truck's axles where the engine says they stand. The moment is
+    # continuous in the load's position, so an axle on the station needs no side.
+    pytest.importorskip("Pynite")
+    spans, ei = (50.0, 70.0, 55.0), (1.0, 1.6, 1.2)
+    member = Member(id="KVHA C3", spans=spans, span_ei=ei, df_moment=0.7, df_shear=0.8)
+    truck = LoadCase(
+        label="haul",
+        train=AxleTrain.of([12.0, 30.0, 30.0, 18.0], [11.0, 4.5, 16.0], [11.0, 4.5, 30.0]),
+        factor=1.1,
+    )
+    env = member_envelope(member, [truck], 6)
+    x = env.station_x
+    for ext in (env.v_max, env.v_min):
+        for i in np.flatnonzero(ext.case >= 0):
+            gaps = np.array([11.0, 4.5, ext.spacing[i][0]])
+            axles = ext.position[i] - ext.direction[i] * np.concatenate([[0.0], np.cumsum(gaps)])
+            on = (axles >= 0.0) & (axles <= sum(spans))
+            loads = dict(zip(axles[on].tolist(), np.array(truck.train.loads)[on], strict=True))
+            fe = _fe_moments(spans, ei, x[i : i + 1], loads)[0]
+            expected = 0.7 * 1.1 * fe  # DF moment and the case's factor, no allowance
+            assert ext.concurrent[i] == pytest.approx(
+                expected, rel=REL_TOL_LIBRARY, abs=REL_TOL_EXACT * sum(spans) * 90.0
+            )
