@@ -45,6 +45,7 @@ from batch.reading.problems import InputReport, Problem
 from batch.running.executor import ProgressFn, RunOptions, RunResult, run_case
 from batch.validating import read_input
 from batch.writing.columns import (
+    CONCURRENT,
     ENVELOPES,
     GOVERNING,
     RATING_MATRIX,
@@ -340,6 +341,15 @@ class Results:
     def governing(self) -> pd.DataFrame:
         """One row per member: its extreme of every effect, where and by which vehicle."""
         return self.frame(GOVERNING.sheet)
+
+    @property
+    def concurrent_forces(self) -> pd.DataFrame:
+        """One row per member and station: each governing V and M with the force acting with it.
+
+        The moment acting with each governing shear and the shear with each governing
+        moment (the same vehicle in the same place), and what governs each.
+        """
+        return self.frame(CONCURRENT.sheet)
 
     @property
     def vehicle_summary(self) -> pd.DataFrame:
