@@ -25,6 +25,11 @@ Sources, by rule:
 * Analysis rows: one per member; the deflection inputs need the EI scale, and
   without DF deflection the moment DF is used, which AASHTO LRFD 2.5.2.6.2 (all
   lanes loaded, all girders deflecting equally) does not ask for: a warning;
+* Girder Layout rows: one per member; Kg or n, I, A and eg (AASHTO LRFD Eq.
+  4.6.2.2.1-1), not both; an exterior girder's overhang de (Tables 4.6.2.2.2d-1 and
+  4.6.2.2.3b-1); the ranges of applicability of Tables 4.6.2.2.2b-1 and 4.6.2.2.3a-1
+  (4.5 <= ts <= 12 in, 20 <= L <= 240 ft, from memory; a warning, the formula still used);
+  a DF typed on Members prevails over the layout's (docs/workbook.md, Girder Layout);
 * Bridges and permit kinds: the workbook contract (docs/workbook.md, Bridges;
   the MBE's permit kinds of Table 6A.4.5.4.2a-1 and its crawl-speed rule,
   6A.4.5.5, from memory);
@@ -58,6 +63,8 @@ V = {"Vehicle": "KV-T3", "Axle loads": "10, 30, 30", "Axle spacings": "14, 16"}
 F = {"Vehicle": "KV-FAT", "Library": "Fatigue I"}
 MF = M | {"DF moment single lane": 0.5, "DF shear single lane": 0.6}  # as fatigue needs
 E, W = "error", "warning"
+GL = ["Member", "Cross-section", "Girder", "Girders", "Spacing (ft)", "Deck thickness (in)", "Kg"]
+GLI = ["KV-0101 G1", "a", "interior", 5, 8.5, 8]  # a girder layout row up to its Kg
 BRIDGES = [["Bridge", "ADTT"], ["KV-0101", 1200]]
 
 
@@ -421,6 +428,91 @@ WORKBOOK_CASES = [
             }
         },
         [("Analysis", "B1", "header-unit-mismatch", E)],
+    ),
+    # distribution factors from the girder layout (Girder Layout)
+    (
+        "layout-within-every-range",
+        {"extra": {"Girder Layout": _sheet(GL, [*GLI, 1_500_000])}},
+        [],
+    ),
+    (
+        "layout-unknown-member",
+        {"extra": {"Girder Layout": _sheet(GL, ["KV-9999", *GLI[1:], 1_500_000])}},
+        [("Girder Layout", "A2", "unknown-member", E)],
+    ),
+    (
+        "layout-twice",
+        {
+            "extra": {
+                "Girder Layout": _sheet(GL, [*GLI, 1_500_000], ["kv-0101 g1", *GLI[1:], 1_500_000])
+            }
+        },
+        [("Girder Layout", "A3", "duplicate-layout", E)],
+    ),
+    (
+        "layout-no-stiffness",
+        {"extra": {"Girder Layout": _sheet(GL[:-1], GLI)}},
+        [("Girder Layout", "A2", "stiffness-missing", E)],
+    ),
+    (
+        "layout-section-incomplete",
+        {"extra": {"Girder Layout": _sheet([*GL[:-1], "n", "Girder I (in4)"], [*GLI, 8, 24000])}},
+        [("Girder Layout", "A2", "stiffness-missing", E)],
+    ),
+    (
+        "layout-stiffness-twice",
+        {"extra": {"Girder Layout": _sheet([*GL, "n"], [*GLI, 1_500_000, 8])}},
+        [("Girder Layout", "H2", "stiffness-twice", E)],
+    ),
+    (
+        "layout-exterior-without-overhang",
+        {"extra": {"Girder Layout": _sheet(GL, ["KV-0101 G1", "a", "exterior", *GLI[3:], 1e6])}},
+        [("Girder Layout", "A2", "overhang-missing", E)],
+    ),
+    (
+        "layout-interior-overhang-unused",
+        {"extra": {"Girder Layout": _sheet([*GL, "Overhang de (ft)"], [*GLI, 1_500_000, 2])}},
+        [("Girder Layout", "H2", "overhang-unused", W)],
+    ),
+    (
+        "layout-deck-outside-the-range",
+        {"extra": {"Girder Layout": _sheet(GL, [*GLI[:5], 13, 1_500_000])}},
+        [("Girder Layout", "F2", "outside-range", W)],
+    ),
+    (
+        "layout-span-outside-the-range",
+        {
+            "members": [M | {"Spans": 15}],
+            "extra": {"Girder Layout": _sheet(GL, [*GLI, 1_500_000])},
+        },
+        [("Members", "B2", "outside-range", W)],
+    ),
+    (
+        "layout-two-girders",
+        {"extra": {"Girder Layout": _sheet(GL, [*GLI[:3], 2, *GLI[4:], 1_500_000])}},
+        [("Girder Layout", "D2", "too-small", E)],
+    ),
+    (
+        "layout-unknown-cross-section",
+        {"extra": {"Girder Layout": _sheet(GL, ["KV-0101 G1", "b", *GLI[2:], 1_500_000])}},
+        [("Girder Layout", "B2", "not-a-choice", E)],
+    ),
+    (
+        "layout-deck-in-feet",
+        {
+            "extra": {
+                "Girder Layout": _sheet([*GL[:5], "Deck thickness (ft)", GL[6]], [*GLI, 1_500_000])
+            }
+        },
+        [("Girder Layout", "F1", "header-unit-mismatch", E)],
+    ),
+    (
+        "layout-df-typed-on-members-prevails",
+        {
+            "members": [M | {"DF moment": 0.7}],
+            "extra": {"Girder Layout": _sheet(GL, [*GLI, 1_500_000])},
+        },
+        [("Members", "C2", "df-prevails", W)],
     ),
     # settings
     (

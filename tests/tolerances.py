@@ -29,3 +29,11 @@ TABLE_TOL_4DP = 2e-4
 
 #: A published table printed to two decimals (kip-ft, kip).
 TABLE_TOL_2DP = 0.005
+
+#: A published distribution factor printed to three decimals (lanes per girder, absolute).
+DF_3DP = 5e-4
+
+#: A published factor that is the product of two factors, each printed to three decimals and
+#: then multiplied and rounded again (lanes per girder, absolute): 0.0005 on each factor of
+#: size about 1, plus the final rounding.
+DF_3DP_PRODUCT = 1.5e-3

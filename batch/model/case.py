@@ -423,6 +423,161 @@ class Analysis:
     )
 
 
+# ---------------------------------------------------------------- distribution factors from
+# the girder layout (the Girder Layout sheet).
+
+#: Cross-sections of AASHTO LRFD Table 4.6.2.2.1-1 whose factors spanfleet computes.
+CrossSection = Literal["a", "e", "k"]
+GirderPosition = Literal["interior", "exterior"]
+CROSS_SECTIONS: tuple[str, ...] = get_args(CrossSection)
+GIRDER_POSITIONS: tuple[str, ...] = get_args(GirderPosition)
+
+
+@dataclass(frozen=True, kw_only=True)
+class GirderLayout:
+    """One row of the Girder Layout sheet: a girder's place in its cross-section.
+
+    From it spanfleet computes the member's live-load distribution factors by
+    AASHTO LRFD 4.6.2.2 (:mod:`batch.loads.distribution`). ``spacing`` and
+    ``overhang`` are in the length unit (ft or m); ``deck`` and ``eccentricity``
+    in the thickness unit (in or mm); ``stiffness`` (K_g) and ``inertia`` in in4
+    or mm4, ``area`` in in2 or mm2; ``skew`` in degrees. K_g is given, or
+    computed as n (I + A e_g^2) from ``modular_ratio``, ``inertia``, ``area`` and
+    ``eccentricity``. ``overhang`` d_e is positive when the roadway edge (the
+    barrier's inside face) is outboard of the exterior girder's web.
+    """
+
+    member: str = column(
+        "Member",
+        "id",
+        required=True,
+        meaning="Id of a member listed on the Members sheet.",
+        example=_EXAMPLE_MEMBER,
+    )
+    cross_section: CrossSection = column(
+        "Cross-section",
+        "choice",
+        required=True,
+        choices=CROSS_SECTIONS,
+        meaning="Letter of AASHTO LRFD Table 4.6.2.2.1-1: a steel beams with a concrete deck; "
+        "e cast-in-place concrete T-beams; k precast concrete I or bulb-tee girders with a "
+        "cast-in-place deck.",
+        example="a",
+    )
+    position: GirderPosition = column(
+        "Girder",
+        "choice",
+        required=True,
+        choices=GIRDER_POSITIONS,
+        meaning="interior or exterior: which of the member's girders the factors are for.",
+        example="interior",
+    )
+    girders: int = column(
+        "Girders",
+        "number",
+        required=True,
+        whole=True,
+        minimum=3,
+        maximum=100,
+        meaning="Nb, the number of girders in the cross-section (at least 3; the formulas are "
+        "for 4 or more, 3 takes the lever rule where the specification says so).",
+        example=5,
+    )
+    spacing: float = column(
+        "Spacing",
+        "number",
+        required=True,
+        quantity="length",
+        above=0.0,
+        meaning="S, centre-to-centre spacing of the girders (an exterior girder: to the first "
+        "interior one).",
+        example=8.5,
+    )
+    deck: float = column(
+        "Deck thickness",
+        "number",
+        required=True,
+        quantity="thickness",
+        above=0.0,
+        meaning="ts, structural thickness of the concrete deck.",
+        example=8,
+    )
+    stiffness: float | None = column(
+        "Kg",
+        "number",
+        default=None,
+        quantity="inertia",
+        above=0.0,
+        meaning="Longitudinal stiffness parameter Kg = n (I + A eg^2) (LRFD Eq. 4.6.2.2.1-1); "
+        "blank: computed from n, Girder I, Girder A and eg.",
+    )
+    modular_ratio: float | None = column(
+        "n",
+        "number",
+        default=None,
+        above=0.0,
+        meaning="Modular ratio E girder / E deck, for Kg (e.g. about 8 for steel on normal "
+        "concrete).",
+        example=8,
+    )
+    inertia: float | None = column(
+        "Girder I",
+        "number",
+        default=None,
+        quantity="inertia",
+        above=0.0,
+        meaning="Second moment of area of the girder alone (non-composite), for Kg.",
+        example=24000,
+    )
+    area: float | None = column(
+        "Girder A",
+        "number",
+        default=None,
+        quantity="area",
+        above=0.0,
+        meaning="Area of the girder alone, for Kg.",
+        example=52,
+    )
+    eccentricity: float | None = column(
+        "eg",
+        "number",
+        default=None,
+        quantity="thickness",
+        above=0.0,
+        meaning="Distance between the centroid of the girder alone and mid-depth of the deck, "
+        "for Kg.",
+        example=26,
+    )
+    overhang: float | None = column(
+        "Overhang de",
+        "number",
+        default=None,
+        quantity="length",
+        meaning="Exterior girder only, required there: de, from the web centreline of the "
+        "exterior girder to the inside face of the barrier or curb; positive when the roadway "
+        "extends outboard of the web, negative inboard.",
+    )
+    skew: float = column(
+        "Skew",
+        "number",
+        default=0.0,
+        quantity="angle",
+        minimum=0.0,
+        below=90.0,
+        meaning="Skew angle of the supports, from the normal to the girders (0: square). "
+        "Reduces the moment factors (LRFD Table 4.6.2.2.2e-1, from 30 degrees) and raises the "
+        "shear ones (Table 4.6.2.2.3c-1).",
+        example=0,
+    )
+    description: str = column(
+        "Description",
+        "text",
+        default="",
+        meaning="Free text.",
+        example="EXAMPLE, replace or delete",
+    )
+
+
 def _override(header: str, meaning: str) -> float | None:
     """A bridge's own value of a rating load factor (blank: the table's or the Settings')."""
     return column(  # type: ignore[no-any-return]
@@ -507,7 +662,9 @@ class Member:
 
     As built (filled in from the other input sheets, not Members columns):
     ``segments`` are the member's rows of the Segments sheet, stretches whose
-    stiffness replaces Span EI; ``analysis`` its row of the Analysis sheet.
+    stiffness replaces Span EI; ``analysis`` its row of the Analysis sheet;
+    ``layout`` its row of the Girder Layout sheet, from which its distribution
+    factors were computed where the Members row gives none.
     """
 
     id: str = column(
@@ -549,16 +706,16 @@ class Member:
         "number",
         default=1.0,
         above=0.0,
-        meaning="Live-load distribution factor on moments (default 1).",
-        example=0.62,
+        meaning="Live-load distribution factor on moments (default 1, or from the member's "
+        "Girder Layout row when it has one; a value typed here prevails).",
     )
     df_shear: float = column(
         "DF shear",
         "number",
         default=1.0,
         above=0.0,
-        meaning="Live-load distribution factor on shears and reactions (default 1).",
-        example=0.7,
+        meaning="Live-load distribution factor on shears and reactions (default 1, or from the "
+        "member's Girder Layout row when it has one; a value typed here prevails).",
     )
     dc_load: float = column(
         "DC load",
@@ -644,6 +801,7 @@ class Member:
     # As built: filled in from the Segments and Analysis sheets (not columns of Members).
     segments: tuple[Segment, ...] = ()
     analysis: Analysis | None = None
+    layout: GirderLayout | None = None
 
     @property
     def stiffness(self) -> tuple[float, ...]:

@@ -8,7 +8,16 @@ the JSON Schema and the docs read these, so nothing here is declared twice.
 
 from __future__ import annotations
 
-from batch.model.case import Analysis, Bridge, Capacity, Member, Segment, Settings, Vehicle
+from batch.model.case import (
+    Analysis,
+    Bridge,
+    Capacity,
+    GirderLayout,
+    Member,
+    Segment,
+    Settings,
+    Vehicle,
+)
 from batch.model.declare import InputColumn, InputSheet, columns_of
 
 __all__ = [
@@ -16,6 +25,7 @@ __all__ = [
     "BRIDGES",
     "CAPACITIES",
     "INPUT_SHEETS",
+    "LAYOUT",
     "MEMBERS",
     "SEGMENTS",
     "SETTINGS",
@@ -70,6 +80,15 @@ ANALYSIS = InputSheet(
     columns=columns_of(Analysis),
 )
 
+LAYOUT = InputSheet(
+    name="Girder Layout",
+    key="layout",
+    purpose="Optional: one row per member whose live-load distribution factors spanfleet "
+    "computes from its place in the cross-section (AASHTO LRFD 4.6.2.2); a DF typed on "
+    "Members prevails. The Distribution Factors sheet shows each factor and its article.",
+    columns=columns_of(GirderLayout),
+)
+
 VEHICLES = InputSheet(
     required=True,
     name="Vehicles",
@@ -98,6 +117,7 @@ TABLE_SHEETS: tuple[InputSheet, ...] = (
     MEMBERS,
     SEGMENTS,
     ANALYSIS,
+    LAYOUT,
     VEHICLES,
     CAPACITIES,
     BRIDGES,

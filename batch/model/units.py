@@ -25,12 +25,26 @@ __all__ = [
 
 UnitSystem = Literal["US", "SI"]
 #: A physical quantity whose unit a header shows ("" for a plain number).
-Quantity = Literal["", "length", "force", "moment", "line_load", "rigidity", "deflection"]
+Quantity = Literal[
+    "",
+    "length",
+    "force",
+    "moment",
+    "line_load",
+    "rigidity",
+    "deflection",
+    "thickness",
+    "area",
+    "inertia",
+    "angle",
+]
 UNIT_SYSTEMS: tuple[str, ...] = get_args(UnitSystem)
 
 #: Unit labels of each system, by quantity, as shown in headers.
 #: Flexural rigidity (an input) and deflection (a result) are in the units engineers use
-#: for them, not in the run's consistent force and length units (IN_CONSISTENT_UNITS).
+#: for them, not in the run's consistent force and length units (IN_CONSISTENT_UNITS); so
+#: are a girder layout's section dimensions (thickness, area, second moment of area: in,
+#: in2, in4 or mm, mm2, mm4) and its skew angle (degrees in both systems).
 UNIT_LABELS: dict[str, dict[str, str]] = {
     "US": {
         "force": "kip",
@@ -39,6 +53,10 @@ UNIT_LABELS: dict[str, dict[str, str]] = {
         "line_load": "kip/ft",
         "rigidity": "kip-in2",
         "deflection": "in",
+        "thickness": "in",
+        "area": "in2",
+        "inertia": "in4",
+        "angle": "deg",
     },
     "SI": {
         "force": "kN",
@@ -47,6 +65,10 @@ UNIT_LABELS: dict[str, dict[str, str]] = {
         "line_load": "kN/m",
         "rigidity": "kN-m2",
         "deflection": "mm",
+        "thickness": "mm",
+        "area": "mm2",
+        "inertia": "mm4",
+        "angle": "deg",
     },
 }
 

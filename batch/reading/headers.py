@@ -43,6 +43,17 @@ _UNIT_SPELLINGS: dict[str, tuple[str, str | None]] = {
     },
 }
 
+#: Units of the girder layout's section dimensions and skew, by quantity: spelling -> the
+#: unit systems that use it (these spellings mean other quantities in other columns).
+_US: tuple[str, ...] = ("US",)
+_SI: tuple[str, ...] = ("SI",)
+_SECTION_SPELLINGS: dict[str, dict[str, tuple[str, ...]]] = {
+    "thickness": {"in": _US, "inch": _US, "inches": _US, "mm": _SI},
+    "area": {s: _US for s in ("in2", "in²", "sq.in", "sqin")} | {s: _SI for s in ("mm2", "mm²")},
+    "inertia": {s: _US for s in ("in4", "in⁴")} | {s: _SI for s in ("mm4", "mm⁴")},
+    "angle": {s: ("US", "SI") for s in ("deg", "degree", "degrees", "°")},
+}
+
 
 @dataclass(frozen=True, kw_only=True)
 class HeaderMatch:
@@ -110,6 +121,9 @@ def unit_in_header(header: object, column: InputColumn, units: str) -> tuple[str
     expected = UNIT_LABELS[units][column.quantity]
     spelled = re.sub(r"\s+", "", found.group(1)).lower().replace("*", "·")
     quantity, system = _UNIT_SPELLINGS.get(spelled, (None, None))
+    systems = _SECTION_SPELLINGS.get(column.quantity, {}).get(spelled)
+    if systems is not None:
+        quantity, system = column.quantity, units if units in systems else systems[0]
     if quantity is None:
         known = " or ".join(
             f"{labels[column.quantity]} (Units {system})" for system, labels in UNIT_LABELS.items()

@@ -234,6 +234,7 @@ _NOUNS = {
     "capacities": "station",
     "segments": "stretch",
     "analysis": "member",
+    "layout": "member",
     "bridges": "bridge",
 }
 

@@ -40,6 +40,7 @@ from batch.validating.analysis import analysis_problems
 from batch.validating.capacities import capacity_problems
 from batch.validating.fields import finite_number, label, shown
 from batch.validating.friendly import missing_axle_column, nearest_models, unit_mixups
+from batch.validating.layout import layout_problems
 from batch.validating.segments import segment_problems
 from batch.validating.traffic import traffic_problems
 
@@ -591,6 +592,11 @@ def check_document(
     analysis = document.get("analysis")
     if isinstance(analysis, list):
         found += analysis_problems(analysis, document, locator, cx.ok, set())
+    layout = document.get("layout")
+    if isinstance(layout, list):
+        found += layout_problems(
+            layout, document, locator, cx.ok, "SI" if cx.units == "SI" else "US"
+        )
     found += _library_needs(document, settings, bool(capacities), cx)
     found += traffic_problems(document, locator, cx.ok)
     out = []

@@ -10,20 +10,27 @@ A vehicle row that names a library model and leaves Category blank takes the
 model's category. A capacity row names its member by the member's id exactly
 as the Members sheet spells it, and a member its bridge by the Bridges sheet's
 spelling (ids match ignoring case and outer spaces). Each member carries its
-Segments rows and its Analysis row (:attr:`batch.model.Member.segments`,
-:attr:`batch.model.Member.analysis`).
+Segments rows, its Analysis row and its Girder Layout row
+(:attr:`batch.model.Member.segments`, :attr:`batch.model.Member.analysis`,
+:attr:`batch.model.Member.layout`). A member with a girder layout takes each of
+its four distribution factors (DF moment, DF shear and their single-lane
+values) that its Members row leaves blank from the layout
+(:func:`batch.loads.distribution.layout_factors`); one typed there prevails.
 """
 
 from __future__ import annotations
 
+import dataclasses
 from typing import Any
 
 from batch.loads import library
+from batch.loads.distribution import layout_factors
 from batch.model import (
     Analysis,
     Bridge,
     Capacity,
     Case,
+    GirderLayout,
     Member,
     Segment,
     Settings,
@@ -35,13 +42,14 @@ from batch.model.sheets import (
     ANALYSIS,
     BRIDGES,
     CAPACITIES,
+    LAYOUT,
     MEMBERS,
     SEGMENTS,
     SETTING_ROWS,
     VEHICLES,
 )
 
-__all__ = ["to_case"]
+__all__ = ["LAYOUT_DFS", "layout_of", "to_case"]
 
 
 def _spacing(value: Any) -> Spacing:
@@ -99,17 +107,53 @@ def _analysis(document: dict[str, Any], ids: dict[str, str]) -> dict[str, Analys
     return out
 
 
+def layout_of(row: dict[str, Any]) -> GirderLayout:
+    """The model of one Girder Layout row that passed validation (its member as typed)."""
+    return GirderLayout(**_fields(LAYOUT.columns, row))
+
+
+def _layouts(document: dict[str, Any], ids: dict[str, str]) -> dict[str, GirderLayout]:
+    """Each member's Girder Layout row by member id (spelled as on Members)."""
+    out = {}
+    for row in document.get("layout", []):
+        layout = layout_of(row)
+        member = ids[layout.member.casefold()]
+        out[member] = dataclasses.replace(layout, member=member)
+    return out
+
+
+#: The Members columns a girder layout fills in when they are blank, by the factor's name.
+LAYOUT_DFS = {
+    "df_moment": "moment",
+    "df_shear": "shear",
+    "df_moment_single": "moment_single",
+    "df_shear_single": "shear_single",
+}
+
+
 def _member(
     doc: dict[str, Any],
     segments: dict[str, tuple[Segment, ...]],
     analysis: dict[str, Analysis],
     bridges: dict[str, str],
+    layouts: dict[str, GirderLayout],
+    settings: Settings,
 ) -> Member:
     values = _fields(MEMBERS.columns, doc)
     if values.get("bridge") is not None:
         values["bridge"] = bridges[values["bridge"].casefold()]
     ident = values["id"]
-    return Member(**values, segments=segments.get(ident, ()), analysis=analysis.get(ident))
+    layout = layouts.get(ident)
+    if layout is not None:
+        factors = layout_factors(layout, values["spans"], settings.units)
+        for key, name in LAYOUT_DFS.items():
+            values.setdefault(key, getattr(factors, name))
+    return Member(
+        **values,
+        segments=segments.get(ident, ()),
+        analysis=analysis.get(ident),
+        layout=layout,
+    )
 
 
 def to_case(document: dict[str, Any]) -> Case:
@@ -118,11 +162,13 @@ def to_case(document: dict[str, Any]) -> Case:
     ids = {str(m["id"]).strip().casefold(): str(m["id"]).strip() for m in rows}
     segments = _segments(document, ids)
     analysis = _analysis(document, ids)
+    layouts = _layouts(document, ids)
+    settings = Settings(**_fields(SETTING_ROWS, document.get("settings", {})))
     bridges = tuple(Bridge(**_fields(BRIDGES.columns, b)) for b in document.get("bridges", []))
     bridge_ids = {b.id.casefold(): b.id for b in bridges}
-    members = tuple(_member(m, segments, analysis, bridge_ids) for m in rows)
+    members = tuple(_member(m, segments, analysis, bridge_ids, layouts, settings) for m in rows)
     return Case(
-        settings=Settings(**_fields(SETTING_ROWS, document.get("settings", {}))),
+        settings=settings,
         members=members,
         vehicles=tuple(_vehicle(v) for v in document["vehicles"]),
         capacities=tuple(_capacity(c, ids) for c in document.get("capacities", [])),

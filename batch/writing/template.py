@@ -368,7 +368,14 @@ def _guide_lines(units: UnitSystem) -> list[tuple[str, Font | None]]:
             plain,
         ),
         (
-            "9. Blank rows are skipped; hidden and filtered rows are read like any other. Keep the "
+            "9. Girder Layout is optional: from a member's place in its cross-section (girder "
+            "type, spacing, deck, stiffness, overhang, skew) spanfleet computes its distribution "
+            "factors by AASHTO LRFD 4.6.2.2 where Members leaves DF moment and DF shear blank "
+            "(Distribution Factors sheet).",
+            plain,
+        ),
+        (
+            "10. Blank rows are skipped; hidden and filtered rows are read like any other. Keep the "
             "sheet names; you may add sheets of your own.",
             plain,
         ),
