@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import pytest
 
+from batch.interface import read, run
 from batch.validating import read_input
 from tests.tolerances import DF_3DP, DF_3DP_PRODUCT
 
@@ -56,3 +57,27 @@ def test_a_df_typed_on_members_prevails(make_workbook, tmp_path) -> None:
     assert got.df_moment == 0.7
     assert got.df_shear == pytest.approx(0.973, abs=DF_3DP_PRODUCT)
     assert [(p.sheet, p.code) for p in report.warnings] == [("Members", "df-prevails")]
+
+
+def test_the_distribution_factors_sheet(make_workbook, tmp_path) -> None:
+    # The sheet shows each factor with its table, the range notes and which factor the run
+    # takes; a DF typed on Members is named as prevailing (docs/workbook.md).
+    members = [
+        {"Member": "KV-0110 G2", "Spans (ft)": "110, 110", "DF shear": 0.9},
+        {"Member": "KV-0111 G1", "Spans (ft)": "60"},
+    ]
+    thick = ["KV-0111 G1", "a", "interior", 5, 8, 13, 1_000_000, 0]
+    book = make_workbook(tmp_path, members=members, extra={"Girder Layout": [LAYOUT, PSC, thick]})
+    frame = run(read(book), jobs=1).frames()["Distribution Factors"]
+    psc = frame[frame["Member"] == "KV-0110 G2"]
+    # Two spans: 2 positive moments, 1 negative moment, 2 shears, each one lane and several.
+    assert len(psc) == 10
+    moment = psc[(psc["Effect"] == "positive moment") & (psc["Lanes"] == "two or more")]
+    assert moment["Factor"].iloc[0] == pytest.approx(0.796, abs=DF_3DP)
+    assert moment["Source"].iloc[0].endswith("Table 4.6.2.2.2b-1")
+    assert moment["Run uses"].iloc[0] == "DF moment"
+    shear = psc[(psc["Effect"] == "shear") & (psc["Lanes"] == "two or more")]
+    assert shear["Run uses"].iloc[0] == "DF shear: 0.900 typed on Members prevails"
+    assert set(psc["Range"]) == {"within"}
+    other = frame[frame["Member"] == "KV-0111 G1"]
+    assert all("ts = 13 is outside 4.5 <= ts <= 12 in" in r for r in other["Range"])

@@ -26,12 +26,14 @@ Two cases, both as :class:`batch.model.Case`:
 
 from __future__ import annotations
 
+from batch.loads.distribution import layout_factors
 from batch.model import (
     Analysis,
     Bridge,
     Capacity,
     Case,
     Category,
+    GirderLayout,
     Member,
     PermitType,
     RatingMethod,
@@ -40,6 +42,7 @@ from batch.model import (
     Spacing,
     Vehicle,
 )
+from batch.model.units import UnitSystem
 
 __all__ = ["KVHA_INVENTORY", "KVHA_SI_DEMO", "SAMPLE_WORKBOOKS"]
 
@@ -61,13 +64,21 @@ def _member(
     segments: tuple[tuple[float, float, float, float | None, str], ...] = (),
     analysis: Analysis | None = None,
     method: RatingMethod = "LRFR",
+    layout: GirderLayout | None = None,
+    units: UnitSystem = "US",
 ) -> Member:
     """A member; ``df`` is (moment, shear), ``dead`` (DC, DW), ``factors`` (condition, system).
 
     ``bridge`` names its Bridges row; ``one_lane`` its one-lane DFs (moment, shear) as
     AASHTO LRFD gives them, 1.2 included; ``segments`` are Segments rows (From, To, EI,
-    EI at To, Haunch); ``method`` its rating method.
+    EI at To, Haunch); ``method`` its rating method. With a girder ``layout`` (in
+    ``units``), ``df`` and ``one_lane`` are ignored: the member's four factors are the
+    layout's, as a run computes them.
     """
+    if layout is not None:
+        computed = layout_factors(layout, spans, units)
+        df = (computed.moment, computed.shear)
+        one_lane = (computed.moment_single, computed.shear_single)
     return Member(
         id=id,
         spans=spans,
@@ -89,6 +100,7 @@ def _member(
         ),
         analysis=analysis,
         rating_method=method,
+        layout=layout,
     )
 
 
@@ -179,7 +191,14 @@ _US_MEMBERS = (
             df=(0.64, 0.7), dead=(1.25, 0.2), one_lane=(0.45, 0.58),
             segments=((66.5, 103.5, 1.45, None, "none"),),
             analysis=Analysis(member="KV-0725 G3", ei_scale=1.798e9, df_deflection=0.425,
-                              description="E 29,000 ksi x I 62,000 in4 (bare girder)")),
+                              description="E 29,000 ksi x I 62,000 in4 (bare girder)"),
+            # Its distribution factors from the girder layout (Girder Layout sheet): steel
+            # girders (type a), 6 at 8.5 ft, 8 in deck, Kg = n (I + A eg^2) from the bare
+            # girder, square supports.
+            layout=GirderLayout(member="KV-0725 G3", cross_section="a", position="interior",
+                                girders=6, spacing=8.5, deck=8.0, modular_ratio=8.0,
+                                inertia=62_000.0, area=60.0, eccentricity=32.0,
+                                description="6 steel girders at 8.5 ft, 8 in deck")),
     # Three-span continuous.
     _member("KV-0803 G2", (40.0, 52.0, 40.0), "Orchard Road overpass, girder 2",
             df=(0.55, 0.65), dead=(0.9, 0.15)),
@@ -336,7 +355,14 @@ KVHA_SI_DEMO = Case(
     settings=Settings(units="SI", directions="both", stations_per_span=10, impact=0.33),
     members=(
         _member("KV-M01 G1", (18.0,), "Larchmere Lane bridge, girder 1",
-                df=(0.6, 0.68), dead=(14.5, 2.4), bridge="KV-M01"),
+                df=(0.6, 0.68), dead=(14.5, 2.4), bridge="KV-M01",
+                # Precast bulb-tees (type k) on skewed piers: the exterior girder's factors
+                # from the layout, in mm and mm4 (converted exactly to the formulas' units).
+                layout=GirderLayout(member="KV-M01 G1", cross_section="k",
+                                    position="exterior", girders=5, spacing=2.4, deck=200.0,
+                                    stiffness=4.0e11, overhang=0.6, skew=35.0,
+                                    description="5 bulb-tees at 2.4 m, skew 35 degrees"),
+                units="SI"),
         _member("KV-M02 G2", (24.0, 30.0), "Redshank Lane bridge, girder 2",
                 df=(0.62, 0.7), dead=(17.0, 2.8), bridge="KV-M02",
                 analysis=Analysis(member="KV-M02 G2", ei_scale=7.0e6, df_deflection=0.45,

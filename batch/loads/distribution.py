@@ -57,6 +57,7 @@ from batch.model.units import M_PER_FT, UnitSystem
 
 __all__ = [
     "DISTRIBUTION_SOURCES",
+    "LAYOUT_DFS",
     "MM_PER_IN",
     "Factor",
     "Girder",
@@ -325,6 +326,14 @@ def layout_factors(
     return member_factors(layout_girder(layout, units), [s * length for s in spans])
 
 
+#: The Members columns a girder layout fills in when they are blank, by MemberFactors name.
+LAYOUT_DFS = {
+    "df_moment": "moment",
+    "df_shear": "shear",
+    "df_moment_single": "moment_single",
+    "df_shear_single": "shear_single",
+}
+
 #: Multipliers from SI to the formulas' units: m to ft, mm to in, mm4 to in4 (exact).
 _SI_TO_US = (1.0 / M_PER_FT, 1.0 / MM_PER_IN, 1.0 / MM_PER_IN**4)
 
@@ -401,7 +410,8 @@ class MemberFactors:
 
     factors: tuple[Factor, ...]
 
-    def _largest(self, moment: bool, single: bool) -> Factor:
+    def largest(self, moment: bool, single: bool) -> Factor:
+        """The largest moment (or shear) factor: one-lane ones only when ``single``."""
         return max(
             (f for f in self.factors if f.is_moment == moment and (f.lanes == 1 or not single)),
             key=lambda f: f.value,
@@ -410,26 +420,22 @@ class MemberFactors:
     @property
     def moment(self) -> float:
         """The governing moment factor."""
-        return self._largest(True, False).value
+        return self.largest(True, False).value
 
     @property
     def shear(self) -> float:
         """The governing shear factor."""
-        return self._largest(False, False).value
+        return self.largest(False, False).value
 
     @property
     def moment_single(self) -> float:
         """The governing one-lane moment factor."""
-        return self._largest(True, True).value
+        return self.largest(True, True).value
 
     @property
     def shear_single(self) -> float:
         """The governing one-lane shear factor."""
-        return self._largest(False, True).value
-
-    def governs(self, factor: Factor) -> bool:
-        """True when ``factor`` is the one the run takes for its effect (one lane or any)."""
-        return any(factor is self._largest(factor.is_moment, single) for single in (False, True))
+        return self.largest(False, True).value
 
 
 class Note(NamedTuple):

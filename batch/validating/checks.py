@@ -40,7 +40,7 @@ from batch.validating.analysis import analysis_problems
 from batch.validating.capacities import capacity_problems
 from batch.validating.fields import finite_number, label, shown
 from batch.validating.friendly import missing_axle_column, nearest_models, unit_mixups
-from batch.validating.layout import layout_problems
+from batch.validating.layout import layout_problems, with_layout
 from batch.validating.segments import segment_problems
 from batch.validating.traffic import traffic_problems
 
@@ -454,10 +454,11 @@ def _library_needs(
     members = document.get("members")
     if fatigue is not None and isinstance(members, list):
         keys = ("df_moment_single", "df_shear_single")
+        laid_out = with_layout(document)
         lacking = [
             (i, key)
             for i, m in enumerate(members)
-            if isinstance(m, dict)
+            if isinstance(m, dict) and str(m.get("id", "")).strip().casefold() not in laid_out
             for key in keys
             if key not in m and cx.ok(("members", i, key))
         ]

@@ -21,14 +21,14 @@ from __future__ import annotations
 from collections.abc import Callable, Iterator
 from typing import Any
 
-from batch.loads.distribution import Note, layout_factors, number
+from batch.loads.distribution import LAYOUT_DFS, Note, layout_factors, number
 from batch.model.units import UnitSystem
 from batch.reading.problems import DocPath, Locator, Severity
 from batch.validating.analysis import members_by_id, unknown_member
 from batch.validating.fields import finite_number, shown
-from batch.validating.to_model import LAYOUT_DFS, layout_of
+from batch.validating.to_model import layout_of
 
-__all__ = ["layout_problems"]
+__all__ = ["layout_problems", "with_layout"]
 
 Found = tuple[DocPath, str, str, Severity]
 
@@ -55,6 +55,16 @@ _DF_NAMES = {
     "df_moment_single": "DF moment single lane",
     "df_shear_single": "DF shear single lane",
 }
+
+
+def with_layout(document: dict[str, Any]) -> set[str]:
+    """The folded member ids that a Girder Layout row names: their factors come from it."""
+    rows = document.get("layout")
+    return {
+        row["member"].strip().casefold()
+        for row in (rows if isinstance(rows, list) else [])
+        if isinstance(row, dict) and isinstance(row.get("member"), str)
+    }
 
 
 def layout_problems(

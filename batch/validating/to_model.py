@@ -24,7 +24,7 @@ import dataclasses
 from typing import Any
 
 from batch.loads import library
-from batch.loads.distribution import layout_factors
+from batch.loads.distribution import LAYOUT_DFS, layout_factors
 from batch.model import (
     Analysis,
     Bridge,
@@ -49,7 +49,7 @@ from batch.model.sheets import (
     VEHICLES,
 )
 
-__all__ = ["LAYOUT_DFS", "layout_of", "to_case"]
+__all__ = ["layout_of", "to_case"]
 
 
 def _spacing(value: Any) -> Spacing:
@@ -120,15 +120,6 @@ def _layouts(document: dict[str, Any], ids: dict[str, str]) -> dict[str, GirderL
         member = ids[layout.member.casefold()]
         out[member] = dataclasses.replace(layout, member=member)
     return out
-
-
-#: The Members columns a girder layout fills in when they are blank, by the factor's name.
-LAYOUT_DFS = {
-    "df_moment": "moment",
-    "df_shear": "shear",
-    "df_moment_single": "moment_single",
-    "df_shear_single": "shear_single",
-}
 
 
 def _member(

@@ -29,6 +29,7 @@ from batch.loads.factors import (
 )
 from batch.reading.problems import DocPath, Locator, Severity
 from batch.validating.fields import label, shown
+from batch.validating.layout import with_layout
 
 __all__ = ["traffic_problems"]
 
@@ -190,9 +191,10 @@ def _single_lane_warnings(
         for _, c in _rows(document, "capacities")
         if isinstance(c.get("member"), str)
     }
+    laid_out = with_layout(document)
     for i, member in members:
         ident = _ident(member)
-        if ident is None or ident.casefold() not in rated:
+        if ident is None or ident.casefold() not in rated or ident.casefold() in laid_out:
             continue
         if member.get("rating_method", "LRFR") != "LRFR":  # LFR and ASR: multi-lane DFs
             continue

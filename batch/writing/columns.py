@@ -36,7 +36,14 @@ from batch.engine.effects import (
     governing_row,
 )
 from batch.engine.fatigue import FatigueRanges
-from batch.model import RATING_METHODS, Bridge, Case, Member
+from batch.loads.distribution import (
+    Factor,
+    MemberFactors,
+    layout_factors,
+    layout_girder,
+    number,
+)
+from batch.model import RATING_METHODS, Bridge, Case, GirderLayout, Member
 from batch.rating.lrfr import FLAGS, RATED_EFFECTS, MemberDeadLoads, MemberRating
 from batch.rating.posting import BridgePosting
 from batch.rating.screening import SCREEN_EFFECTS, MemberScreening
@@ -63,6 +70,7 @@ __all__ = [
     "DEAD_LOADS",
     "DEFLECTIONS",
     "DEFLECTION_CHECK",
+    "DISTRIBUTION_FACTORS",
     "ENVELOPES",
     "FATIGUE",
     "GOVERNING",
@@ -2073,6 +2081,197 @@ DEFLECTION_CHECK: ResultTable[DeflectedMember] = ResultTable(
 )
 
 
+# ---------------------------------------------------------------- distribution factors from
+# the girder layout
+
+_SI_FT = 0.3048  # m in one ft, for showing L in the run's unit (exact)
+
+
+class LayoutMember(NamedTuple):
+    """One member's block of the Distribution Factors sheet: its layout and every factor."""
+
+    member: Member
+    layout: GirderLayout
+    factors: MemberFactors
+    units: str
+
+
+def _layout_blocks(result: RunResult) -> list[LayoutMember]:
+    units = result.case.settings.units
+    return [
+        LayoutMember(m, m.layout, layout_factors(m.layout, m.spans, units), units)
+        for m in result.case.members
+        if m.layout is not None
+    ]
+
+
+def _n_layout(result: RunResult) -> int:
+    # Per member: a positive moment and a shear per span and a negative moment per interior
+    # support, each for one lane and for two or more.
+    return sum(2 * (3 * len(m.spans) - 1) for m in result.case.members if m.layout is not None)
+
+
+def _each_factor(get: Callable[[LayoutMember, Factor], object]) -> Callable[[Any], list[object]]:
+    return lambda b: [get(b, f) for f in b.factors.factors]
+
+
+def _inputs(b: LayoutMember, _f: Factor) -> str:
+    g = layout_girder(b.layout, "SI" if b.units == "SI" else "US")
+    parts = [
+        f"type {g.cross_section}, {g.position}",
+        f"Nb = {g.girders}",
+        f"S = {number(g.spacing)} ft",
+        f"ts = {number(g.deck)} in",
+        f"Kg = {number(g.stiffness)} in4",
+    ]
+    if g.overhang is not None:
+        parts.append(f"de = {number(g.overhang)} ft")
+    parts.append(f"skew = {number(g.skew)} deg")
+    converted = "; SI inputs converted exactly (1 ft = 0.3048 m, 1 in = 25.4 mm)"
+    return ", ".join(parts) + (converted if b.units == "SI" else "")
+
+
+def _uses(b: LayoutMember, f: Factor) -> str:
+    """Which of the member's factors this one is, and whether a typed one prevails."""
+    kind = "moment" if f.is_moment else "shear"
+    out = []
+    for single, suffix in ((False, ""), (True, " single lane")):
+        if f is not b.factors.largest(f.is_moment, single):
+            continue
+        used = getattr(b.member, f"df_{kind}{'_single' if single else ''}")
+        if used == f.value:
+            out.append(f"DF {kind}{suffix}")
+        else:
+            out.append(f"DF {kind}{suffix}: {used:.3f} typed on Members prevails")
+    return "; ".join(out)
+
+
+DISTRIBUTION_FACTORS: ResultTable[LayoutMember] = ResultTable(
+    sheet="Distribution Factors",
+    purpose="One row per member with a Girder Layout row, per effect (positive moment in each "
+    "span, negative moment over each interior support, shear in each span) and per number of "
+    "loaded lanes: the live-load distribution factor by AASHTO LRFD 4.6.2.2, in design lanes "
+    "per girder, as tabulated (multiple presence included), the article or table it comes "
+    "from and whether its inputs are within the formula's range of applicability. The member "
+    "takes the largest moment and the largest shear factor (and the largest one-lane ones for "
+    "fatigue and special permits) unless its Members row gives them. The formulas are in US "
+    "customary units; SI inputs are converted exactly. docs/distribution.md lists them.",
+    blocks=_layout_blocks,
+    rows=_n_layout,
+    wanted=lambda result: _n_layout(result) > 0,
+    frozen_columns=1,
+    columns=(
+        ResultColumn(
+            header="Member",
+            width=16,
+            values=_each_factor(lambda b, _f: b.member.id),
+            text=True,
+            meaning="Member id.",
+        ),
+        ResultColumn(
+            header="Effect",
+            width=16,
+            values=_each_factor(lambda _b, f: f.effect),
+            text=True,
+            meaning="Positive moment, negative moment (near an interior support) or shear.",
+        ),
+        ResultColumn(
+            header="Where",
+            width=10,
+            values=_each_factor(lambda _b, f: f.where),
+            text=True,
+            meaning="Span or interior support, counted from 1 at the member's left end.",
+        ),
+        ResultColumn(
+            header="Lanes",
+            width=11,
+            values=_each_factor(lambda _b, f: "one" if f.lanes == 1 else "two or more"),
+            text=True,
+            meaning="Loaded design lanes: one, or two or more.",
+        ),
+        ResultColumn(
+            header="L",
+            quantity="length",
+            number_format=FORMAT_VALUE,
+            width=9,
+            values=_each_factor(lambda b, f: f.length * (_SI_FT if b.units == "SI" else 1.0)),
+            meaning="Span length in the formulas: the span; for negative moment the average of "
+            "the two adjacent spans (LRFD C4.6.2.2.1).",
+        ),
+        ResultColumn(
+            header="Factor before skew",
+            number_format=FORMAT_FACTOR,
+            width=10,
+            values=_each_factor(lambda _b, f: f.base),
+            meaning="The factor before the skew correction, lanes per girder.",
+        ),
+        ResultColumn(
+            header="Skew factor",
+            number_format=FORMAT_FACTOR,
+            width=9,
+            values=_each_factor(lambda _b, f: f.skew),
+            meaning="Skew correction: moment 1 - c1 (tan theta)^1.5 (Table 4.6.2.2.2e-1), shear "
+            "1 + 0.20 (12 L ts^3 / Kg)^0.3 tan theta (Table 4.6.2.2.3c-1), applied along the "
+            "whole member; 1 where none.",
+        ),
+        ResultColumn(
+            header="Factor",
+            number_format=FORMAT_FACTOR,
+            width=9,
+            values=_each_factor(lambda _b, f: f.value),
+            meaning="The distribution factor, lanes per girder, multiple presence included.",
+        ),
+        ResultColumn(
+            header="Method",
+            width=34,
+            values=_each_factor(lambda _b, f: f.method),
+            text=True,
+            wrap=True,
+            meaning="Formula, e x interior factor, lever rule (one lane times m = 1.2), or the "
+            "lesser of formula and lever rule for three girders.",
+        ),
+        ResultColumn(
+            header="Source",
+            width=30,
+            values=_each_factor(lambda _b, f: f.source),
+            text=True,
+            wrap=True,
+            meaning="The article or table of the AASHTO LRFD Bridge Design Specifications.",
+        ),
+        ResultColumn(
+            header="Range",
+            width=40,
+            values=_each_factor(
+                lambda _b, f: "within" if not f.notes else "; ".join(n.text for n in f.notes)
+            ),
+            fill=lambda v: None if v == "within" else DEFLECTION_EXCEEDED_RGB,
+            text=True,
+            wrap=True,
+            meaning="within: every input in the formula's range of applicability; else each "
+            "limit it is outside: the specification then calls for a refined analysis (Art. "
+            "4.6.3), and the factor shown is still the formula's.",
+        ),
+        ResultColumn(
+            header="Run uses",
+            width=26,
+            values=_each_factor(_uses),
+            text=True,
+            wrap=True,
+            meaning="The member's factor this row gives (the largest of its kind), or the value "
+            "typed on Members that prevails over it; blank: not the largest.",
+        ),
+        ResultColumn(
+            header="Inputs",
+            width=40,
+            values=_each_factor(_inputs),
+            text=True,
+            wrap=True,
+            meaning="The layout as the formulas take it, in US customary units.",
+        ),
+    ),
+)
+
+
 # ---------------------------------------------------------------- the guide to them all
 
 
@@ -2156,6 +2355,7 @@ RESULT_TABLES: tuple[AnyTable, ...] = (
     FATIGUE,
     DEFLECTIONS,
     DEFLECTION_CHECK,
+    DISTRIBUTION_FACTORS,
     VEHICLE_SUMMARY,
     RATINGS,
     RATING_MATRIX,

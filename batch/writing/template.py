@@ -33,6 +33,7 @@ from openpyxl.worksheet.properties import PageSetupProperties
 from openpyxl.worksheet.worksheet import Worksheet
 from openpyxl.writer.excel import ExcelWriter
 
+from batch.loads.distribution import LAYOUT_DFS, layout_factors
 from batch.model import UNIT_LABELS, UNIT_SYSTEMS, Case, Spacing
 from batch.model.declare import InputColumn, InputSheet
 from batch.model.sheets import INPUT_SHEETS, SETTING_ROWS, SETTINGS
@@ -163,7 +164,9 @@ def case_rows(case: Case) -> dict[str, list[dict[str, CellValue]]]:
 
     Rows are keyed by the declared column keys. Empty values (no hinges, no
     library, a blank resistance, ...) become blank cells; every other value is
-    written, defaults included, so the sheet shows what was used.
+    written, defaults included, so the sheet shows what was used. A member with a
+    girder layout leaves blank each distribution factor the layout gives (so that
+    reading the sheet back computes it again rather than taking it as typed).
     """
     objects: dict[str, tuple[object, ...]] = {"Members": case.members, "Vehicles": case.vehicles}
     if case.capacities:
@@ -174,16 +177,26 @@ def case_rows(case: Case) -> dict[str, list[dict[str, CellValue]]]:
     analysis = tuple(m.analysis for m in case.members if m.analysis is not None)
     if analysis:
         objects["Analysis"] = analysis
+    layouts = tuple(m.layout for m in case.members if m.layout is not None)
+    if layouts:
+        objects["Girder Layout"] = layouts
     if case.bridges:
         objects["Bridges"] = case.bridges
     sheets = {sheet.name: sheet for sheet in INPUT_SHEETS}
-    return {
+    rows = {
         name: [
             {col.key: _cell_value(getattr(obj, col.key)) for col in sheets[name].columns}
             for obj in items
         ]
         for name, items in objects.items()
     }
+    for member, row in zip(case.members, rows["Members"], strict=True):
+        if member.layout is not None:
+            factors = layout_factors(member.layout, member.spans, case.settings.units)
+            for key, name in LAYOUT_DFS.items():
+                if getattr(member, key) == getattr(factors, name):
+                    row[key] = None
+    return rows
 
 
 def example_rows() -> dict[str, list[dict[str, CellValue]]]:
@@ -375,8 +388,8 @@ def _guide_lines(units: UnitSystem) -> list[tuple[str, Font | None]]:
             plain,
         ),
         (
-            "10. Blank rows are skipped; hidden and filtered rows are read like any other. Keep the "
-            "sheet names; you may add sheets of your own.",
+            "10. Blank rows are skipped; hidden and filtered rows are read like any other. Keep "
+            "the sheet names; you may add sheets of your own.",
             plain,
         ),
         ("", plain),
