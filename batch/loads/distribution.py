@@ -47,7 +47,7 @@ spans differ); its single-lane factor the largest one-lane factor.
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from typing import Literal, NamedTuple
 
@@ -176,16 +176,16 @@ STIFFNESS_PARAMETER = Sourced(
     seen=f"{_TXDOT} (Kg = 1,132,028 in4 from I, A and eg)",
 )
 
-#: Ranges of applicability: (name, symbol, low, high, unit) per parameter; None: open.
-RANGE_S = ("beam spacing", "S", 3.5, 16.0, "ft")
+#: Ranges of applicability: (symbol, low, high, unit) per parameter; high None: open.
+RANGE_S = ("S", 3.5, 16.0, "ft")
 #: Beyond this spacing (ft) the lever rule replaces the formulas (Art. 4.6.2.2.1).
-RANGE_WIDEST = 16.0
-RANGE_TS = ("deck thickness", "ts", 4.5, 12.0, "in")
-RANGE_L = ("span length", "L", 20.0, 240.0, "ft")
-RANGE_KG = ("stiffness parameter", "Kg", 10_000.0, 7_000_000.0, "in4")
-RANGE_NB = ("number of girders", "Nb", 4.0, None, "")
-RANGE_DE = ("overhang", "de", -1.0, 5.5, "ft")
-RANGE_SKEW = ("skew", "theta", 0.0, 60.0, "deg")
+RANGE_WIDEST = RANGE_S[2]
+RANGE_TS = ("ts", 4.5, 12.0, "in")
+RANGE_L = ("L", 20.0, 240.0, "ft")
+RANGE_KG = ("Kg", 10_000.0, 7_000_000.0, "in4")
+RANGE_NB = ("Nb", 4.0, None, "")
+RANGE_DE = ("de", -1.0, 5.5, "ft")
+RANGE_SKEW = ("theta", 0.0, 60.0, "deg")
 RANGES = Sourced(
     what="ranges of applicability: 3.5 <= S <= 16.0 ft, 4.5 <= ts <= 12.0 in, "
     "20 <= L <= 240 ft, 10,000 <= Kg <= 7,000,000 in4, Nb >= 4, -1.0 <= de <= 5.5 ft, "
@@ -214,7 +214,7 @@ DISTRIBUTION_SOURCES: tuple[Sourced, ...] = (
     RANGES,
 )
 
-Range = tuple[str, str, float, float | None, str]
+Range = tuple[str, float, float | None, str]
 
 
 def multiple_presence(lanes: int) -> float:
@@ -224,8 +224,9 @@ def multiple_presence(lanes: int) -> float:
     return float(MULTIPLE_PRESENCE.value[min(lanes, 4) - 1])  # type: ignore[arg-type]
 
 
-def _wheel_sum(positions: Sequence[float], ordinate: object) -> float:
-    return math.fsum(0.5 * ordinate(p) for p in positions)  # type: ignore[operator]
+def _wheel_sum(positions: Sequence[float], ordinate: Callable[[float], float]) -> float:
+    """Lanes carried: half a lane per wheel line times the girder's share of it."""
+    return math.fsum(0.5 * ordinate(p) for p in positions)
 
 
 def lever_rule_exterior(spacing: float, overhang: float, lanes: int) -> float:
@@ -468,7 +469,7 @@ def number(value: float) -> str:
 
 def _outside(value: float, limit: Range, table: str) -> tuple[Note, ...]:
     """A note when ``value`` is outside ``limit`` of ``table`` (empty when within)."""
-    _name, symbol, low, high, unit = limit
+    symbol, low, high, unit = limit
     if value >= low and (high is None or value <= high):
         return ()
     bound = f"{number(low)} <= {symbol}" + (f" <= {number(high)}" if high is not None else "")
