@@ -14,7 +14,7 @@ from dataclasses import dataclass
 
 from batch.loads.cases import ImpactFormula
 from batch.loads.sourced import Sourced, Status
-from batch.model.case import PermitType, RidingSurface
+from batch.model.case import Material, PermitType, RidingSurface
 
 __all__ = [
     "ASR_FACTOR",
@@ -39,6 +39,10 @@ __all__ = [
     "POSTING_FLOOR",
     "PUBLISHED_FACTORS",
     "PUBLISHED_TABLES",
+    "SERVICE_CHECKS",
+    "SERVICE_DEAD_LOAD",
+    "SERVICE_LEVELS",
+    "SERVICE_POSTING",
     "SHV_SCREEN",
     "SINGLE_LANE_PRESENCE",
     "STANDARD_IMPACT_RULES",
@@ -47,6 +51,7 @@ __all__ = [
     "SYSTEM_FACTORS",
     "AdttTable",
     "PermitRow",
+    "ServiceCheck",
     "cited",
 ]
 
@@ -357,6 +362,129 @@ STRENGTH_LIMIT_STATE: dict[str, str] = {
     "permit": "Strength II",
 }
 
+# ---------------------------------------------------------------- LRFR service limit states
+
+#: The levels a service live-load factor is given for (MBE Table 6A.4.2.2-1's columns): design
+#: load inventory and operating, legal loads, permits.
+SERVICE_LEVELS: tuple[str, ...] = ("inventory", "operating", "legal", "permit")
+
+_SERVICE_TABLE = f"{MBE}, Table 6A.4.2.2-1 (load factors for load rating)"
+
+
+def _service_factor(what: str, value: float, source: str = _SERVICE_TABLE) -> Sourced:
+    return Sourced(what=what, value=(value,), source=source, status="from memory")
+
+
+@dataclass(frozen=True, kw_only=True)
+class ServiceCheck:
+    """The LRFR service limit state one material is checked at, and how.
+
+    ``limit_state`` as the MBE names it; ``stress`` the stress checked;
+    ``factors`` the live-load factor gamma_L by level of :data:`SERVICE_LEVELS`
+    (a level missing: the manual does not check it); ``limit`` the allowable
+    stress rule (:class:`Sourced`, its numbers the multipliers spanfleet applies).
+    Dead-load factors are :data:`SERVICE_DEAD_LOAD`.
+    """
+
+    limit_state: str
+    stress: str
+    factors: dict[str, Sourced]
+    limit: Sourced
+
+
+#: Prestressed concrete, Service III at the design-load inventory level: MBE Table 6A.4.2.2-2,
+#: which the 3rd edition's errata (October 2018) put in place of Table 6A.4.2.2-1's 0.80: 1.0
+#: where the losses are refined (time-dependent, AASHTO LRFD 5.9.3.4) with the elastic gains
+#: taken, 0.8 for all other prestressed members. Verified in the errata sheet itself (a
+#: reproduced copy).
+_ERRATA_SEEN = (
+    "AASHTO, Errata for the MBE 3rd ed., October 2018: the Service III inventory cell of "
+    "Table 6A.4.2.2-1 replaced by new Table 6A.4.2.2-2 (1.0 refined losses with elastic gains, "
+    "0.8 otherwise)"
+)
+SERVICE_III_INVENTORY: dict[str, Sourced] = {
+    "approximate": Sourced(
+        what="Service III live-load factor, design-load inventory, prestressed members other "
+        "than those with refined losses and elastic gains",
+        value=(0.8,),
+        source=f"{MBE}, Table 6A.4.2.2-2 (3rd ed. errata)",
+        status="verified",
+        seen=_ERRATA_SEEN,
+    ),
+    "refined with elastic gains": Sourced(
+        what="Service III live-load factor, design-load inventory, prestressed members with "
+        "refined time-dependent losses and elastic gains",
+        value=(1.0,),
+        source=f"{MBE}, Table 6A.4.2.2-2 (3rd ed. errata)",
+        status="verified",
+        seen=_ERRATA_SEEN,
+    ),
+}
+
+#: The service check of each material (MBE Table 6A.4.2.2-1, from memory but for the Service
+#: III inventory factor, :data:`SERVICE_III_INVENTORY`): steel at Service II (flange stress;
+#: LRFD 6.10.4.2.2 through MBE 6A.6.4.2.1), prestressed concrete at Service III (tension at the
+#: precompressed fibre against the LRFD allowable, MBE 6A.5.4.1), reinforced concrete at
+#: Service I under permits only (reinforcement stress, MBE 6A.5.4.2.2). The prestressed
+#: inventory entry here is the "approximate" one; a member's Prestress losses picks its own.
+SERVICE_CHECKS: dict[Material, ServiceCheck] = {
+    "steel": ServiceCheck(
+        limit_state="Service II",
+        stress="flange stress",
+        factors={
+            "inventory": _service_factor("Service II live-load factor, inventory", 1.30),
+            "operating": _service_factor("Service II live-load factor, operating", 1.00),
+            "legal": _service_factor("Service II live-load factor, legal loads", 1.30),
+            "permit": _service_factor("Service II live-load factor, permits", 1.00),
+        },
+        limit=Sourced(
+            what="Service II flange stress limit: 0.95 Rh Fyf (composite section), 0.80 Rh "
+            "Fyf (non-composite section); flange lateral bending not included",
+            value=(0.95, 0.80),
+            source=f"{_LRFD}, Art. 6.10.4.2.2; {MBE}, 6A.6.4.2.1",
+            status="from memory",
+        ),
+    ),
+    "prestressed concrete": ServiceCheck(
+        limit_state="Service III",
+        stress="tension at the precompressed fibre",
+        factors={
+            "inventory": SERVICE_III_INVENTORY["approximate"],
+            "legal": _service_factor("Service III live-load factor, legal loads", 1.00),
+        },
+        limit=Sourced(
+            what="Service III allowable tension: the LRFD limit for the exposure (e.g. 0.19 "
+            "sqrt(f'c) ksi), given by the engineer, plus the effective prestress compression",
+            source=f"{_LRFD}, Table 5.9.2.3.2b-1; {MBE}, 6A.5.4.1",
+            status="from memory",
+        ),
+    ),
+    "reinforced concrete": ServiceCheck(
+        limit_state="Service I",
+        stress="reinforcement stress",
+        factors={"permit": _service_factor("Service I live-load factor, permits", 1.00)},
+        limit=Sourced(
+            what="Service I reinforcement stress limit under permits: 0.9 fy",
+            value=(0.9,),
+            source=f"{MBE}, 6A.5.4.2.2",
+            status="from memory",
+        ),
+    ),
+}
+
+#: The dead-load factors (DC and DW) of the service limit states.
+SERVICE_DEAD_LOAD = _service_factor("dead-load factor of the service limit states", 1.0)
+
+#: Posting on a service rating: a legal load's governing RF is the lowest over the strength
+#: check and the service check of the member's material where the engineer gave its section
+#: (MBE 6A.8.1 and Table 6A.4.2.2-1; the commentary calls the legal-load service checks
+#: optional, so giving S nc is the engineer's choice to apply them). From memory.
+SERVICE_POSTING = Sourced(
+    what="legal loads: posted on the lowest RF over the strength and the given service checks",
+    source=f"{MBE}, 6A.8.1 and Table 6A.4.2.2-1",
+    status="from memory",
+)
+
 # ---------------------------------------------------------------- posting exemptions
 
 #: FHWA memorandum "Load Rating of Specialized Hauling Vehicles" (15 Nov 2013) and its
@@ -457,6 +585,27 @@ PUBLISHED_TABLES: tuple[tuple[str, str], ...] = (
     ("ASR: A1 = A2", cited(ASR_FACTOR)),
     ("LFR and ASR posting", f"{LFR_POSTING.what} ({LFR_POSTING.source}; {LFR_POSTING.status})"),
     ("Standard Specifications impact (LFR and ASR)", cited(STANDARD_IMPACT)),
+    *(
+        (
+            f"{check.limit_state} ({material}), LL factor {level}",
+            cited(factor),
+        )
+        for material, check in SERVICE_CHECKS.items()
+        for level, factor in check.factors.items()
+    ),
+    (
+        "Service III (prestressed concrete), LL factor inventory, refined losses",
+        cited(SERVICE_III_INVENTORY["refined with elastic gains"]),
+    ),
+    *(
+        (f"{check.limit_state} ({material}), stress limit", cited(check.limit))
+        for material, check in SERVICE_CHECKS.items()
+    ),
+    ("Service limit states, dead-load factors", cited(SERVICE_DEAD_LOAD)),
+    (
+        "Posting on a service rating",
+        f"{SERVICE_POSTING.what} ({SERVICE_POSTING.source}; {SERVICE_POSTING.status})",
+    ),
     ("SHV exemption: NRL rating factor at least", cited(SHV_SCREEN)),
     ("EV exemption: HL-93 inventory rating factor at least", cited(EV_SCREEN)),
     (

@@ -52,6 +52,18 @@ PermitType = Literal["routine", "single-trip escorted", "single-trip", "multiple
 #: stress rating (Section 6B).
 RatingMethod = Literal["LRFR", "LFR", "ASR"]
 RATING_METHODS: tuple[RatingMethod, ...] = get_args(RatingMethod)
+#: A member's material, which decides the LRFR service limit state it is checked at (MBE
+#: Table 6A.4.2.2-1): Service II for steel, Service III for prestressed concrete, Service I
+#: (permits) for reinforced concrete; "other": strength only.
+Material = Literal["other", "steel", "prestressed concrete", "reinforced concrete"]
+MATERIALS: tuple[Material, ...] = get_args(Material)
+#: How a prestressed member's losses were estimated, which sets its Service III inventory
+#: live-load factor (MBE Table 6A.4.2.2-2, added by the 3rd edition's errata).
+PrestressLosses = Literal["approximate", "refined with elastic gains"]
+PRESTRESS_LOSSES: tuple[PrestressLosses, ...] = get_args(PrestressLosses)
+#: The moment sense a Capacities row's service stresses are checked in.
+ServiceEffect = Literal["M+", "M-"]
+SERVICE_EFFECTS: tuple[ServiceEffect, ...] = get_args(ServiceEffect)
 RIDING_SURFACES: tuple[RidingSurface, ...] = get_args(RidingSurface)
 PERMIT_TYPES: tuple[PermitType, ...] = get_args(PermitType)
 
@@ -798,6 +810,37 @@ class Member:
         "6B). LFR and ASR take the Standard Specifications' impact 50/(L + 125) at each "
         "effect's loaded length; the Capacities row gives their capacities.",
     )
+    # LRFR service limit states: the material and the dead load on each section.
+    material: Material = column(
+        "Material",
+        "choice",
+        default="other",
+        choices=MATERIALS,
+        meaning="LRFR members: steel (checked at Service II), prestressed concrete (Service "
+        "III) or reinforced concrete (Service I, permits), at the Capacities rows that give S "
+        "nc; other (default): rated at the strength limit states only (MBE Table 6A.4.2.2-1).",
+    )
+    dc1_share: float = column(
+        "DC1 share",
+        "number",
+        default=1.0,
+        minimum=0.0,
+        maximum=1.0,
+        meaning="Service checks: the share of the component dead load DC carried by the "
+        "non-composite section (DC1: girder, deck and haunch cast on the bare girder); the rest "
+        "(DC2, e.g. barriers) and DW act on the long-term composite section. Default 1: all DC "
+        "on the non-composite section.",
+    )
+    prestress_losses: PrestressLosses = column(
+        "Prestress losses",
+        "choice",
+        default="approximate",
+        choices=PRESTRESS_LOSSES,
+        meaning="Prestressed concrete: refined with elastic gains where the Prestress stress "
+        "comes from refined time-dependent losses (AASHTO LRFD 5.9.3.4) with the elastic gains "
+        "taken: Service III then takes the inventory LL factor 1.0, else 0.8 (MBE Table "
+        "6A.4.2.2-2).",
+    )
     # As built: filled in from the Segments and Analysis sheets (not columns of Members).
     segments: tuple[Segment, ...] = ()
     analysis: Analysis | None = None
@@ -1157,6 +1200,82 @@ class Capacity:
         meaning="Instead of Station: the section's distance from the member's left end "
         "(e.g. a cover-plate end or the shear section near a support); spanfleet adds a "
         "station exactly there.",
+    )
+
+    # LRFR service limit states: the section at this station and its allowable stress.
+    service_effect: ServiceEffect = column(
+        "Service effect",
+        "choice",
+        default="M+",
+        choices=SERVICE_EFFECTS,
+        meaning="The moment sense the service stresses below are checked in: M+ (sagging, the "
+        "default) or M- (hogging; steel and reinforced concrete only).",
+    )
+    s_nc: float | None = column(
+        "S nc",
+        "number",
+        default=None,
+        quantity="section_modulus",
+        above=0.0,
+        meaning="Section modulus of the non-composite section at the checked fibre (the "
+        "flange of a steel girder, the bottom of a prestressed girder, the reinforcement of "
+        "a reinforced concrete section as I/(n*c)). Given: the member's Material is checked "
+        "at its service limit state here (LRFR); blank: strength only.",
+    )
+    s_lt: float | None = column(
+        "S lt",
+        "number",
+        default=None,
+        quantity="section_modulus",
+        above=0.0,
+        meaning="Section modulus of the long-term composite section (slab transformed with "
+        "3n) at the same fibre, for DC2 and DW; blank: S nc (a non-composite section).",
+    )
+    s_st: float | None = column(
+        "S st",
+        "number",
+        default=None,
+        quantity="section_modulus",
+        above=0.0,
+        meaning="Section modulus of the short-term composite section (slab transformed with "
+        "n) at the same fibre, for the live load; blank: S lt.",
+    )
+    fy: float | None = column(
+        "Fy",
+        "number",
+        default=None,
+        quantity="stress",
+        above=0.0,
+        meaning="Steel: the yield strength Fyf of the checked flange (limit 0.95 Rh Fyf "
+        "composite, 0.80 Rh Fyf non-composite, AASHTO LRFD 6.10.4.2.2); reinforced concrete: "
+        "fy of the reinforcement (limit 0.9 fy). Or give Allowable stress instead.",
+    )
+    rh: float | None = column(
+        "Rh",
+        "number",
+        default=None,
+        above=0.0,
+        maximum=1.0,
+        meaning="Steel: the hybrid factor Rh (AASHTO LRFD 6.10.1.10.1); blank: 1.",
+    )
+    allowable_stress: float | None = column(
+        "Allowable stress",
+        "number",
+        default=None,
+        quantity="stress",
+        minimum=0.0,
+        meaning="Prestressed concrete: the allowable tension at the checked fibre, a positive "
+        "magnitude, e.g. 0.19 sqrt(f'c) ksi (AASHTO LRFD Table 5.9.2.3.2b-1); steel and "
+        "reinforced concrete: the engineer's own stress limit, instead of Fy.",
+    )
+    prestress_stress: float | None = column(
+        "Prestress stress",
+        "number",
+        default=None,
+        quantity="stress",
+        minimum=0.0,
+        meaning="Prestressed concrete: the compression the effective prestress (after losses) "
+        "gives at the checked fibre, a positive magnitude; it adds to the allowable tension.",
     )
 
     def section(self, spans: Sequence[float]) -> Section | None:

@@ -37,6 +37,8 @@ Quantity = Literal[
     "area",
     "inertia",
     "angle",
+    "stress",
+    "section_modulus",
 ]
 UNIT_SYSTEMS: tuple[str, ...] = get_args(UnitSystem)
 
@@ -57,6 +59,8 @@ UNIT_LABELS: dict[str, dict[str, str]] = {
         "area": "in2",
         "inertia": "in4",
         "angle": "deg",
+        "stress": "ksi",
+        "section_modulus": "in3",
     },
     "SI": {
         "force": "kN",
@@ -69,15 +73,23 @@ UNIT_LABELS: dict[str, dict[str, str]] = {
         "area": "mm2",
         "inertia": "mm4",
         "angle": "deg",
+        "stress": "MPa",
+        "section_modulus": "mm3",
     },
 }
 
 #: What one unit of a quantity whose label is not the run's consistent unit is in the
 #: consistent units (kip and ft, or kN and m): 1 kip-in2 = 1/144 kip-ft2, 1 in = 1/12 ft,
-#: 1 mm = 0.001 m (exact by definition).
+#: 1 ksi = 144 kip/ft2, 1 in3 = 1/1728 ft3; 1 mm = 0.001 m, 1 MPa = 1000 kN/m2,
+#: 1 mm3 = 1e-9 m3 (exact by definition).
 IN_CONSISTENT_UNITS: dict[str, dict[str, float]] = {
-    "US": {"rigidity": 1.0 / 144.0, "deflection": 1.0 / 12.0},
-    "SI": {"rigidity": 1.0, "deflection": 1e-3},
+    "US": {
+        "rigidity": 1.0 / 144.0,
+        "deflection": 1.0 / 12.0,
+        "stress": 144.0,
+        "section_modulus": 1.0 / 1728.0,
+    },
+    "SI": {"rigidity": 1.0, "deflection": 1e-3, "stress": 1e3, "section_modulus": 1e-9},
 }
 
 #: kN in one kip (exact: 1000 lbf of 4.4482216152605 N).

@@ -41,6 +41,13 @@ _UNIT_SPELLINGS: dict[str, tuple[str, str | None]] = {
         s: ("rigidity", None)
         for s in ("kip-ft2", "kip-ft²", "lb-in2", "n-mm2", "n-mm²", "kn-mm2", "n-m2", "mn-m2")
     },
+    # Capacities, service limit states: stresses and section moduli.
+    **{s: ("stress", "US") for s in ("ksi",)},
+    **{s: ("stress", "SI") for s in ("mpa", "n/mm2", "n/mm²")},
+    **{s: ("stress", None) for s in ("psi", "ksf", "psf", "kpa", "gpa", "kn/m2", "pa")},
+    **{s: ("section_modulus", "US") for s in ("in3", "in³", "in^3")},
+    **{s: ("section_modulus", "SI") for s in ("mm3", "mm³", "mm^3")},
+    **{s: ("section_modulus", None) for s in ("ft3", "ft³", "m3", "m³", "cm3", "cm³")},
 }
 
 #: Units of the girder layout's section dimensions and skew, by quantity: spelling -> the

@@ -5,7 +5,7 @@ and outer spaces) and a point of it: one of its spans and a fraction of that
 span, or x from its left end (with the span too where x is an interior support,
 to say which side); a point between the member's stations becomes a station of
 its own (:func:`batch.model.layout.section_of`). It must give at least one
-resistance, and no station may be listed twice (two points within
+resistance (or S nc, a service check), and no station may be listed twice (two points within
 :data:`batch.model.layout.STATION_TOL` of a span are one station). A member whose
 dead load would silently be taken as 0 gets a warning.
 
@@ -74,12 +74,13 @@ def capacity_problems(
 
 def _row_problems(row: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[Found]:
     """The problems of one Capacities row, in the order a reader fixes them."""
-    if all(k not in row and cx.ok((*at, k)) for k in _RESISTANCES):
+    if all(k not in row and cx.ok((*at, k)) for k in (*_RESISTANCES, "s_nc")):
         yield (
             (*at, "resistance_m_pos"),
             "no-resistance",
-            "Resistance M+, Resistance M- and Resistance V are all blank, so nothing is "
-            "rated at this station; give at least one factored resistance, or delete the row",
+            "Resistance M+, Resistance M- and Resistance V are all blank, and no S nc asks for "
+            "a service check, so nothing is rated at this station; give at least one factored "
+            "resistance (or the section of a service check), or delete the row",
             "error",
         )
     name = row.get("member")

@@ -9,8 +9,8 @@ limits, :data:`LIMITS` (past ``warn`` a warning, past ``refuse`` an error).
 For rating: condition and system factors against the MBE's values, load
 factors against the published ones, the screening reference, every
 Capacities row against its member's spans and stations (:mod:`.capacities`),
-and the Bridges sheet, the members' bridges and the permits' kinds
-(:mod:`.traffic`).
+the Bridges sheet, the members' bridges and the permits' kinds
+(:mod:`.traffic`), and the inputs of the LRFR service checks (:mod:`.service`).
 
 A field the reader could not read, or that failed the schema, is skipped here,
 so one mistake gives one problem.
@@ -42,6 +42,7 @@ from batch.validating.fields import finite_number, label, shown
 from batch.validating.friendly import missing_axle_column, nearest_models, unit_mixups
 from batch.validating.layout import layout_problems, with_layout
 from batch.validating.segments import segment_problems
+from batch.validating.service import service_problems
 from batch.validating.traffic import traffic_problems
 
 __all__ = ["LIMITS", "Limit", "check_document"]
@@ -600,6 +601,7 @@ def check_document(
         )
     found += _library_needs(document, settings, bool(capacities), cx)
     found += traffic_problems(document, locator, cx.ok)
+    found += service_problems(document, locator, cx.ok)
     out = []
     for path, code, message, severity in found:
         sheet, cell = locator.where(path)
