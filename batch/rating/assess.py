@@ -18,7 +18,7 @@ from batch.loads.cases import ImpactFormula, LoadCase
 from batch.loads.factors import STANDARD_SPECIFICATIONS_IMPACT
 from batch.model import Capacity, Case, Category, Member
 from batch.model.layout import Section
-from batch.model.units import conversion
+from batch.model.units import UnitSystem, conversion
 from batch.rating.lrfr import (
     FloatArray,
     MemberDeadLoads,
@@ -54,7 +54,8 @@ class AssessmentPlan:
     ``reference`` is the screening reference: a vehicle index, the load cases
     of a library model, or None for no screening. ``weights`` are the vehicles'
     gross weights in US tons or tonnes (for posting loads); ``impact`` the Standard
-    Specifications' impact formula in the run's length unit (LFR and ASR members).
+    Specifications' impact formula in the run's length unit (LFR and ASR members);
+    ``units`` the run's unit system (the stresses of service checks).
     """
 
     categories: tuple[Category, ...]
@@ -66,6 +67,7 @@ class AssessmentPlan:
     reference: int | tuple[LoadCase, ...] | None = None
     floor: float = 0.1
     impact: ImpactFormula = STANDARD_SPECIFICATIONS_IMPACT
+    units: UnitSystem = "US"
 
     @classmethod
     def of(cls, case: Case) -> AssessmentPlan | None:
@@ -101,6 +103,7 @@ class AssessmentPlan:
             reference=reference if isinstance(reference, int | None) else tuple(reference),
             floor=settings.screening_floor,
             impact=STANDARD_SPECIFICATIONS_IMPACT.scaled(conversion("US", settings.units).length),
+            units=settings.units,
         )
 
     def sections(self, member: Member) -> tuple[Section, ...]:
@@ -160,6 +163,7 @@ def assess_member(
             plan.weights,
             dead,
             plan.impact,
+            plan.units,
         )
     reference = _reference(member, effects, live, plan)
     screening = (

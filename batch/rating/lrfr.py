@@ -42,13 +42,42 @@ LRFD Table 3.4.1-2), so that the relief is not overstated. phi_s applies to
 flexure only; shear takes phi_s = 1 (MBE 6A.4.2.4, from memory). For flexure
 phi_c*phi_s is not taken below :data:`MIN_CAPACITY_FACTOR` (MBE Eq. 6A.4.2.1-3).
 
+Service limit states (LRFR)
+---------------------------
+Where a Capacities row of an LRFR member gives ``S nc``, the member's Material is
+also checked at its service limit state at that station (MBE Table 6A.4.2.2-1): steel
+at Service II, prestressed concrete at Service III, reinforced concrete at Service I
+(permits only). The check is one more check of the station, in the moment sense of
+the row's ``Service effect``, rated in stresses at the checked fibre (MBE 6A.4.2.1,
+C = fR)::
+
+    RF = (fR - fD) / (gL * fLL)
+    fD  = s*M_DC / S_nc + (1 - s)*M_DC / S_lt + M_DW / S_lt
+    fLL = M_(LL+IM) / S_st
+
+M the moments in the checked sense (positive where they add to it), s the member's DC1
+share, S the section moduli (S_lt blank: S_nc; S_st blank: S_lt), dead-load factors
+1.0. fR is 0.95*Rh*Fy for a composite steel section (S lt or S st given) and
+0.80*Rh*Fy for a non-composite one (AASHTO LRFD 6.10.4.2.2, flange lateral bending not
+included), 0.9*fy for reinforced concrete, the engineer's allowable tension plus the
+effective prestress compression for prestressed concrete (tension at the fibre
+positive: the bottom fibre under sagging moment), or the engineer's Allowable stress.
+Stresses are in ksi (US: M in kip-ft, S in in3, so f = 12*M/S) or MPa (SI: kN-m and
+mm3, f = 1e6*M/S). gL is the service factor of the load's kind (design inventory and
+operating, legal, permit); where the manual does not check a kind at that limit
+state the check is not rated for it (RF = inf). batch/loads/factors.py holds each
+value with its status.
+
 LL + IM = (1 + IM)*LL axles + (1 + IM on lane)*LL lane is the vehicle's largest
 effect over its load cases (a library model's parts), recomputed from the
 engine's static parts with the live-load factor, dynamic allowance and
 distribution factor the bridge's traffic and the vehicle's kind of crossing set
 (:mod:`batch.rating.traffic`). Where a vehicle produces no effect of the rated
 sense (LL + IM = 0) that check is not rated for it (RF = inf). The member's
-rating factor for a vehicle is the smallest over its checks.
+rating factor for a vehicle is the smallest over its checks, strength and service
+alike, and the governing check names its limit state. A design load's operating RF is
+the one at the governing check, or, where that check has no operating level (Service
+III), the smallest operating RF over the checks.
 
 Posting and screening
 ---------------------
@@ -56,7 +85,8 @@ For a legal load with 0.3 <= RF < 1 the posting load is ``(W/0.7)*(RF - 0.3)``
 (MBE 6A.8.3; secondary, Khan 2010), W the vehicle's gross weight in tons (US, 2
 kip) or tonnes (SI, 9.80665 kN); below RF 0.3 the MBE recommends considering
 closing the bridge to that load. An LFR or ASR member is posted at its operating
-rating RF*W (MBE 6B.7, from memory).
+rating RF*W (MBE 6B.7, from memory). A legal load is posted on its governing RF, which
+may be a service one where the engineer gave the section (``SERVICE_POSTING``).
 
 Screening compares every vehicle with a reference load (e.g. the design load
 the members were designed for): for each member and vehicle, the largest ratio
@@ -70,7 +100,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 from numpy.typing import NDArray
@@ -87,21 +117,42 @@ from batch.loads.factors import (
     MIN_CAPACITY_FACTOR,
     POSTING_DIVISOR,
     POSTING_FLOOR,
+    SERVICE_CHECKS,
+    SERVICE_DEAD_LOAD,
+    SERVICE_III_INVENTORY,
+    SERVICE_LEVELS,
 )
-from batch.model import RATING_METHODS, Bridge, Capacity, Category, Member, Settings, Vehicle
-from batch.model.units import UnitSystem
-from batch.rating.traffic import VehicleTerms, member_df, standard_terms
+from batch.model import (
+    CATEGORIES,
+    RATING_METHODS,
+    Bridge,
+    Capacity,
+    Category,
+    Member,
+    Settings,
+    Vehicle,
+)
+from batch.model.units import IN_CONSISTENT_UNITS, UnitSystem
+from batch.rating.traffic import (
+    GAMMA_SOURCES,
+    LIMIT_STATES,
+    VehicleTerms,
+    member_df,
+    standard_terms,
+)
 
 if TYPE_CHECKING:  # the compiled engine is not needed to read ratings
     from batch.engine.envelope import CaseEffects
 
 __all__ = [
     "FLAGS",
+    "FR_RULES",
     "RATED_EFFECTS",
     "MemberDeadLoads",
     "MemberRating",
     "RatingFactors",
     "VehicleEffects",
+    "by_check",
     "capacity_factor",
     "dead_load_effects",
     "dead_load_factors",
@@ -114,6 +165,7 @@ __all__ = [
     "rated_live",
     "rating_factor",
     "rating_flag",
+    "stress_per_moment",
     "vehicle_effects",
     "weight_in_tons",
 ]
@@ -271,6 +323,130 @@ def rating_factor(
     return _ratio(numerator, np.asarray(live, dtype=float) * np.asarray(gamma_live, dtype=float))
 
 
+# ---------------------------------------------------------------- service limit states
+
+_STEEL = SERVICE_CHECKS["steel"].limit.numbers
+#: How a service check's allowable stress fR was found, by code (``MemberRating.k_fr_rule``).
+FR_RULES: tuple[str, ...] = (
+    f"{_STEEL[0]:.2f} Rh Fy: composite section (AASHTO LRFD 6.10.4.2.2)",
+    f"{_STEEL[1]:.2f} Rh Fy: non-composite section (AASHTO LRFD 6.10.4.2.2)",
+    f"{SERVICE_CHECKS['reinforced concrete'].limit.number:g} fy (MBE 6A.5.4.2.2)",
+    "Allowable stress + Prestress stress (tension positive)",
+    "Allowable stress, as given",
+)
+#: Column of ``MemberRating.k_gamma`` of each vehicle category (design: inventory).
+_LEVEL_OF: dict[str, int] = {"design": 0, "legal": 2, "permit": 3}
+_OPERATING_LEVEL = SERVICE_LEVELS.index("operating")
+
+
+def stress_per_moment(units: UnitSystem) -> float:
+    """The stress (ksi or MPa) of a unit moment (kip-ft or kN-m) on a unit S (in3 or mm3).
+
+    12 in the US system (12 in per ft), 1e6 in SI (1e6 N-mm per kN-m).
+    """
+    scale = IN_CONSISTENT_UNITS[units]
+    return 1.0 / (scale["section_modulus"] * scale["stress"])
+
+
+@dataclass(frozen=True, kw_only=True)
+class _ServiceRow:
+    """The service check a Capacities row asks for (see the module docstring)."""
+
+    effect: int
+    limit_state: int
+    s_nc: float
+    s_lt: float
+    s_st: float
+    fy: float
+    rh: float
+    allowable: float
+    prestress: float
+    fr: float
+    rule: int
+    gamma: tuple[float, ...]
+    gamma_source: tuple[int, ...]
+
+
+def _service_row(member: Member, c: Capacity) -> _ServiceRow | None:
+    """The row's service check, or None (no S nc, Material other, or not LRFR)."""
+    if c.s_nc is None or member.material == "other" or member.rating_method != "LRFR":
+        return None
+    check = SERVICE_CHECKS[member.material]
+    s_lt = c.s_nc if c.s_lt is None else c.s_lt
+    rh = 1.0 if c.rh is None else c.rh
+    if member.material == "prestressed concrete":
+        fr = (c.allowable_stress or 0.0) + (c.prestress_stress or 0.0)
+        rule = 3
+    elif c.allowable_stress is not None:
+        fr, rule = c.allowable_stress, 4
+    elif member.material == "steel":
+        composite = c.s_lt is not None or c.s_st is not None
+        fr, rule = (
+            (_STEEL[0] if composite else _STEEL[1]) * rh * (c.fy or 0.0),
+            0 if composite else 1,
+        )
+    else:
+        fr, rule = check.limit.number * (c.fy or 0.0), 2
+    factors = dict(check.factors)
+    table = GAMMA_SOURCES.index("MBE Table 6A.4.2.2-1, service limit state")
+    sources = [table] * len(SERVICE_LEVELS)
+    if member.material == "prestressed concrete":
+        factors["inventory"] = SERVICE_III_INVENTORY[member.prestress_losses]
+        sources[0] = GAMMA_SOURCES.index(
+            "MBE Table 6A.4.2.2-2 (3rd ed. errata): "
+            + (
+                "approximate losses"
+                if member.prestress_losses == "approximate"
+                else "refined losses with elastic gains"
+            )
+        )
+    return _ServiceRow(
+        effect=0 if c.service_effect == "M+" else 1,
+        limit_state=LIMIT_STATES.index(check.limit_state),
+        s_nc=c.s_nc,
+        s_lt=s_lt,
+        s_st=s_lt if c.s_st is None else c.s_st,
+        fy=np.nan if c.fy is None else c.fy,
+        rh=rh if member.material == "steel" else np.nan,
+        allowable=np.nan if c.allowable_stress is None else c.allowable_stress,
+        prestress=np.nan if c.prestress_stress is None else c.prestress_stress,
+        fr=fr,
+        rule=rule,
+        gamma=tuple(
+            factors[level].number if level in factors else np.nan for level in SERVICE_LEVELS
+        ),
+        gamma_source=tuple(sources),
+    )
+
+
+def by_check(
+    k_service: NDArray[np.bool_],
+    k_table: NDArray[Any],
+    v_category: NDArray[np.int8],
+    v_values: NDArray[Any],
+    v: NDArray[np.int64],
+    k: NDArray[np.int64],
+    operating: bool = False,
+) -> NDArray[Any]:
+    """Per (vehicle ``v``, check ``k``) pair: the vehicle's strength value, or the check's own.
+
+    ``k_table`` (n_checks, 4) holds each service check's value per level of
+    :data:`~batch.loads.factors.SERVICE_LEVELS` (live-load factors or their source
+    codes); ``v_values`` the vehicles' own (strength) values; ``v_category`` their
+    categories (index of :data:`batch.model.CATEGORIES`). ``operating``: the
+    operating level of design loads (NaN for other kinds at a service check).
+    ``v`` and ``k`` are index arrays that broadcast together.
+    """
+    design = np.asarray(CATEGORIES)[v_category] == "design"
+    level = np.array([_LEVEL_OF[c] for c in CATEGORIES], dtype=np.int64)[v_category]
+    if operating:
+        level = np.full(level.shape, _OPERATING_LEVEL)
+    own = k_table[k, level[v]]
+    if operating:
+        own = np.where(design[v], own, np.nan)
+    return np.where(k_service[k], own, v_values[v])
+
+
 @dataclass(frozen=True, kw_only=True)
 class MemberDeadLoads:
     """A member's dead-load effects, one value per effect row (moments, shears, reactions).
@@ -324,7 +500,23 @@ class MemberRating:
     stored rating stays small however large the fleet); ``v_operating`` marks the
     vehicles rated at the operating level with ``k_capacity_operating`` (legal loads
     and permits of an LFR or ASR member). ``method`` (one value) is the member's
-    rating method, the index of :data:`batch.model.RATING_METHODS`.
+    rating method, the index of :data:`batch.model.RATING_METHODS`; ``v_category``
+    each vehicle's category (index of :data:`batch.model.CATEGORIES`).
+
+    Service checks (see the module docstring; NaN or -1 on strength checks):
+    ``k_limit_state`` the check's limit state (code of
+    :data:`~batch.rating.traffic.LIMIT_STATES`; -1: the vehicle's strength one);
+    ``k_gamma`` (n_checks, 4) its live-load factor per level of
+    :data:`~batch.loads.factors.SERVICE_LEVELS` (NaN: not checked) and
+    ``k_gamma_source`` the codes of :data:`~batch.rating.traffic.GAMMA_SOURCES`;
+    ``k_fr_rule`` how fR (``k_capacity``) was found (:data:`FR_RULES`); ``k_fy``,
+    ``k_rh``, ``k_allowable``, ``k_prestress`` the row's inputs; ``k_dc1_share`` the
+    member's DC1 share; ``k_m_dc``, ``k_m_dw`` the dead-load moments in the checked
+    sense; ``k_s_nc``, ``k_s_lt``, ``k_s_st`` the section moduli used;
+    ``k_per_moment`` the stress of a unit moment on S st. On a service check
+    ``k_dc``, ``k_dw`` are the dead-load stresses fDC and fDW and the live-load
+    terms (``p_axle``, ``p_lane``, ``p_live``) are stresses on S st. :meth:`gamma`,
+    :meth:`gamma_source` and :meth:`limit_state` give each pair's own.
 
     Pairs: ``p_axle`` and ``p_lane`` the axle and lane parts of the governing
     load case's effect, distribution factor and case factor included, without
@@ -380,6 +572,44 @@ class MemberRating:
     p_direction: NDArray[np.int8]
     p_spacing: FloatArray
     method: NDArray[np.int8]
+    v_category: NDArray[np.int8]
+    k_limit_state: NDArray[np.int8]
+    k_gamma: FloatArray
+    k_gamma_source: NDArray[np.int8]
+    k_fr_rule: NDArray[np.int8]
+    k_fy: FloatArray
+    k_rh: FloatArray
+    k_allowable: FloatArray
+    k_prestress: FloatArray
+    k_dc1_share: FloatArray
+    k_m_dc: FloatArray
+    k_m_dw: FloatArray
+    k_s_nc: FloatArray
+    k_s_lt: FloatArray
+    k_s_st: FloatArray
+    k_per_moment: FloatArray
+
+    def gamma(
+        self, v: NDArray[np.int64], k: NDArray[np.int64], operating: bool = False
+    ) -> FloatArray:
+        """The live-load factor of each (vehicle, check) pair (``operating``: design loads')."""
+        own = self.v_gamma_operating if operating else self.v_gamma
+        values: FloatArray = by_check(
+            self.k_limit_state >= 0, self.k_gamma, self.v_category, own, v, k, operating
+        )
+        return values
+
+    def gamma_source(self, v: NDArray[np.int64], k: NDArray[np.int64]) -> NDArray[np.int8]:
+        """Where each pair's live-load factor came from (codes of GAMMA_SOURCES)."""
+        codes = by_check(
+            self.k_limit_state >= 0, self.k_gamma_source, self.v_category, self.v_gamma_source, v, k
+        )
+        return np.asarray(codes, dtype=np.int8)
+
+    def limit_state(self, v: NDArray[np.int64], k: NDArray[np.int64]) -> NDArray[np.int8]:
+        """The limit state of each pair (codes of LIMIT_STATES)."""
+        service = self.k_limit_state[k]
+        return np.asarray(np.where(service >= 0, service, self.v_limit_state[v]), dtype=np.int8)
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -393,6 +623,9 @@ class _Checks:
     dc: FloatArray
     dw: FloatArray
     given: NDArray[np.bool_]
+    service: tuple[_ServiceRow | None, ...]
+    m_dc: FloatArray
+    m_dw: FloatArray
 
 
 def _checks(
@@ -400,9 +633,18 @@ def _checks(
     capacities: Sequence[Capacity],
     dead: MemberDeadLoads,
     il: InfluenceLines,
+    units: UnitSystem,
 ) -> _Checks:
-    """One check per Capacities row and rated effect it gives a resistance for, in row order."""
+    """One check per Capacities row and rated effect it gives a resistance for, in row order.
+
+    A row with a service check (:func:`_service_row`) adds it after its strength checks;
+    its ``dc`` and ``dw`` are the dead-load stresses, ``m_dc`` and ``m_dw`` the moments.
+    """
     station, effect, resistance, operating, dc, dw, given = [], [], [], [], [], [], []
+    service: list[_ServiceRow | None] = []
+    m_dc: list[float] = []
+    m_dw: list[float] = []
+    per = stress_per_moment(units)
     for c in capacities:
         at = c.section(member.spans)
         row = None if at is None else il.station_index(at)
@@ -422,6 +664,29 @@ def _checks(
             dc.append(sense * (dead.dc[line] if typed[0] is None else typed[0]))
             dw.append(sense * (dead.dw[line] if typed[1] is None else typed[1]))
             given.append(typed[0] is not None or typed[1] is not None)
+            service.append(None)
+            m_dc.append(np.nan)
+            m_dw.append(np.nan)
+        row_service = _service_row(member, c)
+        if row_service is None:
+            continue
+        sense = RATED_EFFECTS[row_service.effect][2]
+        line = il.moment_rows.start + row
+        moments = (
+            sense * (dead.dc[line] if c.dc_m is None else c.dc_m),
+            sense * (dead.dw[line] if c.dw_m is None else c.dw_m),
+        )
+        share = member.dc1_share
+        station.append(row)
+        effect.append(row_service.effect)
+        resistance.append(np.nan)
+        operating.append(np.nan)
+        dc.append(moments[0] * per * (share / row_service.s_nc + (1.0 - share) / row_service.s_lt))
+        dw.append(moments[1] * per / row_service.s_lt)
+        given.append(c.dc_m is not None or c.dw_m is not None)
+        service.append(row_service)
+        m_dc.append(moments[0])
+        m_dw.append(moments[1])
     if not station:
         raise ValueError(f"member {member.id!r}: give at least one resistance to rate")
     return _Checks(
@@ -432,6 +697,9 @@ def _checks(
         dc=np.array(dc, dtype=float),
         dw=np.array(dw, dtype=float),
         given=np.array(given, dtype=bool),
+        service=tuple(service),
+        m_dc=np.array(m_dc, dtype=float),
+        m_dw=np.array(m_dw, dtype=float),
     )
 
 
@@ -532,6 +800,7 @@ def rate_member(
     weights: Sequence[float],
     dead: MemberDeadLoads | None = None,
     formula: ImpactFormula | None = None,
+    units: UnitSystem = "US",
 ) -> MemberRating:
     """Rate every vehicle at the member's ``capacities`` stations (see the module docstring).
 
@@ -543,12 +812,19 @@ def rate_member(
     least one (validated: each on one of the member's stations). An LFR or ASR
     member (its Rating method) is rated by MBE Section 6B instead: see
     :func:`_standard_method`; ``formula`` is then the Standard Specifications'
-    impact in the run's length unit.
+    impact in the run's length unit. ``units`` is the run's unit system, for the
+    stresses of the service checks.
     """
     il = effects.lines
     dead = dead if dead is not None else member_dead_loads(member, il)
-    ck = _checks(member, capacities, dead, il)
+    ck = _checks(member, capacities, dead, il, units)
     flexure = ck.effect < 2
+    service = np.array([row is not None for row in ck.service], dtype=bool)
+
+    def per_check(get: Any, blank: float = np.nan) -> FloatArray:
+        """A service term per check (``blank`` on strength checks)."""
+        return np.array([blank if row is None else get(row) for row in ck.service], dtype=float)
+
     if member.rating_method == "LRFR":
         phi_c = np.full(ck.effect.shape, member.condition_factor)
         phi_s = np.where(flexure, member.system_factor, 1.0)
@@ -570,6 +846,13 @@ def rate_member(
         capacity_operating = ck.resistance if member.rating_method == "LFR" else ck.operating
         a1 = LFR_A1.number if member.rating_method == "LFR" else ASR_FACTOR.number
         gamma_dc = gamma_dw = np.full(ck.effect.shape, a1)
+    # Service checks: C = fR, dead-load factors 1, no capacity factors.
+    fr = per_check(lambda row: row.fr)
+    phi_c, phi_s, phi = (np.where(service, np.nan, x) for x in (phi_c, phi_s, phi))
+    capacity = np.where(service, fr, capacity)
+    capacity_operating = np.where(service, fr, capacity_operating)
+    gamma_dc = np.where(service, SERVICE_DEAD_LOAD.number, gamma_dc)
+    gamma_dw = np.where(service, SERVICE_DEAD_LOAD.number, gamma_dw)
     dead_part = gamma_dc * ck.dc + gamma_dw * ck.dw
     numerator = capacity - dead_part
     numerator_operating = capacity_operating - dead_part
@@ -593,19 +876,35 @@ def rate_member(
         ~one_lane,
         formula,
     )
+    # A service check's live load is the stress on S st.
+    per_moment = per_check(lambda row: stress_per_moment(units) / row.s_st)
+    scale = np.where(service, per_moment, 1.0)[None, :]
+    p_axle, p_lane, p_live = live.axle * scale, live.lane * scale, live.live * scale
+    v_category = np.array([CATEGORIES.index(c) for c in categories], dtype=np.int8)
+    k_limit_state = np.array(
+        [-1 if row is None else row.limit_state for row in ck.service], dtype=np.int8
+    )
+    k_gamma = np.array(
+        [(np.nan,) * len(SERVICE_LEVELS) if row is None else row.gamma for row in ck.service],
+        dtype=float,
+    ).reshape(-1, len(SERVICE_LEVELS))
+    pairs = np.arange(len(categories))[:, None], np.arange(ck.effect.size)[None, :]
+    gamma = by_check(service, k_gamma, v_category, terms.gamma, *pairs)
+    gamma_op = by_check(service, k_gamma, v_category, terms.gamma_operating, *pairs, True)
     level = np.where(terms.operating[:, None], numerator_operating[None, :], numerator[None, :])
-    rf = _ratio(level, live.live * terms.gamma[:, None])
+    rf = _ratio(level, p_live * gamma)
     design = np.array(categories) == "design"
     rf_op = np.where(
-        design[:, None],
-        _ratio(numerator_operating[None, :], live.live * terms.gamma_operating[:, None]),
-        np.nan,
+        design[:, None], _ratio(numerator_operating[None, :], p_live * gamma_op), np.nan
     )
     n = np.arange(len(categories))
     best = rf.argmin(axis=1)
     governing = rf[n, best]
     found = np.isfinite(governing)
     operating = np.where(found, rf_op[n, best], np.nan)
+    # A governing check with no operating level (Service III): the smallest operating RF.
+    lowest = np.min(np.where(np.isfinite(rf_op), rf_op, np.inf), axis=1, initial=np.inf)
+    operating = np.where(found & design & ~np.isfinite(operating), lowest, operating)
     lrfr = member.rating_method == "LRFR"
     posted = posting_load if lrfr else operating_rating
     posting = [
@@ -647,11 +946,11 @@ def rate_member(
         v_impact_source=terms.impact_source,
         v_limit_state=terms.limit_state,
         v_operating=terms.operating,
-        p_axle=live.axle,
-        p_lane=live.lane,
+        p_axle=p_axle,
+        p_lane=p_lane,
         p_impact=live.impact,
         p_impact_lane=live.impact_lane,
-        p_live=live.live,
+        p_live=p_live,
         p_rf=rf,
         p_rf_operating=rf_op,
         p_case=live.case,
@@ -659,6 +958,28 @@ def rate_member(
         p_direction=live.direction,
         p_spacing=live.spacing,
         method=np.array([RATING_METHODS.index(member.rating_method)], dtype=np.int8),
+        v_category=v_category,
+        k_limit_state=k_limit_state,
+        k_gamma=k_gamma,
+        k_gamma_source=np.array(
+            [
+                (-1,) * len(SERVICE_LEVELS) if row is None else row.gamma_source
+                for row in ck.service
+            ],
+            dtype=np.int8,
+        ).reshape(-1, len(SERVICE_LEVELS)),
+        k_fr_rule=np.array([-1 if row is None else row.rule for row in ck.service], dtype=np.int8),
+        k_fy=per_check(lambda row: row.fy),
+        k_rh=per_check(lambda row: row.rh),
+        k_allowable=per_check(lambda row: row.allowable),
+        k_prestress=per_check(lambda row: row.prestress),
+        k_dc1_share=np.where(service, member.dc1_share, np.nan),
+        k_m_dc=ck.m_dc,
+        k_m_dw=ck.m_dw,
+        k_s_nc=per_check(lambda row: row.s_nc),
+        k_s_lt=per_check(lambda row: row.s_lt),
+        k_s_st=per_check(lambda row: row.s_st),
+        k_per_moment=per_moment,
     )
 
 

@@ -30,7 +30,8 @@ kind (AASHTO Manual for Bridge Evaluation, MBE, Section 6A; the tables are in
   the multi-lane factors.
 
 * **limit state**: Strength I for design and legal loads, Strength II for permits
-  (MBE Table 6A.4.2.2-1).
+  (MBE Table 6A.4.2.2-1); the service limit state of a member's material, with its own
+  live-load factors, is added per check by :func:`batch.rating.lrfr.rate_member`.
 
 The bridge's own ``DC factor`` and ``DW factor`` are taken by
 :meth:`batch.rating.lrfr.RatingFactors.of`.
@@ -54,6 +55,7 @@ from batch.loads.factors import (
     LFR_A2_INVENTORY,
     LFR_A2_OPERATING,
     PERMIT_LIVE_LOAD,
+    SERVICE_CHECKS,
     SINGLE_LANE_PRESENCE,
     STRENGTH_LIMIT_STATE,
 )
@@ -86,6 +88,9 @@ GAMMA_SOURCES: tuple[str, ...] = (
     "LFR, inventory level: A2 (MBE 6B.4.3)",
     "LFR, operating level: A2 (MBE 6B.4.3)",
     "ASR: A2 = 1 (MBE 6B.4.2)",
+    "MBE Table 6A.4.2.2-1, service limit state",
+    "MBE Table 6A.4.2.2-2 (3rd ed. errata): approximate losses",
+    "MBE Table 6A.4.2.2-2 (3rd ed. errata): refined losses with elastic gains",
 )
 #: Where a dynamic load allowance came from, by code (``VehicleTerms.impact_source``): the
 #: load case's own (the Settings', or one a library model fixes), a riding surface, or crawl.
@@ -107,6 +112,7 @@ LIMIT_STATES: tuple[str, ...] = (
     *dict.fromkeys(STRENGTH_LIMIT_STATE.values()),
     "Load factor (LFR)",
     "Allowable stress (ASR)",
+    *(check.limit_state for check in SERVICE_CHECKS.values()),
 )
 
 

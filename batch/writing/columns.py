@@ -45,6 +45,8 @@ from batch.loads.distribution import (
 )
 from batch.model import RATING_METHODS, Bridge, Case, GirderLayout, Member
 from batch.rating.lrfr import FLAGS, RATED_EFFECTS, MemberDeadLoads, MemberRating
+from batch.model import RATING_METHODS, Bridge, Case, Member
+from batch.rating.lrfr import FLAGS, FR_RULES, RATED_EFFECTS, MemberDeadLoads, MemberRating
 from batch.rating.posting import BridgePosting
 from batch.rating.screening import SCREEN_EFFECTS, MemberScreening
 from batch.rating.traffic import DF_SOURCES, GAMMA_SOURCES, IMPACT_SOURCES, LIMIT_STATES
@@ -808,8 +810,10 @@ _TERMS: tuple[_Term, ...] = (
         11,
         "The limit state of the check, as the MBE names it: Strength I for design and legal "
         "loads, Strength II for permits (MBE Table 6A.4.2.2-1); Load factor or Allowable "
-        "stress for LFR and ASR members.",
-        lambda r, v, k: _words(LIMIT_STATES, r.v_limit_state[v]),
+        "stress for LFR and ASR members; Service II (steel), Service III (prestressed "
+        "concrete) or Service I (reinforced concrete) on a service check, whose terms are "
+        "stresses at the checked fibre.",
+        lambda r, v, k: _words(LIMIT_STATES, r.limit_state(v, k)),
     ),
     (
         "phi Rn",
@@ -817,7 +821,8 @@ _TERMS: tuple[_Term, ...] = (
         FORMAT_VALUE,
         10,
         "The capacity typed on the Capacities row (moment or shear): the factored resistance "
-        "phi*Rn (LRFR), the capacity (LFR), the inventory allowable (ASR).",
+        "phi*Rn (LRFR), the capacity (LFR), the inventory allowable (ASR); blank on a service "
+        "check.",
         lambda r, v, k: r.k_resistance[k],
     ),
     (
@@ -857,7 +862,8 @@ _TERMS: tuple[_Term, ...] = (
         "",
         FORMAT_VALUE,
         10,
-        "Capacity C = (phi c phi s) * (phi Rn).",
+        "Capacity C = (phi c phi s) * (phi Rn); on a service check the allowable stress fR "
+        "(see fR from).",
         lambda r, v, k: r.k_capacity[k],
     ),
     (
@@ -875,14 +881,18 @@ _TERMS: tuple[_Term, ...] = (
         12,
         "Which capacity RF uses: C, or C operating (legal loads and permits of an LFR or ASR "
         "member, rated at the operating level).",
-        lambda r, v, k: np.where(r.v_operating[v], "C operating", "C"),
+        lambda r, v, k: np.where(
+            r.k_limit_state[k] >= 0, "C = fR", np.where(r.v_operating[v], "C operating", "C")
+        ),
     ),
     (
         "DC",
         "",
         FORMAT_VALUE,
         10,
-        "Component dead-load effect in the rated sense (positive where it adds to the effect).",
+        "Component dead-load effect in the rated sense (positive where it adds to the effect); "
+        "on a service check the stress fDC = s * M DC / S nc + (1 - s) * M DC / S lt, s the "
+        "DC1 share.",
         lambda r, v, k: r.k_dc[k],
     ),
     (
@@ -891,7 +901,7 @@ _TERMS: tuple[_Term, ...] = (
         FORMAT_FACTOR,
         8,
         "Load factor on DC: the DC factor, or DC factor relieving where DC is negative "
-        "(LRFR); A1 (LFR 1.3, ASR 1).",
+        "(LRFR); A1 (LFR 1.3, ASR 1); 1 on a service check.",
         lambda r, v, k: r.k_gamma_dc[k],
     ),
     (
@@ -899,7 +909,8 @@ _TERMS: tuple[_Term, ...] = (
         "",
         FORMAT_VALUE,
         10,
-        "Wearing-surface dead-load effect in the rated sense.",
+        "Wearing-surface dead-load effect in the rated sense; on a service check the stress "
+        "fDW = M DW / S lt.",
         lambda r, v, k: r.k_dw[k],
     ),
     (
@@ -984,7 +995,8 @@ _TERMS: tuple[_Term, ...] = (
         "",
         FORMAT_VALUE,
         10,
-        "Live-load effect rated: (1 + IM) * LL axles + (1 + IM on lane) * LL lane.",
+        "Live-load effect rated: (1 + IM) * LL axles + (1 + IM on lane) * LL lane; on a "
+        "service check the stress fLL = M LL+IM / S st (LL axles and LL lane are stresses too).",
         lambda r, v, k: r.p_live[v, k],
     ),
     (
@@ -992,8 +1004,9 @@ _TERMS: tuple[_Term, ...] = (
         "",
         FORMAT_FACTOR,
         8,
-        "Live-load factor (design loads: inventory).",
-        lambda r, v, k: r.v_gamma[v],
+        "Live-load factor (design loads: inventory); on a service check the MBE's factor of the "
+        "limit state for the load's kind (blank: the manual does not check this kind there).",
+        lambda r, v, k: r.gamma(v, k),
     ),
     (
         "gamma LL from",
@@ -1002,15 +1015,16 @@ _TERMS: tuple[_Term, ...] = (
         30,
         "Where the live-load factor came from: the MBE table with the bridge's ADTT, the "
         "bridge's own factor, or the Settings.",
-        lambda r, v, k: _words(GAMMA_SOURCES, r.v_gamma_source[v]),
+        lambda r, v, k: _words(GAMMA_SOURCES, r.gamma_source(v, k)),
     ),
     (
         "gamma LL operating",
         "",
         FORMAT_FACTOR,
         9,
-        "Design loads: the operating-level live-load factor.",
-        lambda r, v, k: r.v_gamma_operating[v],
+        "Design loads: the operating-level live-load factor (blank at a service check with no "
+        "operating level).",
+        lambda r, v, k: r.gamma(v, k, operating=True),
     ),
     (
         "Load case",
@@ -1043,6 +1057,110 @@ _TERMS: tuple[_Term, ...] = (
         12,
         SPACING_MEANING,
         lambda r, v, k: r.p_spacing[v, k],
+    ),
+    # The service checks' own terms (blank on strength checks): see batch/rating/lrfr.py.
+    (
+        "fR from",
+        "",
+        "",
+        30,
+        "Service check: how the allowable stress C = fR was found: 0.95 Rh Fy (composite "
+        "steel: S lt or S st given) or 0.80 Rh Fy (non-composite), AASHTO LRFD 6.10.4.2.2; "
+        "0.9 fy (reinforced concrete); Allowable stress + Prestress stress (prestressed "
+        "concrete); or the Allowable stress given.",
+        lambda r, v, k: np.where(
+            r.k_fr_rule[k] >= 0, np.array(FR_RULES, dtype=np.str_)[r.k_fr_rule[k]], ""
+        ),
+    ),
+    (
+        "Fy",
+        "stress",
+        FORMAT_VALUE,
+        8,
+        "Service check: the Fy of the Capacities row (steel flange or reinforcement).",
+        lambda r, v, k: r.k_fy[k],
+    ),
+    (
+        "Rh",
+        "",
+        FORMAT_FACTOR,
+        6,
+        "Service check, steel: the hybrid factor Rh used.",
+        lambda r, v, k: r.k_rh[k],
+    ),
+    (
+        "Allowable stress",
+        "stress",
+        FORMAT_VALUE,
+        9,
+        "Service check: the Allowable stress of the Capacities row.",
+        lambda r, v, k: r.k_allowable[k],
+    ),
+    (
+        "Prestress stress",
+        "stress",
+        FORMAT_VALUE,
+        9,
+        "Service check, prestressed concrete: the effective prestress compression at the fibre.",
+        lambda r, v, k: r.k_prestress[k],
+    ),
+    (
+        "DC1 share",
+        "",
+        FORMAT_FACTOR,
+        7,
+        "Service check: the member's share s of DC on the non-composite section.",
+        lambda r, v, k: r.k_dc1_share[k],
+    ),
+    (
+        "M DC",
+        "moment",
+        FORMAT_VALUE,
+        10,
+        "Service check: the component dead-load moment in the checked sense.",
+        lambda r, v, k: r.k_m_dc[k],
+    ),
+    (
+        "M DW",
+        "moment",
+        FORMAT_VALUE,
+        10,
+        "Service check: the wearing-surface moment in the checked sense.",
+        lambda r, v, k: r.k_m_dw[k],
+    ),
+    (
+        "M LL+IM",
+        "moment",
+        FORMAT_VALUE,
+        10,
+        "Service check: the live-load moment (1 + IM) * axles + lane, DF included; fLL = "
+        "M LL+IM / S st.",
+        lambda r, v, k: r.p_live[v, k] / r.k_per_moment[k],
+    ),
+    (
+        "S nc",
+        "section_modulus",
+        FORMAT_VALUE,
+        9,
+        "Service check: section modulus of the non-composite section (for the DC1 share of DC).",
+        lambda r, v, k: r.k_s_nc[k],
+    ),
+    (
+        "S lt",
+        "section_modulus",
+        FORMAT_VALUE,
+        9,
+        "Service check: long-term composite section modulus used (for DC2 and DW).",
+        lambda r, v, k: r.k_s_lt[k],
+    ),
+    (
+        "S st",
+        "section_modulus",
+        FORMAT_VALUE,
+        9,
+        "Service check: short-term composite section modulus used (for LL+IM). A stress is "
+        "12 M / S (kip-ft and in3 to ksi) or 1e6 M / S (kN-m and mm3 to MPa).",
+        lambda r, v, k: r.k_s_st[k],
     ),
 )
 
@@ -1101,10 +1219,13 @@ def _unit_column(rows: Callable[[RatedMember], tuple[Any, Any]]) -> ResultColumn
 
     def values(b: RatedMember) -> list[object]:
         units = b.case.settings.unit_labels
-        return [
-            (units["moment"] if b.rating.k_effect[k] < 2 else units["force"]) if k >= 0 else None
-            for _, k in zip(*rows(b), strict=True)
-        ]
+
+        def unit(k: int) -> str:
+            if b.rating.k_limit_state[k] >= 0:
+                return units["stress"]
+            return units["moment"] if b.rating.k_effect[k] < 2 else units["force"]
+
+        return [unit(k) if k >= 0 else None for _, k in zip(*rows(b), strict=True)]
 
     return ResultColumn(
         header="Unit",
@@ -1112,7 +1233,8 @@ def _unit_column(rows: Callable[[RatedMember], tuple[Any, Any]]) -> ResultColumn
         values=values,
         text=True,
         meaning="Unit of the row's effects (phi Rn, C, DC, DW, LL axles, LL lane, LL+IM): the "
-        "moment unit for M+ and M-, the force unit for V+ and V-.",
+        "moment unit for M+ and M-, the force unit for V+ and V-, the stress unit on a service "
+        "check.",
     )
 
 
@@ -1237,7 +1359,10 @@ RATING_DETAIL: ResultTable[RatedMember] = ResultTable(
     purpose="One row per rated member, vehicle and check (a rated station and effect, in its "
     "sense): every term of the rating equation, so that each RF can be recomputed from its "
     "row alone: RF = (C used - gamma DC * DC - gamma DW * DW) / (gamma LL * (LL+IM)), with "
-    "C = (phi c phi s) * (phi Rn) and LL+IM = (1 + IM) * LL axles + (1 + IM on lane) * LL lane.",
+    "C = (phi c phi s) * (phi Rn) and LL+IM = (1 + IM) * LL axles + (1 + IM on lane) * LL lane; "
+    "on a service check (Limit state Service I, II or III) the same in stresses at the "
+    "checked fibre, C = fR, DC = s * M DC / S nc + (1 - s) * M DC / S lt, DW = M DW / S lt, "
+    "LL+IM = M LL+IM / S st.",
     blocks=_rated,
     rows=lambda result: result.rated.checks,
     wanted=lambda result: _n_rated(result) > 0,
