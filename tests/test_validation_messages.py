@@ -1106,6 +1106,159 @@ WORKBOOK_CASES = [
         },
         [],
     ),
+    # LRFR service limit states (batch/validating/service.py): S nc turns a row's check on.
+    (
+        "service-input-without-s-nc",
+        {
+            "members": [MC | {"Material": "steel"}],
+            "extra": {"Capacities": _sheet([*CAP, "Fy"], ["KV-0101 G1", 1, 0.5, 900, 50])},
+        },
+        [("Capacities", "E2", "service-without-s-nc", E)],
+    ),
+    (
+        "service-on-material-other",
+        {
+            "members": [MC],
+            "extra": {
+                "Capacities": _sheet([*CAP, "S nc", "Fy"], ["KV-0101 G1", 1, 0.5, 900, 600, 50])
+            },
+        },
+        [("Capacities", "E2", "service-no-material", E)],
+    ),
+    (
+        "service-on-an-lfr-member",
+        {
+            "members": [MC | {"Rating method": "LFR", "Material": "steel"}],
+            "extra": {
+                "Capacities": _sheet([*CAP, "S nc", "Fy"], ["KV-0101 G1", 1, 0.5, 900, 600, 50])
+            },
+        },
+        [("Capacities", "E2", "service-not-lrfr", E)],
+    ),
+    (
+        "steel-service-without-a-stress-limit",
+        {
+            "members": [MC | {"Material": "steel"}],
+            "extra": {"Capacities": _sheet([*CAP, "S nc", "Fy"], ["KV-0101 G1", 1, 0.5, 900, 600])},
+        },
+        [("Capacities", "F2", "service-no-limit", E)],
+    ),
+    (
+        "steel-service-with-two-stress-limits",
+        {
+            "members": [MC | {"Material": "steel"}],
+            "extra": {
+                "Capacities": _sheet(
+                    [*CAP, "S nc", "Fy", "Allowable stress"],
+                    ["KV-0101 G1", 1, 0.5, 900, 600, 50, 40],
+                )
+            },
+        },
+        [("Capacities", "G2", "service-two-limits", E)],
+    ),
+    (
+        "prestressed-service-without-its-stresses",
+        {
+            "members": [MC | {"Material": "prestressed concrete"}],
+            "extra": {
+                "Capacities": _sheet(
+                    [*CAP, "S nc", "Allowable stress", "Prestress stress"],
+                    ["KV-0101 G1", 1, 0.5, 900, 9000],
+                )
+            },
+        },
+        [
+            ("Capacities", "F2", "service-no-allowable", E),
+            ("Capacities", "G2", "service-no-prestress", E),
+        ],
+    ),
+    (
+        "prestressed-service-in-hogging-with-fy",
+        {
+            "members": [MC | {"Material": "prestressed concrete"}],
+            "extra": {
+                "Capacities": _sheet(
+                    [*CAP, "S nc", "Allowable stress", "Prestress stress", "Service effect", "Fy"],
+                    ["KV-0101 G1", 1, 0.5, 900, 9000, 0.465, 2.4, "M-", 60],
+                )
+            },
+        },
+        [
+            ("Capacities", "H2", "service-prestressed-hogging", E),
+            ("Capacities", "I2", "service-input-not-for-material", E),
+        ],
+    ),
+    (
+        "rh-on-reinforced-concrete",
+        {
+            "members": [MC | {"Material": "reinforced concrete"}],
+            "extra": {
+                "Capacities": _sheet(
+                    [*CAP, "S nc", "Fy", "Rh"], ["KV-0101 G1", 1, 0.5, 900, 900, 60, 0.9]
+                )
+            },
+        },
+        [("Capacities", "G2", "service-input-not-for-material", E)],
+    ),
+    (
+        "prestress-stress-on-steel",
+        {
+            "members": [MC | {"Material": "steel"}],
+            "extra": {
+                "Capacities": _sheet(
+                    [*CAP, "S nc", "Fy", "Prestress stress"],
+                    ["KV-0101 G1", 1, 0.5, 900, 600, 50, 1],
+                )
+            },
+        },
+        [("Capacities", "G2", "service-input-not-for-material", E)],
+    ),
+    (
+        "service-inputs-out-of-range",
+        {
+            "members": [MC | {"Material": "steel", "DC1 share": 1.5}],
+            "extra": {
+                "Capacities": _sheet(
+                    [*CAP, "S nc", "Fy", "Rh"], ["KV-0101 G1", 1, 0.5, 900, 0, 50, 1.2]
+                )
+            },
+        },
+        [
+            ("Capacities", "E2", "too-small", E),
+            ("Capacities", "G2", "too-large", E),
+            ("Members", "E2", "too-large", E),
+        ],
+    ),
+    (
+        "service-material-unknown",
+        {"members": [MC | {"Material": "aluminium"}]},
+        [("Members", "D2", "not-a-choice", E)],
+    ),
+    (
+        "service-section-modulus-in-the-other-units",
+        {
+            "members": [MC | {"Material": "steel"}],
+            "extra": {
+                "Capacities": _sheet(
+                    [*CAP, "S nc (mm3)", "Fy (ksi)"], ["KV-0101 G1", 1, 0.5, 900, 600, 50]
+                )
+            },
+        },
+        [("Capacities", "E1", "header-unit-mismatch", E)],
+    ),
+    (
+        "service-check-alone-composite-steel",
+        {
+            "members": [MC | {"Material": "steel", "DC1 share": 0.8}],
+            "extra": {
+                "Capacities": _sheet(
+                    ["Member", "Span", "Station", "S nc", "S lt", "S st", "Fy", "Rh"],
+                    ["KV-0101 G1", 1, 0.5, 600, 800, 1000, 50, 1],
+                )
+            },
+        },
+        [],
+    ),
 ]
 
 
