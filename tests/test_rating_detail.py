@@ -58,6 +58,9 @@ def test_every_rf_recomputed_from_its_row_alone(sheets) -> None:
     assert len(detail) > 40
     rated = 0
     for _, row in detail.iterrows():
+        if str(row["Limit state"]).startswith("Service"):
+            rated += _service_row_recomputed(row)
+            continue
         flexure = row["Effect"] in ("M+", "M-")
         phi = max(row["phi c"] * row["phi s"], 0.85) if flexure else row["phi c"]
         assert row["phi s"] == 1.0 or flexure
@@ -89,6 +92,45 @@ def test_every_rf_recomputed_from_its_row_alone(sheets) -> None:
     assert rated > 20
 
 
+def _cell(row: pd.Series, name: str) -> float:
+    """The cell of the column headed ``name`` (with its unit, if any)."""
+    return row[next(c for c in row.index if c == name or c.startswith(f"{name} ("))]
+
+
+def _service_row_recomputed(row: pd.Series) -> int:
+    """A service check's row, in stresses (ksi: 12 M / S; MPa: 1e6 M / S, exact units).
+
+    C = fR: 0.95 Rh Fy composite, 0.80 Rh Fy non-composite (AASHTO LRFD 6.10.4.2.2, from
+    memory), the allowable tension plus the prestress compression (prestressed); DC = s M DC /
+    S nc + (1 - s) M DC / S lt, DW = M DW / S lt, LL+IM = M LL+IM / S st; dead-load factors 1
+    (MBE Table 6A.4.2.2-1, from memory). Returns 1 where the row is rated.
+    """
+    per = {"ksi": 12.0, "MPa": 1e6}[row["Unit"]]
+    assert pd.isna(row["phi Rn"]) and row["C used"] == "C = fR"
+    assert row["gamma DC"] == row["gamma DW"] == 1.0
+    rule, fy, rh = row["fR from"], _cell(row, "Fy"), row["Rh"]
+    if rule.startswith("0.95 Rh Fy"):
+        assert _close(row["C"], 0.95 * rh * fy)
+    elif rule.startswith("0.80 Rh Fy"):
+        assert _close(row["C"], 0.80 * rh * fy)
+    elif rule.startswith("Allowable stress +"):
+        assert _close(row["C"], _cell(row, "Allowable stress") + _cell(row, "Prestress stress"))
+    share, m_dc, s_nc, s_lt = (_cell(row, n) for n in ("DC1 share", "M DC", "S nc", "S lt"))
+    assert _close(row["DC"], per * (share * m_dc / s_nc + (1 - share) * m_dc / s_lt))
+    assert _close(row["DW"], per * _cell(row, "M DW") / s_lt)
+    assert _close(row["LL+IM"], per * _cell(row, "M LL+IM") / _cell(row, "S st"))
+    if pd.isna(row["RF"]):
+        return 0
+    rf = (row["C"] - row["DC"] - row["DW"]) / (row["gamma LL"] * row["LL+IM"])
+    assert _close(row["RF"], rf)
+    if not pd.isna(row["RF operating"]):
+        assert _close(
+            row["RF operating"],
+            (row["C"] - row["DC"] - row["DW"]) / (row["gamma LL operating"] * row["LL+IM"]),
+        )
+    return 1
+
+
 def test_the_ratings_row_is_the_governing_detail_row(sheets) -> None:
     detail, ratings = sheets["Rating Detail"], sheets["Ratings"]
     governs = detail[detail["Governs"] == "yes"].set_index(["Member", "Vehicle"])
@@ -105,9 +147,17 @@ def test_the_ratings_row_is_the_governing_detail_row(sheets) -> None:
 def test_limit_states_and_one_lane_factors_follow_the_vehicle(sheets) -> None:
     detail = sheets["Rating Detail"]
     detail = detail[detail["Method"] == "LRFR"]
-    strength2 = detail["Category"] == "permit"
+    service = detail["Limit state"].str.startswith("Service")
+    strength2 = (detail["Category"] == "permit") & ~service
     assert set(detail.loc[strength2, "Limit state"]) == {"Strength II"}
-    assert set(detail.loc[~strength2, "Limit state"]) == {"Strength I"}
+    assert set(detail.loc[~strength2 & ~service, "Limit state"]) == {"Strength I"}
+    # Service checks by material (MBE Table 6A.4.2.2-1, from memory): their rows say which,
+    # and a kind the manual does not check there is not rated (blank RF).
+    assert set(detail.loc[service, "Limit state"]) <= {"Service I", "Service II", "Service III"}
+    unchecked = (
+        service & (detail["Limit state"] == "Service III") & (detail["Category"] == "permit")
+    )
+    assert detail.loc[unchecked, "RF"].isna().all()
     special = detail["Permit type"].isin(["single-trip escorted", "single-trip", "multiple-trip"])
     assert set(detail.loc[special, "DF lanes"]) <= {"one lane / 1.2"}
     assert set(detail.loc[~special, "DF lanes"]) == {"multi-lane"}

@@ -32,7 +32,7 @@ from tolerances import REL_TOL_EXACT
 from batch.engine.envelope import case_effects
 from batch.interface import run
 from batch.loads.fleet import fleet_cases
-from batch.model import Capacity, Case, Member, Settings, Vehicle
+from batch.model import Capacity, Case, Member, ServiceSection, Settings, Vehicle
 from batch.rating.lrfr import FR_RULES, RatingFactors, rate_member, stress_per_moment
 from batch.rating.traffic import GAMMA_SOURCES, LIMIT_STATES, vehicle_terms
 
@@ -46,17 +46,18 @@ M_LL = 0.6 * 1000.0 * (1 + IM)
 SHARE = 0.8
 
 
-def _member(material: str, **kw: object) -> Member:
-    return Member(
-        id="KV-0507 G1",
-        spans=(L,),
-        df_moment=0.6,
-        df_shear=0.6,
-        dc_load=1.0,
-        dw_load=0.2,
-        dc1_share=SHARE,
-        material=material,  # type: ignore[arg-type]
-        **kw,  # type: ignore[arg-type]
+MEMBER = Member(id="KV-0507 G1", spans=(L,), df_moment=0.6, df_shear=0.6, dc_load=1.0, dw_load=0.2)
+
+
+def _section(material: str, **kw: object) -> ServiceSection:
+    """A Service row at midspan (the DC1 share 0.8 unless given)."""
+    values: dict = {"dc1_share": SHARE} | kw
+    return ServiceSection(
+        member="KV-0507 G1",
+        span=1,
+        station=0.5,
+        material=material,
+        **values,  # type: ignore[arg-type]
     )
 
 
@@ -67,18 +68,20 @@ def _axle(category: str) -> Vehicle:
 VEHICLES = (_axle("design"), _axle("legal"), _axle("permit"))
 
 
-def _rate(member: Member, cap: Capacity, vehicles: tuple[Vehicle, ...] = VEHICLES):
+def _rate(section: ServiceSection | None, cap: Capacity | None = None, vehicles=VEHICLES):
+    """The rating of MEMBER with a Capacities row ``cap`` and a Service row ``section``."""
     cases = fleet_cases(vehicles, RUN)
-    effects = case_effects(member, cases, stations_per_span=10)
+    effects = case_effects(MEMBER, cases, stations_per_span=10)
     return rate_member(
-        member,
+        MEMBER,
         effects,
         cases,
-        [cap],
+        [] if cap is None else [cap],
         vehicle_terms(vehicles, None, RUN),
         tuple(v.category for v in vehicles),
         RatingFactors.of(RUN),
         (25.0,) * len(vehicles),
+        sections=[] if section is None else [section],
     )
 
 
@@ -109,10 +112,8 @@ def test_composite_steel_at_service_ii_by_hand() -> None:
     Strength I with Resistance M+ 5000 kip-ft: (5000 - 1.25 x 800 - 1.5 x 160) / (1.75 x 798)
     = 3760 / 1396.5 = 2.69245 > 2.40184, so Service II governs the design load.
     """
-    cap = dataclasses.replace(
-        MID, resistance_m_pos=5000.0, s_nc=600.0, s_lt=800.0, s_st=1000.0, fy=50.0
-    )
-    r = _rate(_member("steel"), cap)
+    steel = _section("steel", s_nc=600.0, s_lt=800.0, s_st=1000.0, fy=50.0)
+    r = _rate(steel, dataclasses.replace(MID, resistance_m_pos=5000.0))
     k = _service(r)
     assert LIMIT_STATES[r.k_limit_state[k]] == "Service II"
     assert FR_RULES[r.k_fr_rule[k]].startswith("0.95 Rh Fy")
@@ -145,8 +146,7 @@ def test_non_composite_steel_at_service_ii_by_hand() -> None:
     fD = 12 x 960 / 600 = 19.2 ksi; fLL = 12 x 798 / 600 = 15.96 ksi;
     inventory RF = (38 - 19.2) / (1.30 x 15.96) = 18.8 / 20.748 = 0.906111.
     """
-    cap = dataclasses.replace(MID, s_nc=600.0, fy=50.0, rh=0.95)
-    r = _rate(_member("steel"), cap)
+    r = _rate(_section("steel", s_nc=600.0, fy=50.0, rh=0.95))
     k = _service(r)
     assert r.k_effect.size == 1  # a service check alone: no strength resistance given
     assert FR_RULES[r.k_fr_rule[k]].startswith("0.80 Rh Fy")
@@ -168,15 +168,15 @@ def test_prestressed_at_service_iii_by_hand() -> None:
     Service III (RF blank), nor the operating level.
     With refined losses and elastic gains the inventory factor is 1.0: 2.412385.
     """
-    cap = dataclasses.replace(
-        MID,
+    cap = _section(
+        "prestressed concrete",
         s_nc=10000.0,
         s_lt=12000.0,
         s_st=13000.0,
         allowable_stress=0.465,
         prestress_stress=2.4,
     )
-    r = _rate(_member("prestressed concrete"), cap)
+    r = _rate(cap)
     k = _service(r)
     assert LIMIT_STATES[r.k_limit_state[k]] == "Service III"
     assert r.k_capacity[k] == pytest.approx(2.865, rel=REL_TOL_EXACT)
@@ -187,9 +187,7 @@ def test_prestressed_at_service_iii_by_hand() -> None:
     assert r.p_rf[1, k] == pytest.approx(1.777 / fll, rel=REL_TOL_EXACT)
     assert np.isinf(r.p_rf[2, k]) and np.isinf(r.rf[2])
     assert np.isinf(r.p_rf_operating[0, k])
-    refined = _rate(
-        _member("prestressed concrete", prestress_losses="refined with elastic gains"), cap
-    )
+    refined = _rate(dataclasses.replace(cap, prestress_losses="refined with elastic gains"))
     assert refined.rf[0] == pytest.approx(1.777 / fll, rel=REL_TOL_EXACT)
     assert "refined" in GAMMA_SOURCES[refined.k_gamma_source[k, 0]]
 
@@ -202,8 +200,7 @@ def test_reinforced_concrete_at_service_i_under_permits_by_hand() -> None:
     900 = 10.64 ksi; permit RF = (54 - 12.8) / (1.00 x 10.64) = 3.872180. Design and legal
     loads are not checked at Service I.
     """
-    cap = dataclasses.replace(MID, s_nc=900.0, fy=60.0)
-    r = _rate(_member("reinforced concrete"), cap)
+    r = _rate(_section("reinforced concrete", s_nc=900.0, fy=60.0))
     k = _service(r)
     assert LIMIT_STATES[r.k_limit_state[k]] == "Service I"
     assert r.k_capacity[k] == pytest.approx(54.0, rel=REL_TOL_EXACT)
@@ -213,23 +210,42 @@ def test_reinforced_concrete_at_service_i_under_permits_by_hand() -> None:
 
 def test_the_engineers_allowable_stress_replaces_the_computed_limit() -> None:
     # Steel with its own limit 40 ksi (e.g. reduced for flange lateral bending): fR = 40.
-    cap = dataclasses.replace(MID, s_nc=600.0, s_st=1000.0, allowable_stress=40.0)
-    r = _rate(_member("steel"), cap)
+    r = _rate(_section("steel", s_nc=600.0, s_st=1000.0, allowable_stress=40.0))
     k = _service(r)
     assert r.k_capacity[k] == 40.0
     assert FR_RULES[r.k_fr_rule[k]] == "Allowable stress, as given"
 
 
-def test_without_the_service_columns_an_lrfr_rating_is_todays() -> None:
-    # No S nc: the strength checks alone, the same numbers whatever the Material.
+def test_a_capacities_row_typed_dead_load_moment_is_used_at_its_station() -> None:
+    """DC M 900 and DW M 150 typed on the Capacities row at the same station (docs/rating.md).
+
+    S nc = S lt = S st = 600 in3 (non-composite): fDC = 12 x 900 / 600 = 18 ksi, fDW = 12 x
+    150 / 600 = 3 ksi.
+    """
+    cap = dataclasses.replace(MID, resistance_m_pos=5000.0, dc_m=900.0, dw_m=150.0)
+    r = _rate(_section("steel", s_nc=600.0, fy=50.0), cap)
+    k = _service(r)
+    assert (r.k_m_dc[k], r.k_m_dw[k]) == (900.0, 150.0)
+    assert r.k_dc[k] == pytest.approx(18.0, rel=REL_TOL_EXACT)
+    assert r.k_dw[k] == pytest.approx(3.0, rel=REL_TOL_EXACT)
+    assert r.k_dead_given[k]
+
+
+def test_without_a_service_sheet_an_lrfr_rating_is_todays() -> None:
+    # No Service rows: the strength checks alone, as before service checks existed; and
+    # with one, the strength checks keep their numbers (the service check only adds).
     cap = dataclasses.replace(MID, resistance_m_pos=5000.0, resistance_v=300.0)
-    today = _rate(_member("other"), cap)
-    for material in ("steel", "prestressed concrete", "reinforced concrete"):
-        r = _rate(_member(material), cap)
-        assert (r.k_limit_state < 0).all()
-        np.testing.assert_array_equal(r.p_rf, today.p_rf)
-        np.testing.assert_array_equal(r.rf, today.rf)
-        np.testing.assert_array_equal(r.rf_operating, today.rf_operating)
+    today = _rate(None, cap)
+    assert (today.k_limit_state < 0).all()
+    r = _rate(_section("steel", s_nc=600.0, fy=50.0), cap)
+    strength = r.k_limit_state < 0
+    np.testing.assert_array_equal(r.p_rf[:, strength], today.p_rf)
+    np.testing.assert_array_equal(r.p_rf_operating[:, strength], today.p_rf_operating)
+    # A run of a case without a Service sheet: no service check anywhere.
+    case = Case(members=(MEMBER,), vehicles=VEHICLES, capacities=(cap,))
+    (a,) = run(case, jobs=1).result.assessments
+    assert a.rating is not None
+    np.testing.assert_array_equal(a.rating.rf, today.rf)
 
 
 def test_the_rating_detail_sheet_shows_every_service_term() -> None:
@@ -240,10 +256,12 @@ def test_the_rating_detail_sheet_shows_every_service_term() -> None:
     x LL+IM) with DC = 12 x (s M DC / S nc + (1 - s) M DC / S lt), DW = 12 M DW / S lt,
     LL+IM = 12 M LL+IM / S st.
     """
-    cap = dataclasses.replace(
-        MID, resistance_m_pos=5000.0, s_nc=600.0, s_lt=800.0, s_st=1000.0, fy=50.0
+    case = Case(
+        members=(MEMBER,),
+        vehicles=VEHICLES,
+        capacities=(dataclasses.replace(MID, resistance_m_pos=5000.0),),
+        service=(_section("steel", s_nc=600.0, s_lt=800.0, s_st=1000.0, fy=50.0),),
     )
-    case = Case(members=(_member("steel"),), vehicles=VEHICLES, capacities=(cap,))
     results = run(case, jobs=1)
     detail = results.frame("Rating Detail")
     row = detail[(detail["Limit state"] == "Service II") & (detail["Category"] == "design")]

@@ -57,6 +57,7 @@ from batch.validating import read_input
 M = {"Member": "KV-0101 G1", "Spans": 60}
 MC = M | {"DC load": 1.1}  # a member with a dead load, as rating needs
 CAP = ["Member", "Span", "Station", "Resistance M+"]
+SVC = ["Member", "Span", "Station", "Material", "S nc", "Fy"]
 SEG = ["Member", "From", "To", "EI"]
 CAPX = ["Member", "Span", "x", "Resistance M+"]
 V = {"Vehicle": "KV-T3", "Axle loads": "10, 30, 30", "Axle spacings": "14, 16"}
@@ -1106,154 +1107,181 @@ WORKBOOK_CASES = [
         },
         [],
     ),
-    # LRFR service limit states (batch/validating/service.py): S nc turns a row's check on.
+    # The Service sheet (LRFR service limit states, batch/validating/service.py).
     (
-        "service-input-without-s-nc",
-        {
-            "members": [MC | {"Material": "steel"}],
-            "extra": {"Capacities": _sheet([*CAP, "Fy"], ["KV-0101 G1", 1, 0.5, 900, 50])},
-        },
-        [("Capacities", "E2", "service-without-s-nc", E)],
-    ),
-    (
-        "service-on-material-other",
+        "service-row-of-an-unknown-member",
         {
             "members": [MC],
-            "extra": {
-                "Capacities": _sheet([*CAP, "S nc", "Fy"], ["KV-0101 G1", 1, 0.5, 900, 600, 50])
-            },
+            "extra": {"Service": _sheet(SVC, ["KV-0999 G1", 1, 0.5, "steel", 600, 50])},
         },
-        [("Capacities", "E2", "service-no-material", E)],
+        [("Service", "A2", "unknown-member", E)],
+    ),
+    (
+        "service-row-without-a-section",
+        {
+            "members": [MC],
+            "extra": {"Service": _sheet(SVC, ["KV-0101 G1", 1, None, "steel", 600, 50])},
+        },
+        [("Service", "C2", "no-section", E)],
+    ),
+    (
+        "service-row-without-material-or-s-nc",
+        {
+            "members": [MC],
+            "extra": {"Service": _sheet(SVC, ["KV-0101 G1", 1, 0.5, None, None, 50])},
+        },
+        [("Service", "D2", "missing-value", E), ("Service", "E2", "missing-value", E)],
     ),
     (
         "service-on-an-lfr-member",
         {
-            "members": [MC | {"Rating method": "LFR", "Material": "steel"}],
+            "members": [MC | {"Rating method": "LFR"}],
+            "extra": {"Service": _sheet(SVC, ["KV-0101 G1", 1, 0.5, "steel", 600, 50])},
+        },
+        [("Service", "A2", "service-not-lrfr", E)],
+    ),
+    (
+        "service-two-materials-on-one-member",
+        {
+            "members": [MC],
             "extra": {
-                "Capacities": _sheet([*CAP, "S nc", "Fy"], ["KV-0101 G1", 1, 0.5, 900, 600, 50])
+                "Service": _sheet(
+                    SVC,
+                    ["KV-0101 G1", 1, 0.5, "steel", 600, 50],
+                    ["KV-0101 G1", 1, 0.3, "reinforced concrete", 600, 60],
+                )
             },
         },
-        [("Capacities", "E2", "service-not-lrfr", E)],
+        [("Service", "D3", "service-two-materials", E)],
+    ),
+    (
+        "service-station-twice",
+        {
+            "members": [MC],
+            "extra": {
+                "Service": _sheet(
+                    SVC,
+                    ["KV-0101 G1", 1, 0.5, "steel", 600, 50],
+                    ["KV-0101 G1", 1, 0.5, "steel", 700, 50],
+                )
+            },
+        },
+        [("Service", "A3", "duplicate-capacity", E)],
     ),
     (
         "steel-service-without-a-stress-limit",
-        {
-            "members": [MC | {"Material": "steel"}],
-            "extra": {"Capacities": _sheet([*CAP, "S nc", "Fy"], ["KV-0101 G1", 1, 0.5, 900, 600])},
-        },
-        [("Capacities", "F2", "service-no-limit", E)],
+        {"members": [MC], "extra": {"Service": _sheet(SVC, ["KV-0101 G1", 1, 0.5, "steel", 600])}},
+        [("Service", "F2", "service-no-limit", E)],
     ),
     (
         "steel-service-with-two-stress-limits",
         {
-            "members": [MC | {"Material": "steel"}],
+            "members": [MC],
             "extra": {
-                "Capacities": _sheet(
-                    [*CAP, "S nc", "Fy", "Allowable stress"],
-                    ["KV-0101 G1", 1, 0.5, 900, 600, 50, 40],
+                "Service": _sheet(
+                    [*SVC, "Allowable stress"], ["KV-0101 G1", 1, 0.5, "steel", 600, 50, 40]
                 )
             },
         },
-        [("Capacities", "G2", "service-two-limits", E)],
+        [("Service", "G2", "service-two-limits", E)],
     ),
     (
         "prestressed-service-without-its-stresses",
         {
-            "members": [MC | {"Material": "prestressed concrete"}],
+            "members": [MC],
             "extra": {
-                "Capacities": _sheet(
-                    [*CAP, "S nc", "Allowable stress", "Prestress stress"],
-                    ["KV-0101 G1", 1, 0.5, 900, 9000],
+                "Service": _sheet(
+                    [*SVC[:5], "Allowable stress", "Prestress stress"],
+                    ["KV-0101 G1", 1, 0.5, "prestressed concrete", 9000],
                 )
             },
         },
         [
-            ("Capacities", "F2", "service-no-allowable", E),
-            ("Capacities", "G2", "service-no-prestress", E),
+            ("Service", "F2", "service-no-allowable", E),
+            ("Service", "G2", "service-no-prestress", E),
         ],
     ),
     (
         "prestressed-service-in-hogging-with-fy",
         {
-            "members": [MC | {"Material": "prestressed concrete"}],
+            "members": [MC],
             "extra": {
-                "Capacities": _sheet(
-                    [*CAP, "S nc", "Allowable stress", "Prestress stress", "Service effect", "Fy"],
-                    ["KV-0101 G1", 1, 0.5, 900, 9000, 0.465, 2.4, "M-", 60],
+                "Service": _sheet(
+                    [*SVC, "Allowable stress", "Prestress stress", "Service effect"],
+                    ["KV-0101 G1", 1, 0.5, "prestressed concrete", 9000, 60, 0.465, 2.4, "M-"],
                 )
             },
         },
         [
-            ("Capacities", "H2", "service-prestressed-hogging", E),
-            ("Capacities", "I2", "service-input-not-for-material", E),
+            ("Service", "F2", "service-input-not-for-material", E),
+            ("Service", "I2", "service-prestressed-hogging", E),
         ],
     ),
     (
-        "rh-on-reinforced-concrete",
+        "rh-and-prestress-on-reinforced-concrete",
         {
-            "members": [MC | {"Material": "reinforced concrete"}],
+            "members": [MC],
             "extra": {
-                "Capacities": _sheet(
-                    [*CAP, "S nc", "Fy", "Rh"], ["KV-0101 G1", 1, 0.5, 900, 900, 60, 0.9]
+                "Service": _sheet(
+                    [*SVC, "Rh", "Prestress stress", "Prestress losses"],
+                    [
+                        "KV-0101 G1",
+                        1,
+                        0.5,
+                        "reinforced concrete",
+                        900,
+                        60,
+                        0.9,
+                        1,
+                        "refined with elastic gains",
+                    ],
                 )
             },
         },
-        [("Capacities", "G2", "service-input-not-for-material", E)],
-    ),
-    (
-        "prestress-stress-on-steel",
-        {
-            "members": [MC | {"Material": "steel"}],
-            "extra": {
-                "Capacities": _sheet(
-                    [*CAP, "S nc", "Fy", "Prestress stress"],
-                    ["KV-0101 G1", 1, 0.5, 900, 600, 50, 1],
-                )
-            },
-        },
-        [("Capacities", "G2", "service-input-not-for-material", E)],
+        [
+            ("Service", "G2", "service-input-not-for-material", E),
+            ("Service", "H2", "service-input-not-for-material", E),
+            ("Service", "I2", "service-input-not-for-material", E),
+        ],
     ),
     (
         "service-inputs-out-of-range",
         {
-            "members": [MC | {"Material": "steel", "DC1 share": 1.5}],
+            "members": [MC],
             "extra": {
-                "Capacities": _sheet(
-                    [*CAP, "S nc", "Fy", "Rh"], ["KV-0101 G1", 1, 0.5, 900, 0, 50, 1.2]
+                "Service": _sheet(
+                    [*SVC, "Rh", "DC1 share"],
+                    ["KV-0101 G1", 1, 0.5, "aluminium", 0, 50, 1.2, 1.5],
                 )
             },
         },
         [
-            ("Capacities", "E2", "too-small", E),
-            ("Capacities", "G2", "too-large", E),
-            ("Members", "E2", "too-large", E),
+            ("Service", "D2", "not-a-choice", E),
+            ("Service", "E2", "too-small", E),
+            ("Service", "G2", "too-large", E),
+            ("Service", "H2", "too-large", E),
         ],
-    ),
-    (
-        "service-material-unknown",
-        {"members": [MC | {"Material": "aluminium"}]},
-        [("Members", "D2", "not-a-choice", E)],
     ),
     (
         "service-section-modulus-in-the-other-units",
         {
-            "members": [MC | {"Material": "steel"}],
+            "members": [MC],
             "extra": {
-                "Capacities": _sheet(
-                    [*CAP, "S nc (mm3)", "Fy (ksi)"], ["KV-0101 G1", 1, 0.5, 900, 600, 50]
+                "Service": _sheet(
+                    [*SVC[:4], "S nc (mm3)", "Fy (ksi)"], ["KV-0101 G1", 1, 0.5, "steel", 600, 50]
                 )
             },
         },
-        [("Capacities", "E1", "header-unit-mismatch", E)],
+        [("Service", "E1", "header-unit-mismatch", E)],
     ),
     (
         "service-check-alone-composite-steel",
         {
-            "members": [MC | {"Material": "steel", "DC1 share": 0.8}],
+            "members": [MC],
             "extra": {
-                "Capacities": _sheet(
-                    ["Member", "Span", "Station", "S nc", "S lt", "S st", "Fy", "Rh"],
-                    ["KV-0101 G1", 1, 0.5, 600, 800, 1000, 50, 1],
+                "Service": _sheet(
+                    [*SVC, "S lt", "S st", "Rh", "DC1 share"],
+                    ["KV-0101 G1", 1, 0.5, "steel", 600, 50, 800, 1000, 1, 0.8],
                 )
             },
         },

@@ -38,6 +38,7 @@ from batch.model import (
     PermitType,
     RatingMethod,
     Segment,
+    ServiceSection,
     Settings,
     Spacing,
     Vehicle,
@@ -244,6 +245,12 @@ _US_MEMBERS = (
     _member("KV-0120 G1", (45.0,),
             "Rook Lane bridge (1948), steel stringer 1: rated by allowable stress (ASR)",
             df=(0.6, 0.7), dead=(0.75, 0.1), bridge="KV-0120", method="ASR"),
+    # LRFR service limit states (the Service sheet): a composite steel plate girder and a
+    # prestressed girder.
+    _member("KV-0527 G2", (90.0,), "Marten Creek bridge, composite plate girder 2",
+            df=(0.66, 0.72), dead=(1.18, 0.19), bridge="KV-0527", one_lane=(0.48, 0.62)),
+    _member("KV-0531 G4", (100.0,), "Gannet Road overpass, prestressed girder 4",
+            df=(0.62, 0.7), dead=(1.32, 0.2), bridge="KV-0531", one_lane=(0.45, 0.6)),
 )  # fmt: skip
 
 _US_VEHICLES = (
@@ -313,6 +320,24 @@ _US_CAPACITIES = (
     Capacity(member="KV-0120 G1", span=1, station=0.0, resistance_v=95.0, operating_v=130.0),
     Capacity(member="KV-0120 G1", span=1, station=0.5, resistance_m_pos=600.0,
              operating_m_pos=820.0),
+    *_capacities("KV-0527 G2", (1, 0.0, None, None, 330.0), (1, 0.5, 5600.0, None, None)),
+    *_capacities("KV-0531 G4", (1, 0.0, None, None, 360.0), (1, 0.5, 6200.0, None, None)),
+)  # fmt: skip
+
+# Invented sections for the LRFR service limit states (the Service sheet): section moduli in
+# in3 at the checked fibre (non-composite, slab at 3n, slab at n) and stresses in ksi; DC1
+# share: girder, deck and haunch on the bare girder, the rest on the composite section.
+_US_SERVICE = (
+    # Service II: the bottom flange at midspan, Fyf 50 ksi; composite, so fR = 0.95 Rh Fyf
+    # (AASHTO LRFD 6.10.4.2.2).
+    ServiceSection(member="KV-0527 G2", span=1, station=0.5, material="steel", dc1_share=0.85,
+                   s_nc=820.0, s_lt=1010.0, s_st=1110.0, fy=50.0),
+    # Service III: the bottom fibre at midspan, allowable tension 0.19 sqrt(6) = 0.465 ksi for
+    # f'c 6 ksi (AASHTO LRFD Table 5.9.2.3.2b-1) and the effective prestress's compression
+    # there, 3.10 ksi.
+    ServiceSection(member="KV-0531 G4", span=1, station=0.5, material="prestressed concrete",
+                   dc1_share=0.88, s_nc=11200.0, s_lt=13600.0, s_st=14900.0,
+                   allowable_stress=0.465, prestress_stress=3.10),
 )  # fmt: skip
 
 # Invented traffic: each rated bridge has its own ADTT (one direction) and riding surface,
@@ -332,6 +357,10 @@ _US_BRIDGES = (
     Bridge(id="KV-0118", adtt=400.0, riding_surface="major deviations",
            description="Alder Creek bridge, 1961"),
     Bridge(id="KV-0120", adtt=90.0, description="Rook Lane bridge, 1948"),
+    Bridge(id="KV-0527", adtt=1800.0, riding_surface="smooth",
+           description="Marten Creek bridge: composite steel plate girders"),
+    Bridge(id="KV-0531", adtt=3500.0, riding_surface="minor deviations",
+           description="Gannet Road overpass: prestressed concrete girders"),
 )  # fmt: skip
 
 #: The main demo inventory, US units; KVHA-D1 (design truck and lane) is the screening
@@ -348,6 +377,7 @@ KVHA_INVENTORY = Case(
     vehicles=_US_VEHICLES,
     capacities=_US_CAPACITIES,
     bridges=_US_BRIDGES,
+    service=_US_SERVICE,
 )
 
 #: A small metric demo, SI units (kN, m, kN/m).

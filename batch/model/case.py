@@ -52,10 +52,10 @@ PermitType = Literal["routine", "single-trip escorted", "single-trip", "multiple
 #: stress rating (Section 6B).
 RatingMethod = Literal["LRFR", "LFR", "ASR"]
 RATING_METHODS: tuple[RatingMethod, ...] = get_args(RatingMethod)
-#: A member's material, which decides the LRFR service limit state it is checked at (MBE
-#: Table 6A.4.2.2-1): Service II for steel, Service III for prestressed concrete, Service I
-#: (permits) for reinforced concrete; "other": strength only.
-Material = Literal["other", "steel", "prestressed concrete", "reinforced concrete"]
+#: The material of a member checked at a service limit state, which decides the LRFR limit
+#: state (MBE Table 6A.4.2.2-1): Service II for steel, Service III for prestressed concrete,
+#: Service I (permits) for reinforced concrete.
+Material = Literal["steel", "prestressed concrete", "reinforced concrete"]
 MATERIALS: tuple[Material, ...] = get_args(Material)
 #: How a prestressed member's losses were estimated, which sets its Service III inventory
 #: live-load factor (MBE Table 6A.4.2.2-2, added by the 3rd edition's errata).
@@ -810,37 +810,6 @@ class Member:
         "6B). LFR and ASR take the Standard Specifications' impact 50/(L + 125) at each "
         "effect's loaded length; the Capacities row gives their capacities.",
     )
-    # LRFR service limit states: the material and the dead load on each section.
-    material: Material = column(
-        "Material",
-        "choice",
-        default="other",
-        choices=MATERIALS,
-        meaning="LRFR members: steel (checked at Service II), prestressed concrete (Service "
-        "III) or reinforced concrete (Service I, permits), at the Capacities rows that give S "
-        "nc; other (default): rated at the strength limit states only (MBE Table 6A.4.2.2-1).",
-    )
-    dc1_share: float = column(
-        "DC1 share",
-        "number",
-        default=1.0,
-        minimum=0.0,
-        maximum=1.0,
-        meaning="Service checks: the share of the component dead load DC carried by the "
-        "non-composite section (DC1: girder, deck and haunch cast on the bare girder); the rest "
-        "(DC2, e.g. barriers) and DW act on the long-term composite section. Default 1: all DC "
-        "on the non-composite section.",
-    )
-    prestress_losses: PrestressLosses = column(
-        "Prestress losses",
-        "choice",
-        default="approximate",
-        choices=PRESTRESS_LOSSES,
-        meaning="Prestressed concrete: refined with elastic gains where the Prestress stress "
-        "comes from refined time-dependent losses (AASHTO LRFD 5.9.3.4) with the elastic gains "
-        "taken: Service III then takes the inventory LL factor 1.0, else 0.8 (MBE Table "
-        "6A.4.2.2-2).",
-    )
     # As built: filled in from the Segments and Analysis sheets (not columns of Members).
     segments: tuple[Segment, ...] = ()
     analysis: Analysis | None = None
@@ -1202,7 +1171,67 @@ class Capacity:
         "station exactly there.",
     )
 
-    # LRFR service limit states: the section at this station and its allowable stress.
+    def section(self, spans: Sequence[float]) -> Section | None:
+        """The station this row names on a member of ``spans`` (None: no point of it)."""
+        return section_of(spans, self.span, self.station, self.x)
+
+
+@dataclass(frozen=True, kw_only=True)
+class ServiceSection:
+    """One row of the Service sheet: a station of a member checked at an LRFR service limit state.
+
+    The station as on Capacities (``span`` and ``station``, or ``x``). ``material``
+    decides the limit state (Service II steel, III prestressed, I reinforced
+    concrete); the row is checked in the moment sense ``service_effect`` with the
+    section moduli ``s_nc``, ``s_lt``, ``s_st`` (in3 or mm3, at the checked fibre)
+    against the allowable stress from ``fy``, ``rh``, ``allowable_stress`` and
+    ``prestress_stress`` (ksi or MPa); ``dc1_share`` is the part of DC on the
+    non-composite section. See :mod:`batch.rating.lrfr`.
+    """
+
+    member: str = column(
+        "Member",
+        "id",
+        required=True,
+        meaning="Id of a member listed on the Members sheet, rated by LRFR.",
+        example=_EXAMPLE_MEMBER,
+    )
+    span: int | None = column(
+        "Span",
+        "number",
+        default=None,
+        whole=True,
+        minimum=1,
+        meaning="Span number, from 1 at the member's left end (as on Capacities).",
+        example=1,
+    )
+    station: float | None = column(
+        "Station",
+        "number",
+        default=None,
+        minimum=0.0,
+        maximum=1.0,
+        meaning="Fraction of the span (0 to 1), as on Capacities. Give Span and Station, or x.",
+        example=0.5,
+    )
+    x: float | None = column(
+        "x",
+        "number",
+        default=None,
+        quantity="length",
+        minimum=0.0,
+        meaning="Instead of Station: the section's distance from the member's left end.",
+    )
+    material: Material = column(
+        "Material",
+        "choice",
+        required=True,
+        choices=MATERIALS,
+        meaning="The member's material, which names its service check (MBE Table "
+        "6A.4.2.2-1): steel at Service II, prestressed concrete at Service III, reinforced "
+        "concrete at Service I (permits only). One material per member.",
+        example="steel",
+    )
     service_effect: ServiceEffect = column(
         "Service effect",
         "choice",
@@ -1211,16 +1240,16 @@ class Capacity:
         meaning="The moment sense the service stresses below are checked in: M+ (sagging, the "
         "default) or M- (hogging; steel and reinforced concrete only).",
     )
-    s_nc: float | None = column(
+    s_nc: float = column(
         "S nc",
         "number",
-        default=None,
+        required=True,
         quantity="section_modulus",
         above=0.0,
-        meaning="Section modulus of the non-composite section at the checked fibre (the "
-        "flange of a steel girder, the bottom of a prestressed girder, the reinforcement of "
-        "a reinforced concrete section as I/(n*c)). Given: the member's Material is checked "
-        "at its service limit state here (LRFR); blank: strength only.",
+        meaning="Section modulus of the non-composite section at the checked fibre: the "
+        "flange of a steel girder, the bottom of a prestressed girder, or for reinforced "
+        "concrete I_cr/(n*c) at the reinforcement (so that M/S is the steel stress).",
+        example=820,
     )
     s_lt: float | None = column(
         "S lt",
@@ -1249,6 +1278,7 @@ class Capacity:
         meaning="Steel: the yield strength Fyf of the checked flange (limit 0.95 Rh Fyf "
         "composite, 0.80 Rh Fyf non-composite, AASHTO LRFD 6.10.4.2.2); reinforced concrete: "
         "fy of the reinforcement (limit 0.9 fy). Or give Allowable stress instead.",
+        example=50,
     )
     rh: float | None = column(
         "Rh",
@@ -1278,6 +1308,28 @@ class Capacity:
         "gives at the checked fibre, a positive magnitude; it adds to the allowable tension.",
     )
 
+    dc1_share: float = column(
+        "DC1 share",
+        "number",
+        default=1.0,
+        minimum=0.0,
+        maximum=1.0,
+        meaning="The share of the component dead load DC (the member's DC load, or DC M on "
+        "Capacities) carried by the non-composite section (DC1: girder, deck and haunch cast "
+        "on the bare girder); the rest (DC2, e.g. barriers) and DW act on the long-term "
+        "composite section. Default 1: all DC on the non-composite section.",
+    )
+    prestress_losses: PrestressLosses = column(
+        "Prestress losses",
+        "choice",
+        default="approximate",
+        choices=PRESTRESS_LOSSES,
+        meaning="Prestressed concrete: refined with elastic gains where the Prestress stress "
+        "comes from refined time-dependent losses (AASHTO LRFD 5.9.3.4) with the elastic gains "
+        "taken: Service III then takes the inventory LL factor 1.0, else 0.8 (MBE Table "
+        "6A.4.2.2-2).",
+    )
+
     def section(self, spans: Sequence[float]) -> Section | None:
         """The station this row names on a member of ``spans`` (None: no point of it)."""
         return section_of(spans, self.span, self.station, self.x)
@@ -1292,3 +1344,9 @@ class Case:
     vehicles: tuple[Vehicle, ...] = ()
     capacities: tuple[Capacity, ...] = ()
     bridges: tuple[Bridge, ...] = ()
+    service: tuple[ServiceSection, ...] = ()
+
+    @property
+    def rates(self) -> bool:
+        """Whether the run rates anything: Capacities rows or Service rows."""
+        return bool(self.capacities or self.service)

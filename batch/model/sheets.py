@@ -15,6 +15,9 @@ from batch.model.case import (
     GirderLayout,
     Member,
     Segment,
+    Member,
+    Segment,
+    ServiceSection,
     Settings,
     Vehicle,
 )
@@ -28,6 +31,7 @@ __all__ = [
     "LAYOUT",
     "MEMBERS",
     "SEGMENTS",
+    "SERVICE",
     "SETTINGS",
     "SETTING_ROWS",
     "TABLE_SHEETS",
@@ -104,6 +108,15 @@ CAPACITIES = InputSheet(
     columns=columns_of(Capacity),
 )
 
+SERVICE = InputSheet(
+    name="Service",
+    key="service",
+    purpose="Optional: one row per member and station checked at an LRFR service limit "
+    "state (steel Service II, prestressed concrete Service III, reinforced concrete Service "
+    "I under permits): the section at the checked fibre and its allowable stress.",
+    columns=columns_of(ServiceSection),
+)
+
 BRIDGES = InputSheet(
     name="Bridges",
     key="bridges",
@@ -120,9 +133,10 @@ TABLE_SHEETS: tuple[InputSheet, ...] = (
     LAYOUT,
     VEHICLES,
     CAPACITIES,
+    SERVICE,
     BRIDGES,
 )
 
-#: The sheets a run reads, in workbook order (Segments, Analysis, Capacities and Bridges are
-#: optional).
+#: The sheets a run reads, in workbook order (Segments, Analysis, Capacities, Service and
+#: Bridges are optional).
 INPUT_SHEETS: tuple[InputSheet, ...] = (SETTINGS, *TABLE_SHEETS)

@@ -16,7 +16,7 @@ from dataclasses import dataclass, field
 from batch.engine.envelope import CaseEffects, case_effects
 from batch.loads.cases import ImpactFormula, LoadCase
 from batch.loads.factors import STANDARD_SPECIFICATIONS_IMPACT
-from batch.model import Capacity, Case, Category, Member
+from batch.model import Capacity, Case, Category, Member, ServiceSection
 from batch.model.layout import Section
 from batch.model.units import UnitSystem, conversion
 from batch.rating.lrfr import (
@@ -49,7 +49,8 @@ class BridgeTerms:
 class AssessmentPlan:
     """What to rate and screen in a run, the same for every member.
 
-    ``capacities`` holds each rated member's Capacities rows by member id;
+    ``capacities`` holds each rated member's Capacities rows by member id, ``service``
+    its Service rows;
     ``bridges`` the factors of each bridge by id ("" for members with no bridge);
     ``reference`` is the screening reference: a vehicle index, the load cases
     of a library model, or None for no screening. ``weights`` are the vehicles'
@@ -64,6 +65,7 @@ class AssessmentPlan:
     directions: str
     bridges: dict[str, BridgeTerms] = field(default_factory=dict)
     capacities: dict[str, tuple[Capacity, ...]] = field(default_factory=dict)
+    service: dict[str, tuple[ServiceSection, ...]] = field(default_factory=dict)
     reference: int | tuple[LoadCase, ...] | None = None
     floor: float = 0.1
     impact: ImpactFormula = STANDARD_SPECIFICATIONS_IMPACT
@@ -73,11 +75,14 @@ class AssessmentPlan:
     def of(cls, case: Case) -> AssessmentPlan | None:
         """The plan of a case; None when it has neither capacities nor a reference."""
         reference = reference_of(case)
-        if not case.capacities and reference is None:
+        if not case.rates and reference is None:
             return None
         capacities: dict[str, list[Capacity]] = {}
         for row in case.capacities:
             capacities.setdefault(row.member, []).append(row)
+        service: dict[str, list[ServiceSection]] = {}
+        for section in case.service:
+            service.setdefault(section.member, []).append(section)
         settings = case.settings
         bridges = {
             b.id: BridgeTerms(
@@ -98,8 +103,9 @@ class AssessmentPlan:
             ),
             stations_per_span=settings.stations_per_span,
             directions=settings.directions,
-            bridges=bridges if case.capacities else {},
+            bridges=bridges if case.rates else {},
             capacities={member: tuple(rows) for member, rows in capacities.items()},
+            service={member: tuple(rows) for member, rows in service.items()},
             reference=reference if isinstance(reference, int | None) else tuple(reference),
             floor=settings.screening_floor,
             impact=STANDARD_SPECIFICATIONS_IMPACT.scaled(conversion("US", settings.units).length),
@@ -107,12 +113,16 @@ class AssessmentPlan:
         )
 
     def sections(self, member: Member) -> tuple[Section, ...]:
-        """The stations ``member``'s Capacities rows name, as (span from 1, x).
+        """The stations ``member``'s Capacities and Service rows name, as (span from 1, x).
 
         Any off the member's grid must be added to its stations (see
         :func:`~batch.engine.envelope.member_influence`) before it is rated.
         """
-        found = (c.section(member.spans) for c in self.capacities.get(member.id, ()))
+        rows: tuple[Capacity | ServiceSection, ...] = (
+            *self.capacities.get(member.id, ()),
+            *self.service.get(member.id, ()),
+        )
+        found = (c.section(member.spans) for c in rows)
         return tuple(s for s in found if s is not None)
 
 
@@ -150,13 +160,13 @@ def assess_member(
     live = vehicle_effects(effects, cases, len(plan.categories))
     dead = member_dead_loads(member, effects.lines) if plan.bridges else None
     rating = None
-    if member.id in plan.capacities:
+    if member.id in plan.capacities or member.id in plan.service:
         terms = plan.bridges[member.bridge or ""]
         rating = rate_member(
             member,
             effects,
             cases,
-            plan.capacities[member.id],
+            plan.capacities.get(member.id, ()),
             terms.vehicles,
             plan.categories,
             terms.factors,
@@ -164,6 +174,7 @@ def assess_member(
             dead,
             plan.impact,
             plan.units,
+            plan.service.get(member.id, ()),
         )
     reference = _reference(member, effects, live, plan)
     screening = (

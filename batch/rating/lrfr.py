@@ -44,20 +44,21 @@ phi_c*phi_s is not taken below :data:`MIN_CAPACITY_FACTOR` (MBE Eq. 6A.4.2.1-3).
 
 Service limit states (LRFR)
 ---------------------------
-Where a Capacities row of an LRFR member gives ``S nc``, the member's Material is
-also checked at its service limit state at that station (MBE Table 6A.4.2.2-1): steel
-at Service II, prestressed concrete at Service III, reinforced concrete at Service I
-(permits only). The check is one more check of the station, in the moment sense of
-the row's ``Service effect``, rated in stresses at the checked fibre (MBE 6A.4.2.1,
-C = fR)::
+Each row of the Service sheet (an LRFR member's station) is checked at the service
+limit state of its Material (MBE Table 6A.4.2.2-1): steel at Service II, prestressed
+concrete at Service III, reinforced concrete at Service I (permits only). The check is
+one more check of the member, after its strength checks, in the moment sense of the
+row's ``Service effect``, rated in stresses at the checked fibre (MBE 6A.4.2.1, C =
+fR)::
 
     RF = (fR - fD) / (gL * fLL)
     fD  = s*M_DC / S_nc + (1 - s)*M_DC / S_lt + M_DW / S_lt
     fLL = M_(LL+IM) / S_st
 
-M the moments in the checked sense (positive where they add to it), s the member's DC1
-share, S the section moduli (S_lt blank: S_nc; S_st blank: S_lt), dead-load factors
-1.0. fR is 0.95*Rh*Fy for a composite steel section (S lt or S st given) and
+M the moments in the checked sense (positive where they add to it; DC M and DW M of a
+Capacities row at the same station where it gives them), s the row's DC1 share, S
+the section moduli (S_lt blank: S_nc; S_st blank: S_lt), dead-load factors 1.0.
+fR is 0.95*Rh*Fy for a composite steel section (S lt or S st given) and
 0.80*Rh*Fy for a non-composite one (AASHTO LRFD 6.10.4.2.2, flange lateral bending not
 included), 0.9*fy for reinforced concrete, the engineer's allowable tension plus the
 effective prestress compression for prestressed concrete (tension at the fibre
@@ -129,6 +130,7 @@ from batch.model import (
     Capacity,
     Category,
     Member,
+    ServiceSection,
     Settings,
     Vehicle,
 )
@@ -363,40 +365,37 @@ class _ServiceRow:
     prestress: float
     fr: float
     rule: int
+    dc1_share: float
     gamma: tuple[float, ...]
     gamma_source: tuple[int, ...]
 
 
-def _service_row(member: Member, c: Capacity) -> _ServiceRow | None:
-    """The row's service check, or None (no S nc, Material other, or not LRFR)."""
-    if c.s_nc is None or member.material == "other" or member.rating_method != "LRFR":
-        return None
-    check = SERVICE_CHECKS[member.material]
+def _service_row(c: ServiceSection) -> _ServiceRow:
+    """The check a Service row asks for (validated: the member is rated by LRFR)."""
+    check = SERVICE_CHECKS[c.material]
     s_lt = c.s_nc if c.s_lt is None else c.s_lt
     rh = 1.0 if c.rh is None else c.rh
-    if member.material == "prestressed concrete":
+    if c.material == "prestressed concrete":
         fr = (c.allowable_stress or 0.0) + (c.prestress_stress or 0.0)
         rule = 3
     elif c.allowable_stress is not None:
         fr, rule = c.allowable_stress, 4
-    elif member.material == "steel":
+    elif c.material == "steel":
         composite = c.s_lt is not None or c.s_st is not None
-        fr, rule = (
-            (_STEEL[0] if composite else _STEEL[1]) * rh * (c.fy or 0.0),
-            0 if composite else 1,
-        )
+        fr = (_STEEL[0] if composite else _STEEL[1]) * rh * (c.fy or 0.0)
+        rule = 0 if composite else 1
     else:
         fr, rule = check.limit.number * (c.fy or 0.0), 2
     factors = dict(check.factors)
     table = GAMMA_SOURCES.index("MBE Table 6A.4.2.2-1, service limit state")
     sources = [table] * len(SERVICE_LEVELS)
-    if member.material == "prestressed concrete":
-        factors["inventory"] = SERVICE_III_INVENTORY[member.prestress_losses]
+    if c.material == "prestressed concrete":
+        factors["inventory"] = SERVICE_III_INVENTORY[c.prestress_losses]
         sources[0] = GAMMA_SOURCES.index(
             "MBE Table 6A.4.2.2-2 (3rd ed. errata): "
             + (
                 "approximate losses"
-                if member.prestress_losses == "approximate"
+                if c.prestress_losses == "approximate"
                 else "refined losses with elastic gains"
             )
         )
@@ -407,11 +406,12 @@ def _service_row(member: Member, c: Capacity) -> _ServiceRow | None:
         s_lt=s_lt,
         s_st=s_lt if c.s_st is None else c.s_st,
         fy=np.nan if c.fy is None else c.fy,
-        rh=rh if member.material == "steel" else np.nan,
+        rh=rh if c.material == "steel" else np.nan,
         allowable=np.nan if c.allowable_stress is None else c.allowable_stress,
         prestress=np.nan if c.prestress_stress is None else c.prestress_stress,
         fr=fr,
         rule=rule,
+        dc1_share=c.dc1_share,
         gamma=tuple(
             factors[level].number if level in factors else np.nan for level in SERVICE_LEVELS
         ),
@@ -634,22 +634,22 @@ def _checks(
     dead: MemberDeadLoads,
     il: InfluenceLines,
     units: UnitSystem,
+    sections: Sequence[ServiceSection] = (),
 ) -> _Checks:
     """One check per Capacities row and rated effect it gives a resistance for, in row order.
 
-    A row with a service check (:func:`_service_row`) adds it after its strength checks;
-    its ``dc`` and ``dw`` are the dead-load stresses, ``m_dc`` and ``m_dw`` the moments.
+    Then one service check per Service row (:func:`_service_row`): its ``dc`` and ``dw``
+    are the dead-load stresses, ``m_dc`` and ``m_dw`` the moments (DC M and DW M of a
+    Capacities row at the same station where it gives them, else the member's own).
     """
     station, effect, resistance, operating, dc, dw, given = [], [], [], [], [], [], []
     service: list[_ServiceRow | None] = []
     m_dc: list[float] = []
     m_dw: list[float] = []
-    per = stress_per_moment(units)
+    typed_moments: dict[int, tuple[float | None, float | None]] = {}
     for c in capacities:
-        at = c.section(member.spans)
-        row = None if at is None else il.station_index(at)
-        if row is None:
-            raise ValueError(f"member {member.id!r}: give capacities at the member's own stations")
+        row = _station_row(member, c, il)
+        typed_moments[row] = (c.dc_m, c.dw_m)
         for k, (_, family, sense) in enumerate(RATED_EFFECTS):
             rn = (c.resistance_m_pos, c.resistance_m_neg, c.resistance_v, c.resistance_v)[k]
             op = (c.operating_m_pos, c.operating_m_neg, c.operating_v, c.operating_v)[k]
@@ -667,24 +667,26 @@ def _checks(
             service.append(None)
             m_dc.append(np.nan)
             m_dw.append(np.nan)
-        row_service = _service_row(member, c)
-        if row_service is None:
-            continue
-        sense = RATED_EFFECTS[row_service.effect][2]
+    per = stress_per_moment(units)
+    for section in sections:
+        row = _station_row(member, section, il)
+        check = _service_row(section)
+        sense = RATED_EFFECTS[check.effect][2]
         line = il.moment_rows.start + row
+        typed_dc, typed_dw = typed_moments.get(row, (None, None))
         moments = (
-            sense * (dead.dc[line] if c.dc_m is None else c.dc_m),
-            sense * (dead.dw[line] if c.dw_m is None else c.dw_m),
+            sense * (dead.dc[line] if typed_dc is None else typed_dc),
+            sense * (dead.dw[line] if typed_dw is None else typed_dw),
         )
-        share = member.dc1_share
+        share = section.dc1_share
         station.append(row)
-        effect.append(row_service.effect)
+        effect.append(check.effect)
         resistance.append(np.nan)
         operating.append(np.nan)
-        dc.append(moments[0] * per * (share / row_service.s_nc + (1.0 - share) / row_service.s_lt))
-        dw.append(moments[1] * per / row_service.s_lt)
-        given.append(c.dc_m is not None or c.dw_m is not None)
-        service.append(row_service)
+        dc.append(moments[0] * per * (share / check.s_nc + (1.0 - share) / check.s_lt))
+        dw.append(moments[1] * per / check.s_lt)
+        given.append(typed_dc is not None or typed_dw is not None)
+        service.append(check)
         m_dc.append(moments[0])
         m_dw.append(moments[1])
     if not station:
@@ -701,6 +703,15 @@ def _checks(
         m_dc=np.array(m_dc, dtype=float),
         m_dw=np.array(m_dw, dtype=float),
     )
+
+
+def _station_row(member: Member, row: Capacity | ServiceSection, il: InfluenceLines) -> int:
+    """The station row of the influence lines that a Capacities or Service row names."""
+    at = row.section(member.spans)
+    found = None if at is None else il.station_index(at)
+    if found is None:
+        raise ValueError(f"member {member.id!r}: give capacities at the member's own stations")
+    return found
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -801,6 +812,7 @@ def rate_member(
     dead: MemberDeadLoads | None = None,
     formula: ImpactFormula | None = None,
     units: UnitSystem = "US",
+    sections: Sequence[ServiceSection] = (),
 ) -> MemberRating:
     """Rate every vehicle at the member's ``capacities`` stations (see the module docstring).
 
@@ -812,12 +824,12 @@ def rate_member(
     least one (validated: each on one of the member's stations). An LFR or ASR
     member (its Rating method) is rated by MBE Section 6B instead: see
     :func:`_standard_method`; ``formula`` is then the Standard Specifications'
-    impact in the run's length unit. ``units`` is the run's unit system, for the
-    stresses of the service checks.
+    impact in the run's length unit. ``sections`` are the member's Service rows (LRFR
+    only), ``units`` the run's unit system, for their stresses.
     """
     il = effects.lines
     dead = dead if dead is not None else member_dead_loads(member, il)
-    ck = _checks(member, capacities, dead, il, units)
+    ck = _checks(member, capacities, dead, il, units, sections)
     flexure = ck.effect < 2
     service = np.array([row is not None for row in ck.service], dtype=bool)
 
@@ -973,7 +985,7 @@ def rate_member(
         k_rh=per_check(lambda row: row.rh),
         k_allowable=per_check(lambda row: row.allowable),
         k_prestress=per_check(lambda row: row.prestress),
-        k_dc1_share=np.where(service, member.dc1_share, np.nan),
+        k_dc1_share=per_check(lambda row: row.dc1_share),
         k_m_dc=ck.m_dc,
         k_m_dw=ck.m_dw,
         k_s_nc=per_check(lambda row: row.s_nc),

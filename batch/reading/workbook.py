@@ -232,6 +232,7 @@ _NOUNS = {
     "members": "member",
     "vehicles": "vehicle",
     "capacities": "station",
+    "service": "station",
     "segments": "stretch",
     "analysis": "member",
     "layout": "member",

@@ -457,7 +457,7 @@ def run_case(
         assessments=() if plan is None else assessments,
         fatigue=fatigue if any(c.fatigue for c in cases) else (),
         asbuilt=asbuilt if _asks_as_built(case) else (),
-        rated=summarise(case, assessments) if case.capacities else RatingSummary(),
+        rated=summarise(case, assessments) if case.rates else RatingSummary(),
     )
 
 

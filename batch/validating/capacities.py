@@ -5,9 +5,11 @@ and outer spaces) and a point of it: one of its spans and a fraction of that
 span, or x from its left end (with the span too where x is an interior support,
 to say which side); a point between the member's stations becomes a station of
 its own (:func:`batch.model.layout.section_of`). It must give at least one
-resistance (or S nc, a service check), and no station may be listed twice (two points within
+resistance, and no station may be listed twice (two points within
 :data:`batch.model.layout.STATION_TOL` of a span are one station). A member whose
 dead load would silently be taken as 0 gets a warning.
+
+The Service sheet's rows are checked the same way, but for the resistances.
 
 The schema has already judged each value on its own (types, resistances not
 negative, station from 0 to 1, span from 1); a field it rejected, or that
@@ -64,23 +66,27 @@ def capacity_problems(
     document: dict[str, Any],
     locator: Locator,
     ok: Callable[[DocPath], bool],
+    key: str = "capacities",
 ) -> Iterator[Found]:
-    """Every cross-field problem of the Capacities rows (``ok(path)``: not yet reported)."""
+    """Every cross-field problem of the Capacities rows (``ok(path)``: not yet reported).
+
+    With ``key`` "service", the same checks of the Service sheet's member and station
+    (its rows give no resistances: :mod:`batch.validating.service` checks the rest).
+    """
     cx = _Context(document, locator, ok)
     for i, row in enumerate(rows):
         if isinstance(row, dict):
-            yield from _row_problems(row, ("capacities", i), cx)
+            yield from _row_problems(row, (key, i), cx)
 
 
 def _row_problems(row: dict[str, Any], at: DocPath, cx: _Context) -> Iterator[Found]:
-    """The problems of one Capacities row, in the order a reader fixes them."""
-    if all(k not in row and cx.ok((*at, k)) for k in (*_RESISTANCES, "s_nc")):
+    """The problems of one Capacities (or Service) row, in the order a reader fixes them."""
+    if at[0] == "capacities" and all(k not in row and cx.ok((*at, k)) for k in _RESISTANCES):
         yield (
             (*at, "resistance_m_pos"),
             "no-resistance",
-            "Resistance M+, Resistance M- and Resistance V are all blank, and no S nc asks for "
-            "a service check, so nothing is rated at this station; give at least one factored "
-            "resistance (or the section of a service check), or delete the row",
+            "Resistance M+, Resistance M- and Resistance V are all blank, so nothing is "
+            "rated at this station; give at least one factored resistance, or delete the row",
             "error",
         )
     name = row.get("member")

@@ -438,7 +438,7 @@ def _library_needs(
 
     A fatigue load needs every member's single-lane distribution factors (one
     error at the first member without them); a model with a caution gets it as
-    a warning on its row when the run rates (there are Capacities rows).
+    a warning on its row when the run rates (there are Capacities or Service rows).
     """
     rows = list(_library_rows(document, cx))
     reference = settings.get("reference_vehicle")
@@ -587,6 +587,9 @@ def check_document(
     capacities = document.get("capacities")
     if isinstance(capacities, list):
         found += capacity_problems(capacities, document, locator, cx.ok)
+    service = document.get("service")
+    if isinstance(service, list):
+        found += capacity_problems(service, document, locator, cx.ok, "service")
     # Members as built: stiffness along a member (Segments), a member's own analysis.
     segments = document.get("segments")
     if isinstance(segments, list):
@@ -600,6 +603,7 @@ def check_document(
             layout, document, locator, cx.ok, "SI" if cx.units == "SI" else "US"
         )
     found += _library_needs(document, settings, bool(capacities), cx)
+    found += _library_needs(document, settings, bool(capacities or service), cx)
     found += traffic_problems(document, locator, cx.ok)
     found += service_problems(document, locator, cx.ok)
     out = []

@@ -195,8 +195,14 @@ def _is_number(value: object) -> bool:
 def schema_problems(document: object, locator: Locator) -> list[tuple[DocPath, Problem]]:
     """Every schema error of ``document`` as (document path, problem)."""
     found = []
+    said: set[tuple[DocPath, str]] = set()
     for error in _validator().iter_errors(document):
         for path, code, message in _worded(error):
+            # A row missing two required values fails "required" once per value, and each
+            # failure names them all: say each once.
+            if (path, code) in said:
+                continue
+            said.add((path, code))
             sheet, cell = locator.where(path)
             value = (
                 None

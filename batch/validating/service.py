@@ -1,18 +1,17 @@
-"""Checks of the LRFR service-limit-state inputs that a JSON Schema cannot express.
+"""Checks of the Service sheet (LRFR service limit states) that a JSON Schema cannot express.
 
-A Capacities row turns its member's service check on by giving ``S nc``
-(:mod:`batch.rating.lrfr`); then:
+Its member and station are checked as a Capacities row's
+(:func:`batch.validating.capacities.capacity_problems`); here, each row against its
+member and its material:
 
-* the member is rated by LRFR and has a Material whose service limit state the MBE
-  names (steel, prestressed concrete, reinforced concrete);
+* the member is rated by LRFR, and all its Service rows give one Material;
 * steel and reinforced concrete give Fy or their own Allowable stress, not both;
 * prestressed concrete gives its Allowable stress (the allowable tension) and its
   Prestress stress, is checked in M+ (tension at the bottom fibre under sagging) and
   takes no Fy;
-* Rh belongs to steel, Prestress stress to prestressed concrete.
+* Rh belongs to steel, Prestress stress and Prestress losses to prestressed concrete.
 
-A row that gives any other service input without ``S nc`` is told to give it. The
-schema has already judged each value on its own; a field it rejected is skipped.
+The schema has already judged each value on its own; a field it rejected is skipped.
 """
 
 from __future__ import annotations
@@ -26,10 +25,6 @@ from batch.validating.fields import label
 __all__ = ["service_problems"]
 
 Found = tuple[DocPath, str, str, Severity]
-
-#: The Capacities columns of a service check besides S nc.
-_INPUTS = ("service_effect", "s_lt", "s_st", "fy", "rh", "allowable_stress", "prestress_stress")
-_GIVE_MATERIAL = "steel, prestressed concrete or reinforced concrete"
 
 
 def _members(document: dict[str, Any]) -> dict[str, tuple[int, dict[str, Any]]]:
@@ -45,77 +40,61 @@ def _members(document: dict[str, Any]) -> dict[str, tuple[int, dict[str, Any]]]:
 def service_problems(
     document: dict[str, Any], locator: Locator, ok: Callable[[DocPath], bool]
 ) -> Iterator[Found]:
-    """Every cross-field problem of the service inputs (``ok(path)``: not yet reported)."""
+    """Every cross-field problem of the Service rows (``ok(path)``: not yet reported)."""
     members = _members(document)
-    rows = document.get("capacities")
+    rows = document.get("service")
+    materials: dict[str, tuple[str, DocPath]] = {}
     for i, row in enumerate(rows if isinstance(rows, list) else []):
-        if not isinstance(row, dict):
-            continue
-        at: DocPath = ("capacities", i)
-        if "s_nc" not in row:
-            for key in _INPUTS:
-                if key in row and ok((*at, key)) and ok((*at, "s_nc")):
-                    yield (
-                        (*at, key),
-                        "service-without-s-nc",
-                        f"{label((*at, key))} belongs to a service check, which S nc turns "
-                        "on; give S nc (the non-composite section modulus at the checked "
-                        f"fibre), or leave {label((*at, key))} blank",
-                        "error",
-                    )
-            continue
-        name = row.get("member")
-        if not ok((*at, "s_nc")) or not isinstance(name, str):
+        at: DocPath = ("service", i)
+        name, material = (
+            row.get(k) if isinstance(row, dict) else None for k in ("member", "material")
+        )
+        if not isinstance(name, str) or not ok((*at, "member")) or not ok((*at, "material")):
             continue
         found = members.get(name.strip().casefold())
-        if found is not None:
-            yield from _row_problems(row, at, name.strip(), *found, locator, ok)
+        if found is None or not isinstance(material, str):
+            continue
+        index, member = found
+        ident = name.strip()
+        method = member.get("rating_method", "LRFR")
+        if method != "LRFR" and ok(("members", index, "rating_method")):
+            where = " ".join(x for x in locator.where(("members", index, "id")) if x)
+            yield (
+                (*at, "member"),
+                "service-not-lrfr",
+                f"member {ident!r} is rated by {method}, and the service limit states are "
+                "those of LRFR (MBE Section 6A); delete its Service rows, or set its Rating "
+                f"method to LRFR ({where})",
+                "error",
+            )
+            continue
+        first = materials.setdefault(ident.casefold(), (material, at))
+        if first[0] != material:
+            where = " ".join(x for x in locator.where((*first[1], "material")) if x)
+            yield (
+                (*at, "material"),
+                "service-two-materials",
+                f"member {ident!r} is {first[0]} in {where}, and this row says {material}; a "
+                "member is of one material: give the same Material on all its Service rows",
+                "error",
+            )
+            continue
+        yield from _material_problems(row, at, ident, material)
 
 
-def _row_problems(
-    row: dict[str, Any],
-    at: DocPath,
-    ident: str,
-    index: int,
-    member: dict[str, Any],
-    locator: Locator,
-    ok: Callable[[DocPath], bool],
+def _material_problems(
+    row: dict[str, Any], at: DocPath, ident: str, material: str
 ) -> Iterator[Found]:
-    """The problems of one Capacities row that gives S nc, against its member."""
-    method = member.get("rating_method", "LRFR")
-    material = member.get("material", "other")
-    where = " ".join(x for x in locator.where(("members", index, "id")) if x)
-    if method != "LRFR" and ok(("members", index, "rating_method")):
-        yield (
-            (*at, "s_nc"),
-            "service-not-lrfr",
-            f"S nc asks for a service check, and member {ident!r} is rated by {method}; the "
-            "service limit states are those of LRFR (MBE Section 6A): leave S nc blank, or set "
-            f"the member's Rating method to LRFR ({where})",
-            "error",
-        )
-        return
-    if material == "other" and ok(("members", index, "material")):
-        yield (
-            (*at, "s_nc"),
-            "service-no-material",
-            f"S nc asks for a service check, and member {ident!r} has Material other, for "
-            f"which the MBE names no service limit state; set its Material ({where}) to "
-            f"{_GIVE_MATERIAL}, or leave S nc blank",
-            "error",
-        )
-        return
-    if not ok(("members", index, "material")):
-        return
-    given = {key for key in _INPUTS if key in row}
+    """The inputs one row's material needs, and those it does not take."""
     if material == "prestressed concrete":
-        yield from _prestressed(given, row, at, ident)
+        yield from _prestressed(row, at, ident)
     else:
-        yield from _yield_limited(given, at, ident, material)
-    if "rh" in given and material != "steel":
+        yield from _yield_limited(row, at, ident, material)
+    if "rh" in row and material != "steel":
         yield _not_for(at, "rh", ident, material, "steel (the hybrid factor)")
-    if "prestress_stress" in given and material != "prestressed concrete":
-        yield _not_for(at, "prestress_stress", ident, material, "prestressed concrete")
+    for key in ("prestress_stress", "prestress_losses"):
+        if key in row and material != "prestressed concrete" and row[key] != "approximate":
+            yield _not_for(at, key, ident, material, "prestressed concrete")
 
 
 def _not_for(at: DocPath, key: str, ident: str, material: str, owner: str) -> Found:
@@ -123,14 +102,14 @@ def _not_for(at: DocPath, key: str, ident: str, material: str, owner: str) -> Fo
         (*at, key),
         "service-input-not-for-material",
         f"{label((*at, key))} is for {owner}, and member {ident!r} is {material}; leave it "
-        "blank, or correct the member's Material",
+        "blank, or correct the row's Material",
         "error",
     )
 
 
-def _prestressed(given: set[str], row: dict[str, Any], at: DocPath, ident: str) -> Iterator[Found]:
+def _prestressed(row: dict[str, Any], at: DocPath, ident: str) -> Iterator[Found]:
     """Prestressed concrete: the allowable tension and the prestress; M+ only; no Fy."""
-    if "allowable_stress" not in given:
+    if "allowable_stress" not in row:
         yield (
             (*at, "allowable_stress"),
             "service-no-allowable",
@@ -140,7 +119,7 @@ def _prestressed(given: set[str], row: dict[str, Any], at: DocPath, ident: str) 
             "chooses the limit for the exposure)",
             "error",
         )
-    if "prestress_stress" not in given:
+    if "prestress_stress" not in row:
         yield (
             (*at, "prestress_stress"),
             "service-no-prestress",
@@ -158,13 +137,13 @@ def _prestressed(given: set[str], row: dict[str, Any], at: DocPath, ident: str) 
             "blank)",
             "error",
         )
-    if "fy" in given:
+    if "fy" in row:
         yield _not_for(at, "fy", ident, "prestressed concrete", "steel and reinforced concrete")
 
 
-def _yield_limited(given: set[str], at: DocPath, ident: str, material: str) -> Iterator[Found]:
+def _yield_limited(row: dict[str, Any], at: DocPath, ident: str, material: str) -> Iterator[Found]:
     """Steel and reinforced concrete: Fy or the engineer's Allowable stress, one of them."""
-    if "fy" not in given and "allowable_stress" not in given:
+    if "fy" not in row and "allowable_stress" not in row:
         limit = "0.95 or 0.80 Rh Fy" if material == "steel" else "0.9 fy"
         yield (
             (*at, "fy"),
@@ -173,7 +152,7 @@ def _yield_limited(given: set[str], at: DocPath, ident: str, material: str) -> I
             f"give Fy (spanfleet uses {limit}), or your own Allowable stress",
             "error",
         )
-    elif "fy" in given and "allowable_stress" in given:
+    elif "fy" in row and "allowable_stress" in row:
         yield (
             (*at, "allowable_stress"),
             "service-two-limits",

@@ -7,7 +7,7 @@ floats, or ints where the model's field is an int; text loses its outer spaces
 (ids were compared for uniqueness that way).
 
 A vehicle row that names a library model and leaves Category blank takes the
-model's category. A capacity row names its member by the member's id exactly
+model's category. A capacity (or service) row names its member by the member's id exactly
 as the Members sheet spells it, and a member its bridge by the Bridges sheet's
 spelling (ids match ignoring case and outer spaces). Each member carries its
 Segments rows, its Analysis row and its Girder Layout row
@@ -33,6 +33,7 @@ from batch.model import (
     GirderLayout,
     Member,
     Segment,
+    ServiceSection,
     Settings,
     Spacing,
     Vehicle,
@@ -45,6 +46,7 @@ from batch.model.sheets import (
     LAYOUT,
     MEMBERS,
     SEGMENTS,
+    SERVICE,
     SETTING_ROWS,
     VEHICLES,
 )
@@ -85,6 +87,12 @@ def _capacity(doc: dict[str, Any], ids: dict[str, str]) -> Capacity:
     values = _fields(CAPACITIES.columns, doc)
     values["member"] = ids[values["member"].casefold()]
     return Capacity(**values)
+
+
+def _service(doc: dict[str, Any], ids: dict[str, str]) -> ServiceSection:
+    values = _fields(SERVICE.columns, doc)
+    values["member"] = ids[values["member"].casefold()]
+    return ServiceSection(**values)
 
 
 def _segments(document: dict[str, Any], ids: dict[str, str]) -> dict[str, tuple[Segment, ...]]:
@@ -164,4 +172,5 @@ def to_case(document: dict[str, Any]) -> Case:
         vehicles=tuple(_vehicle(v) for v in document["vehicles"]),
         capacities=tuple(_capacity(c, ids) for c in document.get("capacities", [])),
         bridges=bridges,
+        service=tuple(_service(r, ids) for r in document.get("service", [])),
     )

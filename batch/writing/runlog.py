@@ -135,7 +135,7 @@ def _rows(
             f"dynamic allowance {allowance}; factor {lc.factor:g}"
         )
         yield lc.label, text + ("" if lc.scope == "all" else f"; scope {lc.scope}"), _PLAIN
-    if result.case.capacities:
+    if result.case.rates:
         yield "Rating: published values", None, _SECTION
         for what, text in PUBLISHED_TABLES:
             yield what, text, _PLAIN

@@ -180,6 +180,8 @@ def case_rows(case: Case) -> dict[str, list[dict[str, CellValue]]]:
     layouts = tuple(m.layout for m in case.members if m.layout is not None)
     if layouts:
         objects["Girder Layout"] = layouts
+    if case.service:
+        objects["Service"] = case.service
     if case.bridges:
         objects["Bridges"] = case.bridges
     sheets = {sheet.name: sheet for sheet in INPUT_SHEETS}
