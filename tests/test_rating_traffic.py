@@ -276,11 +276,12 @@ def test_a_lower_one_lane_df_raises_a_special_permits_rf_by_their_ratio(df, k, k
 
 
 def _today(case: Case) -> Case:
-    """``case`` without bridges, permit kinds and rating methods: a workbook written before
-    they existed (every member LRFR)."""
+    """``case`` without bridges, permit kinds, rating methods and service checks: a workbook
+    written before they existed (every member LRFR, no Service sheet)."""
     return dataclasses.replace(
         case,
         bridges=(),
+        service=(),
         members=tuple(
             dataclasses.replace(m, bridge=None, rating_method="LRFR") for m in case.members
         ),

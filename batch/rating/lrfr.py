@@ -337,7 +337,11 @@ FR_RULES: tuple[str, ...] = (
     "Allowable stress, as given",
 )
 #: Column of ``MemberRating.k_gamma`` of each vehicle category (design: inventory).
-_LEVEL_OF: dict[str, int] = {"design": 0, "legal": 2, "permit": 3}
+_LEVEL_OF: dict[str, int] = {
+    "design": SERVICE_LEVELS.index("inventory"),
+    "legal": SERVICE_LEVELS.index("legal"),
+    "permit": SERVICE_LEVELS.index("permit"),
+}
 _OPERATING_LEVEL = SERVICE_LEVELS.index("operating")
 
 
@@ -352,7 +356,7 @@ def stress_per_moment(units: UnitSystem) -> float:
 
 @dataclass(frozen=True, kw_only=True)
 class _ServiceRow:
-    """The service check a Capacities row asks for (see the module docstring)."""
+    """The service check a Service row asks for (see the module docstring)."""
 
     effect: int
     limit_state: int
@@ -510,8 +514,8 @@ class MemberRating:
     :data:`~batch.loads.factors.SERVICE_LEVELS` (NaN: not checked) and
     ``k_gamma_source`` the codes of :data:`~batch.rating.traffic.GAMMA_SOURCES`;
     ``k_fr_rule`` how fR (``k_capacity``) was found (:data:`FR_RULES`); ``k_fy``,
-    ``k_rh``, ``k_allowable``, ``k_prestress`` the row's inputs; ``k_dc1_share`` the
-    member's DC1 share; ``k_m_dc``, ``k_m_dw`` the dead-load moments in the checked
+    ``k_rh``, ``k_allowable``, ``k_prestress`` the Service row's inputs; ``k_dc1_share``
+    its DC1 share; ``k_m_dc``, ``k_m_dw`` the dead-load moments in the checked
     sense; ``k_s_nc``, ``k_s_lt``, ``k_s_st`` the section moduli used;
     ``k_per_moment`` the stress of a unit moment on S st. On a service check
     ``k_dc``, ``k_dw`` are the dead-load stresses fDC and fDW and the live-load

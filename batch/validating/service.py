@@ -79,21 +79,26 @@ def service_problems(
                 "error",
             )
             continue
-        yield from _material_problems(row, at, ident, material)
+        usable = {key: value for key, value in row.items() if ok((*at, key))}
+        yield from _material_problems(row, usable, at, ident, material)
 
 
 def _material_problems(
-    row: dict[str, Any], at: DocPath, ident: str, material: str
+    row: dict[str, Any], usable: dict[str, Any], at: DocPath, ident: str, material: str
 ) -> Iterator[Found]:
-    """The inputs one row's material needs, and those it does not take."""
+    """The inputs one row's material needs (given at all), and those it does not take.
+
+    ``usable`` holds the row's values not yet reported, so a value the schema refused is
+    not reported again as one too many.
+    """
     if material == "prestressed concrete":
-        yield from _prestressed(row, at, ident)
+        yield from _prestressed(row, usable, at, ident)
     else:
-        yield from _yield_limited(row, at, ident, material)
-    if "rh" in row and material != "steel":
+        yield from _yield_limited(row, usable, at, ident, material)
+    if "rh" in usable and material != "steel":
         yield _not_for(at, "rh", ident, material, "steel (the hybrid factor)")
     for key in ("prestress_stress", "prestress_losses"):
-        if key in row and material != "prestressed concrete" and row[key] != "approximate":
+        if key in usable and material != "prestressed concrete" and usable[key] != "approximate":
             yield _not_for(at, key, ident, material, "prestressed concrete")
 
 
@@ -107,7 +112,9 @@ def _not_for(at: DocPath, key: str, ident: str, material: str, owner: str) -> Fo
     )
 
 
-def _prestressed(row: dict[str, Any], at: DocPath, ident: str) -> Iterator[Found]:
+def _prestressed(
+    row: dict[str, Any], usable: dict[str, Any], at: DocPath, ident: str
+) -> Iterator[Found]:
     """Prestressed concrete: the allowable tension and the prestress; M+ only; no Fy."""
     if "allowable_stress" not in row:
         yield (
@@ -128,7 +135,7 @@ def _prestressed(row: dict[str, Any], at: DocPath, ident: str) -> Iterator[Found
             "magnitude (0 for none)",
             "error",
         )
-    if row.get("service_effect") == "M-":
+    if usable.get("service_effect") == "M-":
         yield (
             (*at, "service_effect"),
             "service-prestressed-hogging",
@@ -137,11 +144,13 @@ def _prestressed(row: dict[str, Any], at: DocPath, ident: str) -> Iterator[Found
             "blank)",
             "error",
         )
-    if "fy" in row:
+    if "fy" in usable:
         yield _not_for(at, "fy", ident, "prestressed concrete", "steel and reinforced concrete")
 
 
-def _yield_limited(row: dict[str, Any], at: DocPath, ident: str, material: str) -> Iterator[Found]:
+def _yield_limited(
+    row: dict[str, Any], usable: dict[str, Any], at: DocPath, ident: str, material: str
+) -> Iterator[Found]:
     """Steel and reinforced concrete: Fy or the engineer's Allowable stress, one of them."""
     if "fy" not in row and "allowable_stress" not in row:
         limit = "0.95 or 0.80 Rh Fy" if material == "steel" else "0.9 fy"
@@ -152,7 +161,7 @@ def _yield_limited(row: dict[str, Any], at: DocPath, ident: str, material: str) 
             f"give Fy (spanfleet uses {limit}), or your own Allowable stress",
             "error",
         )
-    elif "fy" in row and "allowable_stress" in row:
+    elif "fy" in usable and "allowable_stress" in usable:
         yield (
             (*at, "allowable_stress"),
             "service-two-limits",
