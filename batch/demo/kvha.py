@@ -4,18 +4,21 @@ Every bridge, member id, vehicle and number here is invented for demonstration
 and testing; none describes a real structure or a real legal or permit load.
 Two cases, both as :class:`batch.model.Case`:
 
-* :data:`KVHA_INVENTORY`, US units (kip, ft): 25 girder lines (simple spans,
+* :data:`KVHA_INVENTORY`, US units (kip, ft): 29 girder lines (simple spans,
   two- to four-span continuous members with unequal spans and stiffnesses,
   hinged cantilever-and-suspended-span layouts, a plate girder with cover
   plates over its pier whose live-load deflection is checked and which is rated
   at sections off the grid, and a girder haunched over its piers) and 12 vehicles of 2 to
   9 axles, some with ranged spacings or lane loads; factored resistances at a
-  few stations of five members (Capacities), among them a deteriorated girder
+  few stations of ten members (Capacities), among them a deteriorated girder
   that legal loads must be posted for and a two-girder span that does not
-  carry the heaviest permit; five bridges (Bridges) with different truck
+  carry the heaviest permit; nine bridges (Bridges) with different truck
   traffic (ADTT) and riding surfaces; permits of every kind the MBE names
   (routine, single-trip escorted at crawl speed, single-trip, multiple-trip);
-  and the KVHA design truck as the screening reference.
+  and the KVHA design truck as the screening reference. Two older bridges are
+  rated by LFR and ASR, and a composite steel plate girder and a prestressed
+  girder are checked at the LRFR service limit states too (the Service sheet:
+  Service II and Service III).
 * :data:`KVHA_SI_DEMO`, SI units (kN, m): a few members and vehicles to show
   the metric path end to end, with resistances at a few stations of two members
   and the live-load deflection of one (in mm).
