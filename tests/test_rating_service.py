@@ -309,3 +309,38 @@ def test_the_rating_detail_sheet_shows_every_service_term() -> None:
     assert x["Governs"] == "yes"
     ratings = results.frame("Ratings")
     assert set(ratings["Limit state"]) == {"Service II"}
+
+
+def test_a_metric_service_check_by_hand() -> None:
+    """SI: kN-m over mm3, times 1e6, is MPa (exact units); non-composite steel at Service II.
+
+    20 m span, DC 15 and DW 3 kN/m: M_DC = 15 x 400 / 8 = 750, M_DW = 150 kN-m; one 200 kN
+    axle, DF 0.6, IM 0.33: 0.6 x 200 x 20 / 4 x 1.33 = 798 kN-m. S nc 5e6 mm3, Fy 345 MPa:
+    fR = 0.80 x 345 = 276 MPa (AASHTO LRFD 6.10.4.2.2); fD = 900e6 / 5e6 = 180 MPa, fLL =
+    798e6 / 5e6 = 159.6 MPa; inventory RF = (276 - 180) / (1.30 x 159.6) = 0.4626952.
+    """
+    member = Member(id="KV-M09 G1", spans=(20.0,), df_moment=0.6, df_shear=0.6, dc_load=15.0,
+                    dw_load=3.0)  # fmt: skip
+    run_si = Settings(units="SI")
+    axle = Vehicle(id="KV-SI-D", axle_loads=(200.0,), category="design")
+    cases = fleet_cases((axle,), run_si)
+    effects = case_effects(member, cases, stations_per_span=10)
+    section = ServiceSection(
+        member="KV-M09 G1", span=1, station=0.5, material="steel", s_nc=5e6, fy=345.0
+    )
+    r = rate_member(
+        member,
+        effects,
+        cases,
+        [],
+        vehicle_terms((axle,), None, run_si),
+        ("design",),
+        RatingFactors.of(run_si),
+        (20.0,),
+        units="SI",
+        sections=[section],
+    )
+    assert r.k_capacity[0] == pytest.approx(276.0, rel=REL_TOL_EXACT)
+    assert r.k_dc[0] + r.k_dw[0] == pytest.approx(180.0, rel=REL_TOL_EXACT)
+    assert r.p_live[0, 0] == pytest.approx(159.6, rel=REL_TOL_EXACT)
+    assert r.rf[0] == pytest.approx(96.0 / (1.3 * 159.6), rel=REL_TOL_EXACT)
