@@ -1077,7 +1077,7 @@ _TERMS: tuple[_Term, ...] = (
         "stress",
         FORMAT_VALUE,
         8,
-        "Service check: the Fy of the Capacities row (steel flange or reinforcement).",
+        "Service check: the Fy of the Service row (steel flange or reinforcement).",
         lambda r, v, k: r.k_fy[k],
     ),
     (
@@ -1093,7 +1093,7 @@ _TERMS: tuple[_Term, ...] = (
         "stress",
         FORMAT_VALUE,
         9,
-        "Service check: the Allowable stress of the Capacities row.",
+        "Service check: the Allowable stress of the Service row.",
         lambda r, v, k: r.k_allowable[k],
     ),
     (
@@ -1109,7 +1109,7 @@ _TERMS: tuple[_Term, ...] = (
         "",
         FORMAT_FACTOR,
         7,
-        "Service check: the member's share s of DC on the non-composite section.",
+        "Service check: the Service row's share s of DC on the non-composite section.",
         lambda r, v, k: r.k_dc1_share[k],
     ),
     (
