@@ -15,8 +15,6 @@ from batch.model.case import (
     GirderLayout,
     Member,
     Segment,
-    Member,
-    Segment,
     ServiceSection,
     Settings,
     Vehicle,

@@ -602,7 +602,6 @@ def check_document(
         found += layout_problems(
             layout, document, locator, cx.ok, "SI" if cx.units == "SI" else "US"
         )
-    found += _library_needs(document, settings, bool(capacities), cx)
     found += _library_needs(document, settings, bool(capacities or service), cx)
     found += traffic_problems(document, locator, cx.ok)
     found += service_problems(document, locator, cx.ok)

@@ -44,8 +44,6 @@ from batch.loads.distribution import (
     number,
 )
 from batch.model import RATING_METHODS, Bridge, Case, GirderLayout, Member
-from batch.rating.lrfr import FLAGS, RATED_EFFECTS, MemberDeadLoads, MemberRating
-from batch.model import RATING_METHODS, Bridge, Case, Member
 from batch.rating.lrfr import FLAGS, FR_RULES, RATED_EFFECTS, MemberDeadLoads, MemberRating
 from batch.rating.posting import BridgePosting
 from batch.rating.screening import SCREEN_EFFECTS, MemberScreening
