@@ -25,6 +25,7 @@ from __future__ import annotations
 import dataclasses
 
 import pytest
+from tolerances import DF_3DP, DF_3DP_PRODUCT, REL_TOL_EXACT
 
 from batch.loads.distribution import (
     Girder,
@@ -37,7 +38,6 @@ from batch.loads.distribution import (
     stiffness_parameter,
 )
 from batch.model import GirderLayout
-from tests.tolerances import DF_3DP, DF_3DP_PRODUCT, REL_TOL_EXACT
 
 PSC = Girder(
     cross_section="k",

@@ -12,10 +12,10 @@ numbers not). The workbook contract: docs/workbook.md, Girder Layout.
 from __future__ import annotations
 
 import pytest
+from tolerances import DF_3DP, DF_3DP_PRODUCT
 
 from batch.interface import read, run
 from batch.validating import read_input
-from tests.tolerances import DF_3DP, DF_3DP_PRODUCT
 
 LAYOUT = [
     "Member",
