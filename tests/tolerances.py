@@ -37,3 +37,10 @@ DF_3DP = 5e-4
 #: then multiplied and rounded again (lanes per girder, absolute): 0.0005 on each factor of
 #: size about 1, plus the final rounding.
 DF_3DP_PRODUCT = 1.5e-3
+
+# The order the meanings above imply (a tolerance loosened past its neighbour is a change
+# of meaning, not of number): float round-off < the FE library < exact closed forms < what
+# printed tables and grids allow.
+assert REL_TOL_15_DIGITS < REL_TOL_FLOAT < REL_TOL_LIBRARY < REL_TOL_EXACT < REL_TOL_FIXTURE
+assert REL_TOL_FIXTURE < REL_TOL_GRID and TABLE_TOL_4DP < TABLE_TOL_2DP
+assert DF_3DP < DF_3DP_PRODUCT
