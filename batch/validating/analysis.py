@@ -3,8 +3,8 @@
 Each row must name a member of the Members sheet (ids compared ignoring case and
 outer spaces), at most one row per member. A deflection limit or a deflection
 distribution factor without an EI scale does nothing, so it is an error; an EI
-scale with no deflection distribution factor and no girder layout for the member
-takes DF moment, which a warning says (AASHTO LRFD 2.5.2.6.2 loads every lane and
+scale with no deflection distribution factor takes DF moment (typed, or from the
+member's girder layout), which a warning says (AASHTO LRFD 2.5.2.6.2 loads every lane and
 shares the load equally among the girders, a different factor from the moment one).
 
 The schema has already judged each value on its own; a field it rejected, or that
@@ -50,12 +50,8 @@ def analysis_problems(
     document: dict[str, Any],
     locator: Locator,
     ok: Callable[[DocPath], bool],
-    with_layout: set[str],
 ) -> Iterator[Found]:
-    """Every cross-field problem of the Analysis rows (``ok(path)``: not yet reported).
-
-    ``with_layout`` holds the folded ids of the members that have a girder layout.
-    """
+    """Every cross-field problem of the Analysis rows (``ok(path)``: not yet reported)."""
     by_id = members_by_id(document)
     seen: dict[str, DocPath] = {}
     for i, row in enumerate(rows):
@@ -80,12 +76,10 @@ def analysis_problems(
             )
             continue
         seen[key] = (*at, "member")
-        yield from _deflection(row, at, ok, key in with_layout)
+        yield from _deflection(row, at, ok)
 
 
-def _deflection(
-    row: dict[str, Any], at: DocPath, ok: Callable[[DocPath], bool], has_layout: bool
-) -> Iterator[Found]:
+def _deflection(row: dict[str, Any], at: DocPath, ok: Callable[[DocPath], bool]) -> Iterator[Found]:
     """Deflection inputs need the EI scale; without a DF deflection, say which DF is used."""
     if not ok((*at, "ei_scale")):
         return
@@ -104,13 +98,13 @@ def _deflection(
                     "error",
                 )
         return
-    if "df_deflection" not in row and ok((*at, "df_deflection")) and not has_layout:
+    if "df_deflection" not in row and ok((*at, "df_deflection")):
         yield (
             (*at, "ei_scale"),
             "deflection-takes-df-moment",
-            "no DF deflection and no girder layout for this member, so deflections take the "
-            "member's DF moment; AASHTO LRFD 2.5.2.6.2 loads every design lane and shares it "
-            "equally among the girders (lanes x multiple presence factor / girders): give "
-            "DF deflection",
+            "no DF deflection for this member, so deflections take the member's DF moment "
+            "(typed on Members or from its girder layout); AASHTO LRFD 2.5.2.6.2 loads every "
+            "design lane and shares it equally among the girders (lanes x multiple presence "
+            "factor / girders): give DF deflection",
             "warning",
         )

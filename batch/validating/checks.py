@@ -596,7 +596,7 @@ def check_document(
         found += segment_problems(segments, document, cx.ok, UNIT_LABELS[cx.units]["length"])
     analysis = document.get("analysis")
     if isinstance(analysis, list):
-        found += analysis_problems(analysis, document, locator, cx.ok, set())
+        found += analysis_problems(analysis, document, locator, cx.ok)
     layout = document.get("layout")
     if isinstance(layout, list):
         found += layout_problems(
