@@ -19,9 +19,13 @@ from typing import Any
 from batch.reading.problems import DocPath, Locator, Severity
 from batch.validating.fields import finite_number
 
-__all__ = ["analysis_problems", "members_by_id"]
+__all__ = ["MemberRow", "analysis_problems", "members_by_id", "one_row_per_member"]
 
 Found = tuple[DocPath, str, str, Severity]
+
+#: A row of a sheet of one row per member, its member found: the row's path, the row,
+#: the member's index on the Members sheet and the member's row.
+MemberRow = tuple[DocPath, dict[str, Any], int, dict[str, Any]]
 
 
 def members_by_id(document: dict[str, Any]) -> dict[str, tuple[int, dict[str, Any]]]:
@@ -45,6 +49,53 @@ def unknown_member(name: str, at: DocPath) -> Found:
     )
 
 
+def one_row_per_member(
+    rows: list[Any],
+    document: dict[str, Any],
+    locator: Locator,
+    ok: Callable[[DocPath], bool],
+    key: str,
+    sheet: str,
+) -> tuple[list[Found], list[MemberRow]]:
+    """The rows of a sheet of one row per member (document key ``key``, titled ``sheet``).
+
+    Returns the problems (a member not on the Members sheet; a member's second row, code
+    ``duplicate-<key>``) and the rows whose member is found, first rows only; a row whose
+    Member was not read is skipped (its problem is already reported).
+    """
+    by_id = members_by_id(document)
+    seen: dict[str, DocPath] = {}
+    problems: list[Found] = []
+    found: list[MemberRow] = []
+    for i, row in enumerate(rows):
+        if not isinstance(row, dict):
+            continue
+        at: DocPath = (key, i)
+        name = row.get("member")
+        if not isinstance(name, str) or not ok((*at, "member")):
+            continue
+        member_key = name.strip().casefold()
+        hit = by_id.get(member_key)
+        if hit is None:
+            problems.append(unknown_member(name, at))
+            continue
+        if member_key in seen:
+            first_sheet, cell = locator.where(seen[member_key])
+            problems.append(
+                (
+                    (*at, "member"),
+                    f"duplicate-{key}",
+                    f"member {name.strip()!r} has a row already (also in {cell or first_sheet}); "
+                    f"keep one {sheet} row per member",
+                    "error",
+                )
+            )
+            continue
+        seen[member_key] = (*at, "member")
+        found.append((at, row, *hit))
+    return problems, found
+
+
 def analysis_problems(
     rows: list[Any],
     document: dict[str, Any],
@@ -52,30 +103,9 @@ def analysis_problems(
     ok: Callable[[DocPath], bool],
 ) -> Iterator[Found]:
     """Every cross-field problem of the Analysis rows (``ok(path)``: not yet reported)."""
-    by_id = members_by_id(document)
-    seen: dict[str, DocPath] = {}
-    for i, row in enumerate(rows):
-        if not isinstance(row, dict):
-            continue
-        at: DocPath = ("analysis", i)
-        name = row.get("member")
-        if not isinstance(name, str) or not ok((*at, "member")):
-            continue
-        if name.strip().casefold() not in by_id:
-            yield unknown_member(name, at)
-            continue
-        key = name.strip().casefold()
-        if key in seen:
-            sheet, cell = locator.where(seen[key])
-            yield (
-                (*at, "member"),
-                "duplicate-analysis",
-                f"member {name.strip()!r} has a row already (also in {cell or sheet}); keep "
-                "one Analysis row per member",
-                "error",
-            )
-            continue
-        seen[key] = (*at, "member")
+    problems, found = one_row_per_member(rows, document, locator, ok, "analysis", "Analysis")
+    yield from problems
+    for at, row, _index, _member in found:
         yield from _deflection(row, at, ok)
 
 

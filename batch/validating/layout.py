@@ -24,7 +24,7 @@ from typing import Any
 from batch.loads.distribution import LAYOUT_DFS, Note, layout_factors, number
 from batch.model.units import UnitSystem
 from batch.reading.problems import DocPath, Locator, Severity
-from batch.validating.analysis import members_by_id, unknown_member
+from batch.validating.analysis import one_row_per_member
 from batch.validating.fields import finite_number, shown
 from batch.validating.to_model import layout_of
 
@@ -75,34 +75,11 @@ def layout_problems(
     units: UnitSystem,
 ) -> Iterator[Found]:
     """Every cross-field problem of the Girder Layout rows (``ok(path)``: not yet reported)."""
-    by_id = members_by_id(document)
-    seen: dict[str, DocPath] = {}
-    for i, row in enumerate(rows):
-        if not isinstance(row, dict):
-            continue
-        at: DocPath = ("layout", i)
-        name = row.get("member")
-        if not isinstance(name, str) or not ok((*at, "member")):
-            continue
-        key = name.strip().casefold()
-        found = by_id.get(key)
-        if found is None:
-            yield unknown_member(name, at)
-            continue
-        if key in seen:
-            sheet, cell = locator.where(seen[key])
-            yield (
-                (*at, "member"),
-                "duplicate-layout",
-                f"member {name.strip()!r} has a row already (also in {cell or sheet}); keep one "
-                "Girder Layout row per member",
-                "error",
-            )
-            continue
-        seen[key] = (*at, "member")
+    duplicates, found = one_row_per_member(rows, document, locator, ok, "layout", "Girder Layout")
+    yield from duplicates
+    for at, row, index, member in found:
         problems = list(_stiffness(row, at, ok)) + list(_overhang(row, at, ok))
         yield from problems
-        index, member = found
         member_at: DocPath = ("members", index)
         if any(p[3] == "error" for p in problems) or not _judged(row, at, ok):
             continue
