@@ -371,6 +371,25 @@ def test_envelopes_continue_on_numbered_sheets_past_the_row_limit(tmp_path: Path
     assert any(isinstance(v, str) and "continue on Envelopes 2" in v for v in log)
 
 
+def test_every_result_sheet_declares_its_size(tmp_path: Path) -> None:
+    """Each sheet's dimension (ECMA-376 Part 1, §18.3.1.35) is the range it uses.
+
+    So openpyxl's read-only mode, which pandas uses, opens the workbook without
+    reading every row of every sheet; checked against the rows and columns openpyxl
+    finds by reading them all, continued sheets included.
+    """
+    path = _write(tmp_path, _case(), max_rows=21)
+    full = load_workbook(path)
+    declared = load_workbook(path, read_only=True)
+    assert "Envelopes 2" in full.sheetnames
+    for ws in full.worksheets:
+        sized = declared[ws.title]
+        assert (sized.max_row, sized.max_column) == (ws.max_row, ws.max_column), ws.title
+    with zipfile.ZipFile(path) as zf:
+        parts = [n for n in zf.namelist() if n.startswith("xl/worksheets/sheet")]
+        assert all(b"<dimension " in zf.read(n) for n in parts)
+
+
 @pytest.mark.parametrize(
     ("sheet", "effects"),
     [

@@ -335,3 +335,31 @@ def test_only_a_sheet_that_might_pass_2_gib_gets_zip64_headers(tmp_path: Path) -
         extra_len = int.from_bytes(data[at + 28 : at + 30], "little")
         extra = data[at + 30 + name_len : at + 30 + name_len + extra_len]
         assert (extra[:2] == b"\x01\x00") is zip64, part
+
+
+def test_a_sheet_of_known_size_declares_it_and_may_not_differ(tmp_path: Path) -> None:
+    """The dimension (ECMA-376 Part 1, §18.3.1.35) is the used range; readers trust it.
+
+    openpyxl's read-only mode (pandas' engine) takes a sheet's size from it; a wrong
+    one would cut rows off silently, so a stream that wrote otherwise refuses to close.
+    """
+
+    def write(book: ResultBook) -> None:
+        ws = book.new_sheet("Sized", rows=3, columns=2, exact=True)
+        ws.header(["a", "b"], [10, 10])
+        ws.block([[1.0, 2.0], [None, "x"]], [0, 0])
+
+    path = _save(write, tmp_path)
+    with zipfile.ZipFile(path) as zf:
+        part = next(n for n in zf.namelist() if n.startswith("xl/worksheets/"))
+        assert b'<dimension ref="A1:B3"/>' in zf.read(part)
+    ws = load_workbook(path, read_only=True)["Sized"]
+    assert (ws.max_row, ws.max_column) == (3, 2)
+
+    def short(book: ResultBook) -> None:
+        ws = book.new_sheet("Sized", rows=4, columns=2, exact=True)
+        ws.header(["a", "b"], [10, 10])
+        ws.row([1.0, 2.0])
+
+    with pytest.raises(ValueError, match="2 rows and 2 columns written, not the 4 and 2"):
+        _save(short, tmp_path, "short.xlsx")

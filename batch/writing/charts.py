@@ -96,7 +96,7 @@ def write_charts(
     columns = tuple(ENVELOPES.column(h) for h in ("Member", "x", *kind.effects))
     units = settings.unit_labels
     rows = 1 + sum(int(env.station_x.size) for env in charted)
-    ws = book.new_sheet(kind.sheet, rows=rows, columns=_CHART_COL)
+    ws = book.new_sheet(kind.sheet, rows=rows, columns=_CHART_COL, exact=True)
     titles = [col.title(units) for col in columns]
     widths = header_widths(titles, [col.width for col in columns])
     # The charts print, not their numbers (those are on Envelopes): two charts a page,

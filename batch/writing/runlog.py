@@ -184,7 +184,7 @@ def write_run_log(
 ) -> None:
     """Add the Run Log sheet; ``sheets`` are the result sheets written, ``notes`` about them."""
     rows = list(_rows(result, info, sheets, notes))
-    ws = book.new_sheet(RUN_LOG_SHEET, rows=len(rows) + 1, columns=2)
+    ws = book.new_sheet(RUN_LOG_SHEET, rows=len(rows) + 1, columns=2, exact=True)
     titles, widths = ("Item", "Value"), (30.0, 100.0)
     ws.page = page_setup(header_widths(titles, widths), 1, result.case.settings.units)
     ws.header(titles, widths)  # the titles fit on one line

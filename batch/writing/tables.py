@@ -147,6 +147,23 @@ def _marks(
     return marks
 
 
+def _sheet_rows(
+    table: AnyTable,
+    columns: Sequence[ResultColumn[Any]],
+    result: RunResult,
+    units: Mapping[str, str],
+    max_rows: int,
+) -> list[int]:
+    """The data rows of each sheet of a table that continues: whole blocks, in order."""
+    sizes = [0]
+    for block in table.blocks(result):
+        n = len(columns[0].cells(block, units))
+        if sizes[-1] + n > max_rows and sizes[-1]:
+            sizes.append(0)
+        sizes[-1] += n
+    return sizes
+
+
 def write_table(
     book: ResultBook, table: AnyTable, result: RunResult, max_rows: int = MAX_DATA_ROWS
 ) -> WrittenTable:
@@ -170,13 +187,16 @@ def write_table(
         )
     units = {**case.settings.unit_labels, "weight": WEIGHT_LABELS[case.settings.units]}
     styles = _Styles(book.styles, columns)
+    # Each sheet's data rows, known before it is started (its dimension): all of them on
+    # one sheet, or, for a table that continues, counted block by block beforehand.
+    sizes = _sheet_rows(table, columns, result, units, max_rows) if expected > max_rows else []
     sheets: list[str] = []
     on_sheet = total = 0
 
     def next_sheet() -> SheetStream:
         name = table.sheet if not sheets else f"{table.sheet} {len(sheets) + 1}"
-        rows = min(max_rows, max(expected - total, 0)) + 1
-        ws = book.new_sheet(name, rows=rows, columns=len(columns))
+        rows = (sizes[len(sheets)] if sizes else expected) + 1
+        ws = book.new_sheet(name, rows=rows, columns=len(columns), exact=True)
         write_header(ws, columns, units, case.settings.units, table.frozen_columns)
         ws.autofilter = True
         sheets.append(name)

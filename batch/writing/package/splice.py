@@ -163,12 +163,16 @@ class ResultBook:
         """Names of the sheets written so far, in order."""
         return tuple(s.stream.name for s in self.sheets)
 
-    def new_sheet(self, name: str, *, rows: int = MAX_ROWS, columns: int = 64) -> SheetStream:
+    def new_sheet(
+        self, name: str, *, rows: int = MAX_ROWS, columns: int = 64, exact: bool = False
+    ) -> SheetStream:
         """Start the sheet ``name``, finishing the one before.
 
         ``rows`` (header included) and ``columns`` bound the sheet's size: only
         a sheet that might pass 2 GiB of XML is written with zip64 headers, which
         some programs read less well, so give bounds as tight as you know.
+        ``exact``: they are the sheet's size, written as its dimension (see
+        :class:`~batch.writing.package.stream.SheetStream`), and checked when it closes.
         Raises :class:`SheetNameTaken` when a kept sheet has that name in any
         case, ``ValueError`` for a name no sheet may have.
         """
@@ -179,7 +183,13 @@ class ResultBook:
         self._finish_open()
         part = self._fresh("worksheets", "sheet")
         fh = self.out.open(part, "w", force_zip64=rows * columns * _CELL_BYTES > _ZIP64_AT)
-        stream = SheetStream(fh, name, self.styles, selected=name == self.fallback_active)
+        stream = SheetStream(
+            fh,
+            name,
+            self.styles,
+            selected=name == self.fallback_active,
+            extent=(rows, columns) if exact else None,
+        )
         entry = _NewSheet(stream=stream, part=part, rel="", sheet_id=self._next_id)
         self._next_id += 1
         self._taken_names.add(name.lower())
@@ -206,8 +216,8 @@ class ResultBook:
         if self._open is None:
             return
         entry, fh = self._open
+        entry.stream.close()  # if it refuses, the sheet stays open for abandon()
         self._open = None
-        entry.stream.close()
         fh.close()
         if entry.drawing is not None:
             self._write_drawing(entry)

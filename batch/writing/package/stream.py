@@ -148,15 +148,28 @@ class SheetStream:
     styles are indices from ``styles`` (see :meth:`StyleSheet.xf`). ``selected``
     marks the sheet's tab as selected (for the workbook's active sheet). Set
     :attr:`page` before the first row for a page setup.
+
+    ``extent`` (rows, columns), when the writer knows it, is the sheet's used range
+    from ``A1``, written as its ``dimension`` (§18.3.1.35): a reader then knows the
+    sheet's size without reading every row (openpyxl's read-only mode, which pandas
+    uses, reads a whole sheet to find it otherwise, for every sheet of the book).
+    :meth:`close` refuses a sheet whose rows and columns turn out otherwise.
     """
 
     def __init__(
-        self, fh: IO[bytes], name: str, styles: StyleSheet, *, selected: bool = False
+        self,
+        fh: IO[bytes],
+        name: str,
+        styles: StyleSheet,
+        *,
+        selected: bool = False,
+        extent: tuple[int, int] | None = None,
     ) -> None:
         self.fh = fh
         self.name = name
         self.styles = styles
         self.selected = selected
+        self.extent = extent
         self.last_row = 0
         self.last_column = 0
         self.drawing: str | None = None  # relationship id of the sheet's drawing
@@ -226,6 +239,9 @@ class SheetStream:
             for j, w in enumerate(self._widths, start=1)
         )
         fit = '<sheetPr><pageSetUpPr fitToPage="1"/></sheetPr>' if self.page else ""
+        if self.extent is not None:
+            last_row, last_column = self.extent
+            fit += f'<dimension ref="A1:{column_letter(last_column)}{last_row}"/>'
         self._emit(
             '<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n'
             f'<worksheet xmlns="{_MAIN_NS}" xmlns:r="{_REL_NS}">{fit}'
@@ -396,6 +412,11 @@ class SheetStream:
             return
         if not self._started:
             self._start()
+        if self.extent is not None and self.extent != (self.last_row, self.last_column):
+            raise ValueError(
+                f"{self.name}: {self.last_row} rows and {self.last_column} columns written, "
+                f"not the {self.extent[0]} and {self.extent[1]} declared as its dimension"
+            )
         tail = "</sheetData>"
         if self.autofilter:
             tail += f'<autoFilter ref="{self.filter_ref}"/>'
