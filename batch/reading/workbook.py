@@ -20,7 +20,7 @@ import itertools
 import re
 import warnings
 import zipfile
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -162,17 +162,32 @@ def _raw_sheet(
     )
 
 
-def _has_formulas(data: bytes) -> bool:
-    """Whether any worksheet holds a formula (an ``<f>`` element), by a scan of the raw XML.
+def _has_formulas(data: bytes, parts: Sequence[str] | None) -> bool:
+    """Whether a worksheet holds a formula (an ``<f>`` element), by a scan of the raw XML.
 
-    Most inventories hold none, and then the second, formula-reading pass is skipped.
+    Only the worksheet ``parts`` are scanned (the input sheets; None: every worksheet),
+    not the result sheets of an earlier run, which are replaced and never read. Most
+    inventories hold no formula, and then the second, formula-reading pass is skipped.
     """
     with zipfile.ZipFile(io.BytesIO(data)) as archive:
-        for name in archive.namelist():
+        for name in archive.namelist() if parts is None else parts:
             if name.startswith("xl/worksheets/") and name.endswith(".xml"):
                 if _FORMULA_TAG.search(archive.read(name)):
                     return True
     return False
+
+
+def _input_parts(values: Any, matching: Mapping[str, list[str]]) -> list[str] | None:
+    """The worksheet parts of the input sheets found (None: one part's name is unknown)."""
+    parts = []
+    for spec in INPUT_SHEETS:
+        for title in matching.get(spec.name.lower(), []):
+            # (openpyxl's read-only sheet keeps the name of its part privately)
+            part = getattr(values[title], "_worksheet_path", None)
+            if not isinstance(part, str):
+                return None
+            parts.append(part)
+    return parts
 
 
 @dataclass(frozen=True)
@@ -191,22 +206,19 @@ def _extract(data: bytes) -> _Extracted:
         # dates); reading values only, none of them matters here.
         warnings.simplefilter("ignore")
         values = openpyxl.load_workbook(io.BytesIO(data), read_only=True, data_only=True)
-        formulas = (
-            openpyxl.load_workbook(io.BytesIO(data), read_only=True, data_only=False)
-            if _has_formulas(data)
-            else None
-        )
+        formulas = None
         try:
             matching: dict[str, list[str]] = {}
             for t in values.sheetnames:
                 matching.setdefault(t.strip().lower(), []).append(t)
+            if _has_formulas(data, _input_parts(values, matching)):
+                formulas = openpyxl.load_workbook(io.BytesIO(data), read_only=True, data_only=False)
             raw = {}
             with zipfile.ZipFile(io.BytesIO(data)) as archive:
                 for spec in INPUT_SHEETS:
                     found = matching.get(spec.name.lower(), [])
                     if len(found) != 1 or not hasattr(values[found[0]], "iter_rows"):
                         continue
-                    # (openpyxl's read-only sheet keeps the name of its part privately)
                     part = getattr(values[found[0]], "_worksheet_path", None)
                     hidden = (
                         Hidden()

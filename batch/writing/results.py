@@ -9,6 +9,8 @@ result sheets are streamed in (:mod:`batch.writing.package.stream`).
 
 from __future__ import annotations
 
+import weakref
+
 from batch.reading.hidden import hidden_in_part
 from batch.running.executor import RunResult
 from batch.writing.charts import CHART_SHEETS, write_charts
@@ -79,6 +81,11 @@ def write_results(
     return book.names
 
 
+#: Each source's note, once made: the run and the console both ask, and the result sheets
+#: of a large run take seconds to scan.
+_REPLACED: weakref.WeakKeyDictionary[SourcePackage, tuple[str, bool]] = weakref.WeakKeyDictionary()
+
+
 def replaced_note(source: SourcePackage) -> tuple[str, bool] | None:
     """What a run does with the result sheets of an earlier run (None: there are none).
 
@@ -88,12 +95,15 @@ def replaced_note(source: SourcePackage) -> tuple[str, bool] | None:
     """
     if not source.ours:
         return None
+    known = _REPLACED.get(source)
+    if known is not None:
+        return known
     changed = []
     for sheet in source.sheets:
         if sheet.name not in source.ours or sheet.part is None:
             continue
-        hidden = len(hidden_in_part(source.zip, sheet.part, 1).rows)
-        filtered = b"<filterColumn" in source.read(sheet.part)
+        seen = hidden_in_part(source.zip, sheet.part, 1)
+        hidden, filtered = len(seen.rows), seen.filtered
         if hidden or filtered:
             what = [f"{hidden} hidden row{'s' if hidden != 1 else ''}"] if hidden else []
             changed.append(f"{sheet.name} ({', '.join(what + ['a filter'] * filtered)})")
@@ -107,7 +117,8 @@ def replaced_note(source: SourcePackage) -> tuple[str, bool] | None:
         f"Replaced the result sheets of an earlier run: {', '.join(source.ours)}.{views} "
         "Anything typed into them is not kept; keep your notes on sheets of your own."
     )
-    return text, bool(changed)
+    _REPLACED[source] = text, bool(changed)
+    return _REPLACED[source]
 
 
 def result_package(
