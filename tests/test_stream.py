@@ -363,3 +363,22 @@ def test_a_sheet_of_known_size_declares_it_and_may_not_differ(tmp_path: Path) ->
 
     with pytest.raises(ValueError, match="2 rows and 2 columns written, not the 4 and 2"):
         _save(short, tmp_path, "short.xlsx")
+
+
+def test_a_failed_write_reaches_the_writer_of_the_sheet() -> None:
+    """Chunks are written on a thread of their own; a failure there is raised here, in order."""
+
+    class Full(io.BytesIO):
+        def write(self, data) -> int:  # type: ignore[no-untyped-def, override]
+            if self.tell() > 100_000:
+                raise OSError(28, "No space left on device")
+            return super().write(data)
+
+    ws = SheetStream(Full(), "Full", StyleSheet(None))
+    ws.header(["a"], [10])
+    with pytest.raises(OSError, match="No space left"):
+        for _ in range(100):
+            ws.block([[float(k) for k in range(1000)]], [0])
+    with pytest.raises(OSError, match="No space left"):
+        ws.close()  # the sheet was never whole: closing says so again, and lets go of it
+    ws.close()  # closed already: nothing more to raise or to wait for

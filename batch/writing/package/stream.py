@@ -21,6 +21,8 @@ text. Characters XML 1.0 forbids are dropped, and text past a cell's limit of
 from __future__ import annotations
 
 import math
+import queue
+import threading
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from typing import IO
@@ -51,6 +53,47 @@ _CACHE_LIMIT = 100_000
 _NONE = type(None)
 _NUMBERS = frozenset((int, float, _NONE))
 _TEXTS = frozenset((str, _NONE))
+
+
+class _Behind:
+    """Writes bytes to ``fh`` on a thread of its own, in order, while the caller goes on.
+
+    A zip entry compresses what it is given (zlib and its checksum let other threads
+    run meanwhile), so a sheet's XML is made on one core while the last chunk is
+    compressed on another. At most ``depth`` chunks wait. A failure to write (a full
+    disk, say) is raised to the caller at its next :meth:`put` or at :meth:`close`.
+    """
+
+    def __init__(self, fh: IO[bytes], depth: int = 4) -> None:
+        self.fh = fh
+        self._queue: queue.Queue[bytes | None] = queue.Queue(depth)  # None: no more
+        self._error: BaseException | None = None
+        self._thread = threading.Thread(target=self._run, name="sheet-writer", daemon=True)
+        self._thread.start()
+
+    def _run(self) -> None:
+        while (data := self._queue.get()) is not None:
+            if self._error is None:
+                try:
+                    self.fh.write(data)
+                except BaseException as exc:  # handed to the caller, which decides
+                    self._error = exc
+
+    def _raise(self) -> None:
+        if self._error is not None:
+            raise self._error
+
+    def put(self, data: bytes) -> None:
+        """Queue ``data`` to be written after what was queued before."""
+        self._raise()
+        self._queue.put(data)
+
+    def close(self) -> None:
+        """Wait until everything queued is written (or has failed, which is raised)."""
+        if self._thread.is_alive():
+            self._queue.put(None)
+            self._thread.join()
+        self._raise()
 
 
 def column_letter(j: int) -> str:
@@ -181,6 +224,7 @@ class SheetStream:
         self._closed = False
         self._pending: list[str] = []
         self._size = 0
+        self._behind: _Behind | None = None
         self._letters: list[str] = [""]
         self._texts: dict[str, str] = {}
         self.header_style = styles.xf(HEADER)
@@ -362,7 +406,7 @@ class SheetStream:
         self, letter: str, rs: list[str], values: Sequence[object], style: int
     ) -> list[str]:
         """One column's cells of a block: a fast path for all-number and all-text columns."""
-        kinds = {type(v) for v in values}
+        kinds = set(map(type, values))
         s = f' s="{style}"' if style else ""
         head = f'<c r="{letter}'
         if kinds <= _NUMBERS:
@@ -397,7 +441,9 @@ class SheetStream:
 
     def _flush(self) -> None:
         if self._pending:
-            self.fh.write("".join(self._pending).encode("utf-8"))
+            if self._behind is None:
+                self._behind = _Behind(self.fh)
+            self._behind.put("".join(self._pending).encode("utf-8"))
         self._pending.clear()
         self._size = 0
 
@@ -410,22 +456,28 @@ class SheetStream:
         """End the sheet: autofilter (if :attr:`autofilter`), margins, page, drawing if any."""
         if self._closed:
             return
-        if not self._started:
-            self._start()
-        if self.extent is not None and self.extent != (self.last_row, self.last_column):
-            raise ValueError(
-                f"{self.name}: {self.last_row} rows and {self.last_column} columns written, "
-                f"not the {self.extent[0]} and {self.extent[1]} declared as its dimension"
-            )
-        tail = "</sheetData>"
-        if self.autofilter:
-            tail += f'<autoFilter ref="{self.filter_ref}"/>'
-        tail += '<pageMargins left="0.7" right="0.7" top="0.75" bottom="0.75" header="0.3"'
-        tail += ' footer="0.3"/>'
-        if self.page is not None:
-            tail += _page_xml(self.page)
-        if self.drawing:
-            tail += f'<drawing r:id="{self.drawing}"/>'
-        self._emit(tail + "</worksheet>")
-        self._flush()
-        self._closed = True
+        try:
+            if not self._started:
+                self._start()
+            if self.extent is not None and self.extent != (self.last_row, self.last_column):
+                raise ValueError(
+                    f"{self.name}: {self.last_row} rows and {self.last_column} columns written, "
+                    f"not the {self.extent[0]} and {self.extent[1]} declared as its dimension"
+                )
+            tail = "</sheetData>"
+            if self.autofilter:
+                tail += f'<autoFilter ref="{self.filter_ref}"/>'
+            tail += '<pageMargins left="0.7" right="0.7" top="0.75" bottom="0.75" header="0.3"'
+            tail += ' footer="0.3"/>'
+            if self.page is not None:
+                tail += _page_xml(self.page)
+            if self.drawing:
+                tail += f'<drawing r:id="{self.drawing}"/>'
+            self._emit(tail + "</worksheet>")
+            self._flush()
+        finally:
+            # Everything queued is written (or its failure raised) before ``fh`` is let go.
+            self._closed = True
+            behind, self._behind = self._behind, None
+            if behind is not None:
+                behind.close()
