@@ -450,3 +450,26 @@ def test_a_fleet_reports_the_spacing_of_each_ranged_gap() -> None:
     both = np.concatenate([found.max_spacing[1], found.min_spacing[1]])
     inside = (both > fleet[1].lo[[0, 2]] + 1e-6) & (both < fleet[1].hi[[0, 2]] - 1e-6)
     assert inside.any()
+
+
+def test_one_fleet_on_many_members_is_packed_once_and_answers_as_if_fresh() -> None:
+    # A run hands every member the same tuple of load cases, and the trains are laid out
+    # for the kernel once: a member shorter than a range's upper end caps that range at
+    # its length and gets its own layout. Every member's extremes, whichever way they
+    # were laid out, must equal those of the same cases handed over afresh (a list).
+    fleet = (
+        LoadCase(label="ranged", train=AxleTrain.of((8.0, 32.0, 32.0), (14.0, 14.0), (14.0, 30.0))),
+        LoadCase(label="long range", train=AxleTrain.of((20.0, 20.0), (4.0,), (45.0,))),
+        LoadCase(label="fixed", train=AxleTrain.of((10.0, 20.0), (12.0,))),
+        LoadCase(label="one axle", train=AxleTrain.of((25.0,), ())),
+    )
+    members = [([60.0, 80.0, 60.0], 10), ([30.0], 8), ([40.0, 40.0], 6), ([90.0], 12)]
+    for spans, stations in members + members[::-1]:
+        il = influence_lines(spans, [1.0] * len(spans), (), stations)
+        shared = fleet_extremes_of(il, fleet)
+        fresh = fleet_extremes_of(il, list(fleet))
+        for name in ("value", "position", "direction", "spacing"):
+            for sense in ("max", "min"):
+                got = getattr(shared, f"{sense}_{name}")
+                want = getattr(fresh, f"{sense}_{name}")
+                assert np.array_equal(got, want, equal_nan=True), (spans, sense, name)

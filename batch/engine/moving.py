@@ -25,6 +25,7 @@ from __future__ import annotations
 
 import functools
 import itertools
+import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 
@@ -162,12 +163,12 @@ def _prepared(
     return _Prepared(loads=p, lo=lo, hi=hi, combos=_combos(lo, hi))
 
 
-def _prepare(il: InfluenceLines, train: AxleTrain) -> _Prepared:
+def _prepare(length: float, train: AxleTrain) -> _Prepared:
     low, high = train.low, train.high
-    if max(high, default=0.0) > il.length:
+    if max(high, default=0.0) > length:
         # Cap ranges at the member length (see _spacings) without hiding an inverted range.
         high = tuple(
-            max(lo, il.length) if hi > il.length else hi for lo, hi in zip(low, high, strict=True)
+            max(lo, length) if hi > length else hi for lo, hi in zip(low, high, strict=True)
         )
     return _prepared(train.loads, low, high)
 
@@ -331,10 +332,70 @@ def fleet_extremes_of(
         out.max_spacing,
         out.min_spacing,
     )
+    packed = _fleet_packed(cases, il.length, width)
+    sigmas = np.array(directions, dtype=float)
+    # Rigid trains first, then the free-gap chains of ranged ones; ties keep the first.
+    for drop, (args, gaps, which) in packed.rigid.items():
+        for plan, keep in _kept(il, drop):
+            fleet_extremes(plan, *args, sigmas, tol, keep, kept, gaps, which)
+    for drop, (links, link_gaps, link_ranged) in packed.chains.items():
+        for plan, keep in _kept(il, drop):
+            chain_fleet(plan, *links, sigmas, tol, keep, kept, link_gaps, link_ranged)
+    return out
+
+
+@dataclass(frozen=True)
+class _Packed:
+    """A fleet's trains laid out for the compiled sweeps, by whether adverse axles drop.
+
+    For each: the arrays the sweep takes before the directions (rigid trains: loads,
+    offsets, where each train starts, output rows; chains add their groups and gap
+    bounds), every job's spacing and its ranged gaps padded to the output's width.
+    """
+
+    rigid: dict[bool, tuple[_RigidArgs, NDArray[np.float64], NDArray[np.int64]]]
+    chains: dict[bool, tuple[_ChainArgs, NDArray[np.float64], NDArray[np.int64]]]
+
+
+_F = NDArray[np.float64]
+_I = NDArray[np.int64]
+#: Loads, offsets, where each train starts, output rows.
+_RigidArgs = tuple[_F, _F, _I, _I]
+#: The same, then each chain's group starts and its gaps' lower and upper bounds.
+_ChainArgs = tuple[_F, _F, _I, _I, _I, _F, _F]
+
+
+#: The last fleet packed without capping, for the next member: (its cases, the width,
+#: the packing, the longest range end of any train). A run hands every member the same
+#: tuple of load cases, and only a member shorter than a range's end needs its own.
+_last_packed: tuple[tuple[LoadCase, ...], int, _Packed, float] | None = None
+
+
+def _fleet_packed(cases: Sequence[LoadCase], length: float, width: int) -> _Packed:
+    """``cases`` packed for a member of ``length``, once for all members alike.
+
+    Every member of a run whose length caps no range (see :func:`_prepare`) shares
+    one packing; a shorter one gets its own.
+    """
+    global _last_packed
+    last = _last_packed
+    if last is not None and last[0] is cases and last[1] == width:
+        return last[2] if length >= last[3] else _pack(cases, length, width)
+    longest = max((max(c.train.high, default=0.0) for c in cases), default=0.0)
+    if length < longest:
+        return _pack(cases, length, width)
+    packed = _pack(cases, math.inf, width)
+    if isinstance(cases, tuple):
+        _last_packed = (cases, width, packed, longest)
+    return packed
+
+
+def _pack(cases: Sequence[LoadCase], length: float, width: int) -> _Packed:
+    """The jobs of ``cases`` for a member of ``length`` (ranges capped there)."""
     rigid: dict[bool, list[_Job]] = {}
     chains: dict[bool, list[_Link]] = {}
     for row, t in enumerate(cases):
-        ready = _prepare(il, t.train)
+        ready = _prepare(length, t.train)
         ranged = t.train.ranged
         for combo in ready.combos:
             if combo.free:
@@ -344,22 +405,16 @@ def fleet_extremes_of(
             else:
                 job = (row, ready.loads, combo, ranged)
                 rigid.setdefault(t.drop_adverse_axles, []).append(job)
-    sigmas = np.array(directions, dtype=float)
-    # Rigid trains first, then the free-gap chains of ranged ones; ties keep the first.
+    packed = _Packed(rigid={}, chains={})
     for drop, jobs in rigid.items():
-        start = np.cumsum([0] + [p.size for _, p, _, _ in jobs], dtype=np.int64)
         args = (
             np.concatenate([p for _, p, _, _ in jobs]),
             np.concatenate([c.offsets for _, _, c, _ in jobs]),
-            start,
+            np.cumsum([0] + [p.size for _, p, _, _ in jobs], dtype=np.int64),
             np.array([row for row, _, _, _ in jobs], dtype=np.int64),
-            sigmas,
-            tol,
         )
         gaps = np.concatenate([c.spacing for _, _, c, _ in jobs])
-        which = _padded([r for _, _, _, r in jobs], width)
-        for plan, keep in _kept(il, drop):
-            fleet_extremes(plan, *args, keep, kept, gaps, which)
+        packed.rigid[drop] = args, gaps, _padded([r for _, _, _, r in jobs], width)
     for drop, links in chains.items():
         most = max(c.group_start.size for _, _, c, _, _, _ in links)
         groups = np.full((len(links), most), -1, dtype=np.int64)
@@ -377,14 +432,10 @@ def fleet_extremes_of(
             groups,
             gap_lo,
             gap_hi,
-            sigmas,
-            tol,
         )
         gaps = np.concatenate([c.spacing for _, _, c, _, _, _ in links])
-        which = _padded([r for _, _, _, _, _, r in links], width)
-        for plan, keep in _kept(il, drop):
-            chain_fleet(plan, *chain_args, keep, kept, gaps, which)
-    return out
+        packed.chains[drop] = chain_args, gaps, _padded([r for _, _, _, _, _, r in links], width)
+    return packed
 
 
 def _padded(rows: list[tuple[int, ...]], width: int) -> NDArray[np.int64]:
