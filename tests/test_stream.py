@@ -33,6 +33,8 @@ from batch.writing.package.styles import HIGHLIGHT_RGB, CellFormat, StyleSheet, 
 from batch.writing.package.xmltext import Splice, XmlPartError, parse
 
 NUMBERS = [0.1, 1 / 3, -0.0, 5e-324, 1e-300, 1.7976931348623157e308, -2.5, 2**53 + 1, 0, -7]
+# Where the exponent form begins differs between writers (0.000025 or 2.5e-05, 1e+16).
+NUMBERS += [2.5e-5, 1e-7, 1e16, 1e22, 123456789012345678.0, 0.30000000000000004]
 
 
 def _save(write, tmp_path: Path, name: str = "out.xlsx") -> Path:
@@ -382,3 +384,13 @@ def test_a_failed_write_reaches_the_writer_of_the_sheet() -> None:
     with pytest.raises(OSError, match="No space left"):
         ws.close()  # the sheet was never whole: closing says so again, and lets go of it
     ws.close()  # closed already: nothing more to raise or to wait for
+
+
+def test_numbers_past_64_bits_are_written_too() -> None:
+    """The fast numeral writer knows 64-bit integers only; a larger one is still exact."""
+    ws = SheetStream(io.BytesIO(), "Big", StyleSheet(None))
+    ws.header(["n"], [10])
+    ws.block([[2**70, 1.5]], [0])
+    ws.close()
+    xml = ws.fh.getvalue().decode()  # type: ignore[attr-defined]
+    assert f"<v>{2**70}</v>" in xml and "<v>1.5</v>" in xml

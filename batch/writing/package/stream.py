@@ -10,8 +10,8 @@ for a chart sheet, the ``drawing`` that holds the charts. A row may have a heigh
 of its own (``ht``, in points), e.g. for wrapped text.
 
 Cells: ``None`` and the empty string leave a cell empty; numbers are written as
-``<v>`` values in Python's shortest round-trip form (so a float64 reads back bit
-for bit); booleans as ``t="b"``; text *always* as an inline string
+``<v>`` values in their shortest round-trip form (so a float64 reads back bit
+for bit; see :func:`_numerals`); booleans as ``t="b"``; text *always* as an inline string
 (``t="inlineStr"``), never as a formula, so an id such as ``=cmd|...`` stays
 text. Characters XML 1.0 forbids are dropped, and text past a cell's limit of
 32,767 characters is cut there. A number that is not finite is refused
@@ -26,6 +26,8 @@ import threading
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from typing import IO
+
+import orjson
 
 from batch.writing.package.styles import HEADER, StyleSheet
 from batch.writing.package.xmltext import text
@@ -174,6 +176,23 @@ def _xml_number(value: object) -> int | float | None:
 def _height(points: float) -> str:
     """The attributes of a row of its own height (none for 0: the default height)."""
     return f' ht="{points:g}" customHeight="1"' if points > 0 else ""
+
+
+def _numerals(numbers: Sequence[object]) -> list[str]:
+    """Each finite number's shortest round-trip text (a float64 reads back bit for bit).
+
+    orjson writes them (Ryu: the fewest digits that read back as the same double, the
+    nearest such when there are several, as Python's ``repr``) about nine times faster
+    than ``repr``, one call for a column; only where exponents begin differs from
+    ``repr`` (``0.000025``, ``1e+16``), both read alike by every XML number parser.
+    An integer past 64 bits falls back to ``repr``.
+    """
+    if not numbers:
+        return []
+    try:
+        return orjson.dumps(numbers)[1:-1].decode("ascii").split(",")
+    except orjson.JSONEncodeError:
+        return [repr(v) for v in numbers]
 
 
 def _finite(values: Sequence[object], gaps: bool) -> bool:
@@ -414,8 +433,14 @@ class SheetStream:
                 bad = next(v for v in values if v is not None and not math.isfinite(v))  # type: ignore[arg-type]
                 raise ValueError(f"{self.name}: {bad} in column {letter} is not a number")
             mid = f'"{s}><v>'
+            gaps = _NONE in kinds
+            if not gaps:
+                return [
+                    f"{head}{r}{mid}{t}</v></c>" for r, t in zip(rs, _numerals(values), strict=True)
+                ]
+            shown = iter(_numerals([v for v in values if v is not None]))
             return [
-                "" if v is None else f"{head}{r}{mid}{v}</v></c>"
+                "" if v is None else f"{head}{r}{mid}{next(shown)}</v></c>"
                 for r, v in zip(rs, values, strict=True)
             ]
         if kinds <= _TEXTS:
