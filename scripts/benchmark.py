@@ -314,7 +314,7 @@ def main(argv: list[str] | None = None) -> int:
 
     # Kernel alone, three-span members, every vehicle (fixed and ranged), both directions,
     # the whole fleet in one call per member as in a run.
-    cases = fleet_cases(case.vehicles, settings)
+    cases = tuple(fleet_cases(case.vehicles, settings))  # as a run hands them over
     every = max(1, len(case.members) // 100)
     in_kernel = kernel_seconds(case, cases, every)
     three = [m for m in case.members if len(m.spans) == 3][:20]
