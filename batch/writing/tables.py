@@ -210,7 +210,7 @@ def write_table(
             raise ValueError(f"{table.sheet}: the columns of one member's rows differ in length")
         if n > max_rows:
             raise ValueError(f"{table.sheet}: one member has more rows than one sheet holds")
-        if on_sheet + n > max_rows:
+        if sizes and on_sheet + n > sizes[len(sheets) - 1]:  # the sheet is full
             ws = next_sheet()
             on_sheet = 0
         heights = _heights(columns, cells) if any(col.wrap for col in columns) else None
