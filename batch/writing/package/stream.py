@@ -195,12 +195,6 @@ def _numerals(numbers: Sequence[object]) -> list[str]:
         return [repr(v) for v in numbers]
 
 
-def _finite(values: Sequence[object], gaps: bool) -> bool:
-    """True when every number of ``values`` is finite (``gaps``: some values are None)."""
-    numbers = [v for v in values if v is not None] if gaps else values
-    return all(map(math.isfinite, numbers))  # type: ignore[arg-type]
-
-
 class SheetStream:
     """One worksheet, written top to bottom to ``fh`` (a binary file, e.g. a zip entry).
 
@@ -429,16 +423,17 @@ class SheetStream:
         s = f' s="{style}"' if style else ""
         head = f'<c r="{letter}'
         if kinds <= _NUMBERS:
-            if float in kinds and not _finite(values, _NONE in kinds):
-                bad = next(v for v in values if v is not None and not math.isfinite(v))  # type: ignore[arg-type]
+            gaps = _NONE in kinds
+            numbers = [v for v in values if v is not None] if gaps else values
+            if float in kinds and not all(map(math.isfinite, numbers)):  # type: ignore[arg-type]
+                bad = next(v for v in numbers if not math.isfinite(v))  # type: ignore[arg-type]
                 raise ValueError(f"{self.name}: {bad} in column {letter} is not a number")
             mid = f'"{s}><v>'
-            gaps = _NONE in kinds
             if not gaps:
                 return [
                     f"{head}{r}{mid}{t}</v></c>" for r, t in zip(rs, _numerals(values), strict=True)
                 ]
-            shown = iter(_numerals([v for v in values if v is not None]))
+            shown = iter(_numerals(numbers))
             return [
                 "" if v is None else f"{head}{r}{mid}{next(shown)}</v></c>"
                 for r, v in zip(rs, values, strict=True)
